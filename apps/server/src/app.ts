@@ -1,0 +1,48 @@
+import { existsSync } from "node:fs";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+import express, { type Express } from "express";
+import type { AppContext } from "./context";
+import { apiNotFoundHandler, errorHandler } from "./http/errors";
+import { loadSession, originCheck } from "./http/session";
+import { authRoutes } from "./routes/auth";
+import { apiRouteModules } from "./routes/index";
+
+const webDist = join(dirname(fileURLToPath(import.meta.url)), "../../web/dist");
+
+export function createApp(context: AppContext): Express {
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", "loopback");
+
+  const api = express.Router();
+  api.use(express.json({ limit: "1mb" }));
+  api.use(originCheck);
+  api.use(loadSession(context.lucia));
+  api.get("/health", (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.use(authRoutes(context));
+  for (const routes of apiRouteModules) api.use(routes(context));
+  api.use(apiNotFoundHandler);
+  app.use("/api", api);
+
+  // In production one process serves the built web app too; every non-API path gets index.html (client routing).
+  if (existsSync(join(webDist, "index.html"))) {
+    app.use(express.static(webDist, { index: false, maxAge: "1h" }));
+    app.get("/{*splat}", (_req, res) => {
+      res.setHeader("Cache-Control", "no-cache");
+      res.sendFile(join(webDist, "index.html"));
+    });
+  } else {
+    app.get("/", (_req, res) => {
+      res
+        .status(503)
+        .type("text/plain")
+        .send("The Calmcrest web app is not built yet. Run `npm start` (it builds it) or `npm run dev` for the development server.");
+    });
+  }
+
+  app.use(errorHandler);
+  return app;
+}

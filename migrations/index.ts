@@ -1,0 +1,23 @@
+import type { Knex } from "knex";
+import * as usersAndSessions from "./20261201_0001_users_and_sessions";
+
+interface Migration {
+  up(knex: Knex): Promise<void>;
+  down(knex: Knex): Promise<void>;
+}
+
+// Migrations are listed here in order (imported statically, so they run the same under tsx, vitest and a bundle).
+// To add one: create `YYYYMMDD_NNNN_what_it_does.ts` beside this file and append it below.
+const migrations: [name: string, migration: Migration][] = [
+  ["20261201_0001_users_and_sessions", usersAndSessions],
+];
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => migrations.map(([name]) => name),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => {
+    const found = migrations.find(([candidate]) => candidate === name);
+    if (!found) throw new Error(`Unknown migration ${name}`);
+    return found[1];
+  },
+};

@@ -1,0 +1,20 @@
+import { queryOptions } from "@tanstack/react-query";
+import type { Me, SignInInput } from "@calmcrest/contracts";
+import { ApiError, api } from "./client";
+
+/** The signed-in user, or null when signed out. */
+export const meQuery = queryOptions({
+  queryKey: ["me"],
+  queryFn: async (): Promise<Me | null> => {
+    try {
+      return await api<Me>("/me");
+    } catch (error) {
+      if (error instanceof ApiError && error.status === 401) return null;
+      throw error;
+    }
+  },
+  staleTime: 60_000,
+});
+
+export const signIn = (input: SignInInput) => api<Me>("/auth/sign-in", { body: input });
+export const signOut = () => api<{ ok: true }>("/auth/sign-out", { method: "POST" });

@@ -1,0 +1,20 @@
+import { describe, expect, it } from "vitest";
+import { homeFor, mayUse, navFor } from "./navigation";
+
+describe("navigation by role", () => {
+  it("shows the field screens to field engineers but not people management", () => {
+    expect(navFor("engineer").map((item) => item.label)).toEqual(["Sites", "Upload logs"]);
+  });
+
+  it("shows committee members only reports", () => {
+    expect(navFor("committee").map((item) => item.label)).toEqual(["Reports"]);
+    expect(homeFor("committee")).toBe("/reports");
+    expect(mayUse("committee", "/sites/abc")).toBe(false);
+  });
+
+  it("lets admins manage people and read sites", () => {
+    expect(navFor("admin").map((item) => item.to)).toEqual(["/sites", "/reports", "/admin/people"]);
+    expect(mayUse("admin", "/admin/people")).toBe(true);
+    expect(mayUse("lead", "/admin/people")).toBe(false);
+  });
+});

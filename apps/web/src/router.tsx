@@ -1,0 +1,48 @@
+import type { QueryClient } from "@tanstack/react-query";
+import { createBrowserRouter, redirect, type RouteObject } from "react-router-dom";
+import { meQuery } from "./api/auth";
+import { homeFor } from "./navigation";
+import { requireMe, roleLoader } from "./route-guards";
+import { AppLayout } from "./routes/_app";
+import { ReportsPage } from "./routes/reports";
+import { RouteError } from "./routes/route-error";
+import { SignInPage } from "./routes/sign-in";
+
+/** Signed-in pages other areas add (sites, campaigns, upload, people): see DEVELOPERS.md "Add a page". */
+export function appRoutes(queryClient: QueryClient): RouteObject[] {
+  return [
+    { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
+  ];
+}
+
+export function createRouter(queryClient: QueryClient) {
+  return createBrowserRouter([
+    {
+      path: "/sign-in",
+      loader: async () => {
+        const me = await queryClient.ensureQueryData(meQuery);
+        return me ? redirect(homeFor(me.role)) : null;
+      },
+      element: <SignInPage />,
+    },
+    {
+      path: "/",
+      loader: ({ request }) => requireMe(queryClient, request),
+      element: <AppLayout />,
+      errorElement: <RouteError />,
+      children: [
+        {
+          errorElement: <RouteError />,
+          children: [
+            {
+              index: true,
+              loader: async ({ request }) => redirect(homeFor((await requireMe(queryClient, request)).role)),
+            },
+            ...appRoutes(queryClient),
+            { path: "*", loader: () => { throw new Response("Not found", { status: 404 }); } },
+          ],
+        },
+      ],
+    },
+  ]);
+}

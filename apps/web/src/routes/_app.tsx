@@ -1,0 +1,67 @@
+import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
+import { NavLink, Outlet, useNavigate } from "react-router-dom";
+import { ROLE_LABELS } from "@calmcrest/contracts";
+import { meQuery, signOut } from "../api/auth";
+import { Logo } from "../components/logo";
+import { navFor } from "../navigation";
+
+/** The shell around every signed-in page: product name, the role's own navigation, who is signed in. */
+export function AppLayout() {
+  const { data: me } = useSuspenseQuery(meQuery);
+  const queryClient = useQueryClient();
+  const navigate = useNavigate();
+  if (!me) return null; // the loader redirects signed-out visitors before this renders
+
+  const onSignOut = async () => {
+    try {
+      await signOut();
+    } finally {
+      queryClient.clear();
+      await navigate("/sign-in", { replace: true });
+    }
+  };
+
+  return (
+    <div className="flex min-h-full flex-col">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-[2000] focus:rounded focus:bg-panel focus:px-3 focus:py-2">
+        Skip to content
+      </a>
+      <header className="bg-night text-night-ink">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3 sm:px-6">
+          <NavLink to="/" className="flex items-center gap-2 font-semibold text-white">
+            <Logo className="h-7 w-7" />
+            Calmcrest
+          </NavLink>
+          <nav aria-label="Main" className="flex flex-wrap gap-1">
+            {navFor(me.role).map((item) => (
+              <NavLink
+                key={item.to}
+                to={item.to}
+                className={({ isActive }) =>
+                  `rounded-md px-3 py-1.5 text-sm font-semibold ${isActive ? "bg-white/15 text-white" : "text-night-ink hover:bg-white/10"}`
+                }
+              >
+                {item.label}
+              </NavLink>
+            ))}
+          </nav>
+          <div className="ml-auto flex items-center gap-3 text-sm">
+            <span>
+              <span className="font-semibold text-white">{me.name}</span>
+              <span className="text-night-ink"> · {ROLE_LABELS[me.role]}</span>
+            </span>
+            <button type="button" onClick={onSignOut} className="rounded-md border border-white/30 px-3 py-1 font-semibold hover:bg-white/10">
+              Sign out
+            </button>
+          </div>
+        </div>
+      </header>
+      <main id="main" className="flex-1">
+        <Outlet />
+      </main>
+      <footer className="border-t border-line px-4 py-3 text-center text-xs text-ink-soft">
+        Calmcrest reports seeing statistics; the choice of site rests with the site-selection committee.
+      </footer>
+    </div>
+  );
+}

@@ -1,3 +1,8 @@
 // Shared between the web app and the server: request schemas (zod) and response types.
 export * from "./auth";
 export * from "./errors";
+export * from "./sites";
+export * from "./campaigns";
+export * from "./uploads";
+export * from "./summaries";
+export * from "./users";

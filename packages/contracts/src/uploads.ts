@@ -1,0 +1,104 @@
+import type { ColumnMappingInput } from "./campaigns";
+
+export const UPLOAD_STATUSES = ["queued", "ingesting", "done", "failed", "interrupted"] as const;
+export type UploadStatusName = (typeof UPLOAD_STATUSES)[number];
+
+/**
+ * Why a row did not become an accepted sample. The first group is decided at ingest (the row is not stored);
+ * the filter reasons and `excluded_window` are applied at summary time with the query's settings.
+ */
+export const REJECT_REASONS = [
+  "unreadable_time",
+  "missing_value",
+  "non_physical",
+  "duplicate_time",
+  "zenith_limit",
+  "sun_above_limit",
+  "low_flux",
+  "excluded_window",
+] as const;
+export type RejectReasonName = (typeof REJECT_REASONS)[number];
+
+export interface SampleCounts {
+  read: number;
+  accepted: number;
+  rejected: number;
+  rejectedByReason: Partial<Record<RejectReasonName, number>>;
+}
+
+export interface RejectedRow {
+  /** 1-based line number in the uploaded file. */
+  line: number;
+  reason: RejectReasonName;
+  message: string;
+}
+
+/** An upload as listed in a campaign. */
+export interface UploadListItem {
+  id: number;
+  campaignId: number;
+  fileName: string;
+  sizeBytes: number;
+  sha256: string;
+  uploadedBy: { id: string; name: string };
+  uploadedAt: string;
+  mapping: ColumnMappingInput;
+  status: UploadStatusName;
+  /** Ingest-time counts: read = data rows in the file; accepted = samples stored. */
+  samples: SampleCounts;
+  error: string | null;
+  finishedAt: string | null;
+}
+
+/** `GET /api/uploads/:id`. Poll it while status is queued or ingesting. */
+export interface UploadStatus extends UploadListItem {
+  /** 0..1; fraction of the file's bytes read while ingesting, 1 when done. */
+  progress: number;
+  /** The first 100 rejected rows; `GET /api/uploads/:id/rejected.csv` gives all of them. */
+  rejectedRows: RejectedRow[];
+  startedAt: string | null;
+}
+
+/** 202 answer of `POST /api/campaigns/:id/uploads` once the raw file is stored. */
+export interface UploadAccepted {
+  upload: { id: number; status: UploadStatusName };
+}
+
+/** 409 answer of `POST /api/campaigns/:id/uploads` when the same bytes were already uploaded to this campaign. */
+export interface UploadDuplicateBody {
+  error: { code: "duplicate_upload"; message: string };
+  upload: UploadListItem;
+}
+
+/** A sample as the seeing engine reads it (zenith, 500 nm), shown in the upload preview. */
+export interface PreviewSample {
+  timeMs: number;
+  seeingArcsec: number;
+  r0Cm: number;
+  zenithDeg: number;
+  seeingLongArcsec: number | null;
+  seeingTransArcsec: number | null;
+  anisotropic: boolean;
+  sunAltDeg: number | null;
+  flux: number | null;
+  scintIndex: number | null;
+  tau0Ms: number | null;
+  theta0Arcsec: number | null;
+  windMs: number | null;
+  rhPct: number | null;
+}
+
+/**
+ * `POST /api/campaigns/:id/uploads/preview` (multipart `file` with the first rows, optional `mapping` JSON).
+ * Nothing is stored. `rows` are the first 20 data rows as read with the mapping (the proposed one if none was sent).
+ */
+export interface UploadPreview {
+  delimiter: string;
+  headers: string[];
+  proposedMapping: ColumnMappingInput;
+  /** Problems with the mapping used (sent or proposed); [] means it can be used. */
+  mappingProblems: string[];
+  /** The mapping the rows were read with. */
+  mappingUsed: ColumnMappingInput;
+  rows: { line: number; values: Record<string, string>; sample: PreviewSample | null; problem: string | null }[];
+}

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import * as usersAndSessions from "./20261201_0001_users_and_sessions";
+import * as sitesCampaignsUploads from "./20261202_0001_sites_campaigns_uploads";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -10,6 +11,7 @@ interface Migration {
 // To add one: create `YYYYMMDD_NNNN_what_it_does.ts` beside this file and append it below.
 const migrations: [name: string, migration: Migration][] = [
   ["20261201_0001_users_and_sessions", usersAndSessions],
+  ["20261202_0001_sites_campaigns_uploads", sitesCampaignsUploads],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,7 +1,7 @@
 import type { QueryClient } from "@tanstack/react-query";
 import { createBrowserRouter, redirect, type RouteObject } from "react-router-dom";
 import { meQuery } from "./api/auth";
-import { homeFor } from "./navigation";
+import { NAV_ITEMS, homeFor, mayUse } from "./navigation";
 import { requireMe, roleLoader } from "./route-guards";
 import { AppLayout } from "./routes/_app";
 import { ReportsPage } from "./routes/reports";
@@ -39,7 +39,17 @@ export function createRouter(queryClient: QueryClient) {
               loader: async ({ request }) => redirect(homeFor((await requireMe(queryClient, request)).role)),
             },
             ...appRoutes(queryClient),
-            { path: "*", loader: () => { throw new Response("Not found", { status: 404 }); } },
+            {
+              path: "*",
+              loader: async ({ request }) => {
+                // A known screen that this role may not use reads "not for your role"; anything else is simply not there.
+                const me = await requireMe(queryClient, request);
+                const path = new URL(request.url).pathname;
+                const known = NAV_ITEMS.some((item) => path === item.to || path.startsWith(`${item.to}/`));
+                if (known && !mayUse(me.role, path)) throw new Response("Not for your role", { status: 403 });
+                throw new Response("Not found", { status: 404 });
+              },
+            },
           ],
         },
       ],

@@ -1,0 +1,24 @@
+import { queryOptions } from "@tanstack/react-query";
+import type { CreateCampaignInput, CreateSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
+import { api } from "./client";
+import { summaryQueryString } from "../lib/filter-params";
+
+export const sitesQuery = queryOptions({
+  queryKey: ["sites", "list"],
+  queryFn: () => api<SiteListItem[]>("/sites"),
+});
+
+export const siteQuery = (siteId: number) =>
+  queryOptions({
+    queryKey: ["sites", "detail", siteId],
+    queryFn: () => api<SiteDetail>(`/sites/${siteId}`),
+  });
+
+export const siteSummaryQuery = (siteId: number, filters: SummaryQuery) =>
+  queryOptions({
+    queryKey: ["sites", "detail", siteId, "summary", filters],
+    queryFn: () => api<SummaryResponse>(`/sites/${siteId}/summary${summaryQueryString(filters)}`),
+  });
+
+export const createSite = (input: CreateSiteInput) => api<SiteDetail>("/sites", { body: input });
+export const createCampaign = (siteId: number, input: CreateCampaignInput) => api<unknown>(`/sites/${siteId}/campaigns`, { body: input });

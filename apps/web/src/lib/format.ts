@@ -1,0 +1,50 @@
+/** Display helpers: one place decides decimals and units so every screen writes numbers the same way. */
+
+export const ARCSEC = "″";
+
+export function formatArcsec(seeingArcsec: number | null | undefined, decimals = 2): string {
+  return seeingArcsec === null || seeingArcsec === undefined || !Number.isFinite(seeingArcsec) ? "–" : `${seeingArcsec.toFixed(decimals)}${ARCSEC}`;
+}
+
+export function formatNumber(value: number | null | undefined, decimals = 0): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return "–";
+  return value.toLocaleString("en-GB", { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
+}
+
+export function formatPercent(fraction: number | null | undefined, decimals = 0): string {
+  return fraction === null || fraction === undefined || !Number.isFinite(fraction) ? "–" : `${(fraction * 100).toFixed(decimals)} %`;
+}
+
+/** Dates are shown in UTC (the logs are in UTC), as 2026-03-04 14:05 UTC. */
+export function formatDateTimeUtc(iso: string | null | undefined): string {
+  if (!iso) return "–";
+  const date = new Date(iso);
+  if (Number.isNaN(date.getTime())) return iso;
+  return `${date.toISOString().slice(0, 16).replace("T", " ")} UTC`;
+}
+
+export function formatDateUtc(iso: string | null | undefined): string {
+  if (!iso) return "–";
+  const date = new Date(iso.length === 10 ? `${iso}T00:00:00Z` : iso);
+  return Number.isNaN(date.getTime()) ? iso : date.toISOString().slice(0, 10);
+}
+
+export function formatBytes(sizeBytes: number): string {
+  if (sizeBytes < 1024) return `${sizeBytes} B`;
+  if (sizeBytes < 1024 * 1024) return `${(sizeBytes / 1024).toFixed(1)} kB`;
+  return `${(sizeBytes / (1024 * 1024)).toFixed(1)} MB`;
+}
+
+const REASON_LABELS: Record<string, string> = {
+  unreadable_time: "unreadable time",
+  missing_value: "missing value",
+  non_physical: "impossible value",
+  duplicate_time: "duplicate time",
+  zenith_limit: "beyond zenith limit",
+  sun_above_limit: "sun too high",
+  low_flux: "flux too low",
+  excluded_window: "in an excluded window",
+};
+
+/** Plain words for a rejection reason code. */
+export const reasonLabel = (reason: string) => REASON_LABELS[reason] ?? reason.replaceAll("_", " ");

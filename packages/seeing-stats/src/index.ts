@@ -1,0 +1,54 @@
+// @calmcrest/seeing-stats: pure, browser-safe seeing computation (no node: imports here; see ./node for files).
+
+// Errors: the one failure contract.
+export { SeeingInputError, LogFormatError } from './errors.js';
+
+// Physics: DIMM response, Fried parameter, seeing, normalisation to zenith and 500 nm, corrections.
+export { ARCSEC_PER_RADIAN, SEEING_CONSTANT, REFERENCE_WAVELENGTH_NM } from './physics/constants.js';
+export { responseCoefficients, RESPONSE_SETS, RESPONSE_SET_NAMES, type ResponseSet, type ResponseCoefficients } from './physics/responseCoefficients.js';
+export { r0FromVariance } from './physics/r0FromVariance.js';
+export { varianceFromR0 } from './physics/varianceFromR0.js';
+export { seeingFromR0 } from './physics/seeingFromR0.js';
+export { r0FromSeeing } from './physics/r0FromSeeing.js';
+export { seeingToZenith, seeingAtZenithAngle, r0ToZenith, r0AtZenithAngle } from './physics/toZenith.js';
+export { zenithFromAirmass } from './physics/zenithFromAirmass.js';
+export { r0AtWavelength, seeingAtWavelength } from './physics/toWavelength.js';
+export { exposureTimeCorrection } from './physics/exposureTimeCorrection.js';
+export { vonKarmanFwhm, type VonKarmanOptions } from './physics/vonKarmanFwhm.js';
+
+// Statistics: percentiles, log-normal fit, tests, bootstrap, random numbers.
+export { percentile, percentileSorted } from './stats/percentile.js';
+export { fitLogNormal, type LogNormalFit } from './stats/fitLogNormal.js';
+export { ksDistanceLogNormal } from './stats/ksDistanceLogNormal.js';
+export { normalCdf } from './stats/normalCdf.js';
+export { mannWhitney, type MannWhitneyResult } from './stats/mannWhitney.js';
+export { bootstrapPooledMedian, type GroupedValues } from './stats/bootstrapPooledMedian.js';
+export { createRandom, normalDeviate } from './stats/random.js';
+
+// Log format: fields, mapping, delimiter, rows, filters, preview.
+export { LOG_FIELDS, LOG_FIELD_INFO, isLogField, type LogField, type ColumnMapping, type FieldRequirement } from './log/logFields.js';
+export { proposeMapping } from './log/proposeMapping.js';
+export { checkMapping } from './log/checkMapping.js';
+export { detectDelimiter, type LogDelimiter } from './log/detectDelimiter.js';
+export { parseUtcTime } from './log/parseUtcTime.js';
+export { createSunAltitude, type SiteLocation } from './log/sunAltitude.js';
+export {
+  createRowReader,
+  chooseMeasure,
+  validateMonitor,
+  DEFAULT_ANISOTROPY_RATIO_LIMIT,
+  type MonitorSettings,
+  type LogSample,
+  type RowResult,
+  type RowRejectReason,
+  type FilterRejectReason,
+  type RejectReason,
+  type MeasureSource,
+} from './log/createRowReader.js';
+export { filterReason, DEFAULT_FILTERS, type FilterSettings } from './log/filterReason.js';
+export { previewLog, isCommentOrBlank, type LogPreview } from './log/previewLog.js';
+
+// Summaries: one site, two sites compared, nights.
+export { summarizeSeeing, thresholdKey, DEFAULT_THRESHOLDS_ARCSEC, type SampleColumns, type SummaryOptions, type SeeingSummary } from './summary/summarizeSeeing.js';
+export { compareSeeing, type SiteComparison } from './summary/compareSeeing.js';
+export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './summary/nightLabel.js';

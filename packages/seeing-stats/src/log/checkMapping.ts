@@ -1,0 +1,46 @@
+import { LOG_FIELD_INFO, isLogField, type ColumnMapping } from './logFields.js';
+
+/**
+ * Problems with a mapping that a person can act on, in plain words; [] when the mapping can be read.
+ * Checks: every mapped header exists, no header serves two fields, a time column, one complete measure
+ * (both variances, or seeing, or r0), and a pointing (zenith angle or airmass).
+ */
+export function checkMapping(mapping: ColumnMapping, headers: readonly string[]): string[] {
+  const problems: string[] = [];
+  const headerSet = new Set(headers);
+  const fieldOfHeader = new Map<string, string>();
+  for (const [field, header] of Object.entries(mapping)) {
+    if (header === undefined) continue;
+    if (!isLogField(field)) {
+      problems.push(`"${field}" is not a Calmcrest log field; use one of the names in docs/log-format.md.`);
+      continue;
+    }
+    if (!headerSet.has(header)) {
+      problems.push(`${field} is mapped to the column "${header}", but the file has no such column (columns: ${headers.map((name) => `"${name}"`).join(', ')}).`);
+    }
+    const earlier = fieldOfHeader.get(header);
+    if (earlier !== undefined) problems.push(`The column "${header}" is mapped to both ${earlier} and ${field}; map each column to one field.`);
+    else fieldOfHeader.set(header, field);
+  }
+  if (mapping.time_utc === undefined) {
+    problems.push(`No column holds time_utc (${LOG_FIELD_INFO.time_utc.label}); map the column with the sample times to it.`);
+  }
+  const hasLongArcsec = mapping.var_long_arcsec2 !== undefined;
+  const hasTransArcsec = mapping.var_trans_arcsec2 !== undefined;
+  const hasLongPixel = mapping.var_long_px2 !== undefined;
+  const hasTransPixel = mapping.var_trans_px2 !== undefined;
+  if (hasLongArcsec !== hasTransArcsec) {
+    problems.push('Only one of var_long_arcsec2 and var_trans_arcsec2 is mapped; seeing from variances needs both axes.');
+  }
+  if (hasLongPixel !== hasTransPixel) {
+    problems.push('Only one of var_long_px2 and var_trans_px2 is mapped; seeing from variances needs both axes.');
+  }
+  const hasMeasure = (hasLongArcsec && hasTransArcsec) || (hasLongPixel && hasTransPixel) || mapping.seeing_arcsec !== undefined || mapping.r0_cm !== undefined;
+  if (!hasMeasure) {
+    problems.push('No seeing measure is mapped: map both image-motion variances (var_long_… and var_trans_…), or seeing_arcsec, or r0_cm.');
+  }
+  if (mapping.zenith_deg === undefined && mapping.airmass === undefined) {
+    problems.push('No pointing is mapped: map zenith_deg (zenith angle in degrees) or airmass, so samples can be reduced to zenith.');
+  }
+  return problems;
+}

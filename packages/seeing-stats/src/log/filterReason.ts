@@ -1,0 +1,24 @@
+import type { FilterRejectReason, LogSample } from './createRowReader.js';
+
+export interface FilterSettings {
+  /** Samples with a zenith angle above this are dropped; 60° (airmass 2) by default. */
+  maxZenithDeg: number;
+  /** Samples with the sun above this altitude are dropped; −18° (astronomical night) by default. */
+  sunMaxDeg: number;
+  /** Samples with a known flux below this are dropped; null = no flux filter. */
+  minFlux: number | null;
+}
+
+export const DEFAULT_FILTERS: FilterSettings = { maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null };
+
+/**
+ * The first filter a sample fails, in the order zenith limit, sun altitude, flux; null when it passes.
+ * The sun filter applies only when the sample has a sun altitude (a site was given), the flux filter only
+ * when the sample has a flux. Boundaries pass: zenith exactly at the limit, sun exactly at the limit, flux equal to the minimum.
+ */
+export function filterReason(sample: Pick<LogSample, 'zenithDeg' | 'sunAltDeg' | 'flux'>, filters: FilterSettings): FilterRejectReason | null {
+  if (sample.zenithDeg > filters.maxZenithDeg) return 'zenith_limit';
+  if (sample.sunAltDeg !== null && sample.sunAltDeg > filters.sunMaxDeg) return 'sun_above_limit';
+  if (filters.minFlux !== null && sample.flux !== null && sample.flux < filters.minFlux) return 'low_flux';
+  return null;
+}

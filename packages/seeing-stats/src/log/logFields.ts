@@ -1,0 +1,63 @@
+/** Field names of Calmcrest's native log format (docs/log-format.md). */
+export type LogField =
+  | 'time_utc'
+  | 'var_long_arcsec2'
+  | 'var_trans_arcsec2'
+  | 'var_long_px2'
+  | 'var_trans_px2'
+  | 'seeing_arcsec'
+  | 'r0_cm'
+  | 'zenith_deg'
+  | 'airmass'
+  | 'flux'
+  | 'scint_index'
+  | 'tau0_ms'
+  | 'theta0_arcsec'
+  | 'wind_ms'
+  | 'rh_pct';
+
+export const LOG_FIELDS: readonly LogField[] = [
+  'time_utc',
+  'var_long_arcsec2',
+  'var_trans_arcsec2',
+  'var_long_px2',
+  'var_trans_px2',
+  'seeing_arcsec',
+  'r0_cm',
+  'zenith_deg',
+  'airmass',
+  'flux',
+  'scint_index',
+  'tau0_ms',
+  'theta0_arcsec',
+  'wind_ms',
+  'rh_pct',
+];
+
+export type FieldRequirement = 'always' | 'one-measure' | 'one-pointing' | 'optional';
+
+/** What each field holds, for forms and messages. */
+export const LOG_FIELD_INFO: Record<LogField, { label: string; unit: string; required: FieldRequirement }> = {
+  time_utc: { label: 'Time of the sample (ISO 8601, UTC)', unit: 'UTC', required: 'always' },
+  var_long_arcsec2: { label: 'Longitudinal differential image-motion variance', unit: 'arcsec²', required: 'one-measure' },
+  var_trans_arcsec2: { label: 'Transverse differential image-motion variance', unit: 'arcsec²', required: 'one-measure' },
+  var_long_px2: { label: 'Longitudinal differential image-motion variance', unit: 'pixel²', required: 'one-measure' },
+  var_trans_px2: { label: 'Transverse differential image-motion variance', unit: 'pixel²', required: 'one-measure' },
+  seeing_arcsec: { label: 'Seeing FWHM as the monitor computed it', unit: 'arcsec', required: 'one-measure' },
+  r0_cm: { label: 'Fried parameter r0 as the monitor computed it', unit: 'cm', required: 'one-measure' },
+  zenith_deg: { label: 'Zenith angle of the star', unit: 'deg', required: 'one-pointing' },
+  airmass: { label: 'Airmass of the star (sec z)', unit: 'sec z', required: 'one-pointing' },
+  flux: { label: 'Star flux', unit: 'counts', required: 'optional' },
+  scint_index: { label: 'Scintillation index', unit: 'dimensionless', required: 'optional' },
+  tau0_ms: { label: 'Coherence time τ0', unit: 'ms', required: 'optional' },
+  theta0_arcsec: { label: 'Isoplanatic angle θ0', unit: 'arcsec', required: 'optional' },
+  wind_ms: { label: 'Wind speed', unit: 'm/s', required: 'optional' },
+  rh_pct: { label: 'Relative humidity', unit: '%', required: 'optional' },
+};
+
+/** Field → header text exactly as it appears in the file. */
+export type ColumnMapping = Partial<Record<LogField, string>>;
+
+export function isLogField(name: string): name is LogField {
+  return (LOG_FIELDS as readonly string[]).includes(name);
+}

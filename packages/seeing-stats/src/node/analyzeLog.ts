@@ -1,0 +1,197 @@
+import { createReadStream } from 'node:fs';
+import { stat } from 'node:fs/promises';
+import { LogFormatError } from '../errors.js';
+import type { ColumnMapping } from '../log/logFields.js';
+import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filterReason.js';
+import type { FilterRejectReason, MonitorSettings, RejectReason } from '../log/createRowReader.js';
+import type { SiteLocation } from '../log/sunAltitude.js';
+import { RESPONSE_SET_NAMES } from '../physics/responseCoefficients.js';
+import { summarizeSeeing, type SeeingSummary, type SummaryOptions } from '../summary/summarizeSeeing.js';
+import { GrowableColumns } from './growableColumns.js';
+import { streamLog } from './streamLog.js';
+
+export interface AnalyzeOptions {
+  mapping?: ColumnMapping;
+  monitor: MonitorSettings;
+  site?: SiteLocation;
+  filters?: Partial<FilterSettings>;
+  summary?: SummaryOptions;
+}
+
+export interface AnalyzerReport extends SeeingSummary {
+  samples: {
+    read: number;
+    accepted: number;
+    rejected: number;
+    rejectedByReason: Record<string, number>;
+    /** Accepted samples whose longitudinal and transverse estimates disagree by more than the set ratio (kept, flagged). */
+    anisotropic: number;
+    firstTimeUtc: string | null;
+    lastTimeUtc: string | null;
+  };
+  /** The first 100 rejected rows in line order. */
+  rejectedRows: { line: number; reason: RejectReason; message: string }[];
+  monitor: MonitorSettings & { responseName: string };
+  filters: FilterSettings & { nightFilter: boolean };
+  file: { headers: string[]; delimiter: string; mapping: ColumnMapping };
+}
+
+const MAX_LISTED_REJECTIONS = 100;
+const FILTER_CODES: readonly FilterRejectReason[] = ['zenith_limit', 'sun_above_limit', 'low_flux'];
+const DUPLICATE_CODE = 255;
+
+/**
+ * Analyses one log end to end: streams it (file path or readable stream), rejects unreadable, empty and
+ * non-physical rows, duplicate timestamps (a row whose time already appeared on an earlier readable row) and
+ * rows failing the filters (zenith limit, sun altitude when a site is given, flux), each counted under its
+ * reason, then summarises the accepted samples. When no sample is accepted the statistics are NaN (null in JSON).
+ * Throws LogFormatError for a file that cannot be read at all, SeeingInputError for bad settings.
+ */
+export async function analyzeLog(input: NodeJS.ReadableStream | string, options: AnalyzeOptions): Promise<AnalyzerReport> {
+  const filters: FilterSettings = { ...DEFAULT_FILTERS, ...options.filters };
+  const stream = typeof input === 'string' ? await openLog(input) : input;
+  const kept = new GrowableColumns();
+  const rejectedByReason: Record<string, number> = {};
+  const listed: { line: number; reason: RejectReason; message: string }[] = [];
+  let anisotropic = 0;
+  const countReject = (line: number, reason: RejectReason, message: string): void => {
+    rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
+    if (listed.length < MAX_LISTED_REJECTIONS) listed.push({ line, reason, message });
+  };
+  let timesAscending = true;
+  let previousTimeMs = Number.NEGATIVE_INFINITY;
+
+  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site }, {
+    onSample(sample, line) {
+      const reason = filterReason(sample, filters);
+      if (sample.timeMs <= previousTimeMs) timesAscending = false;
+      previousTimeMs = sample.timeMs;
+      kept.push(sample.timeMs, sample.seeingArcsec, line, reason === null ? 0 : FILTER_CODES.indexOf(reason) + 1, sample.anisotropic);
+    },
+    onReject(line, reason, message) {
+      countReject(line, reason, message);
+    },
+  });
+
+  markDuplicates(kept, timesAscending);
+
+  // Count filter and duplicate rejections, list them, and compact the accepted samples in place.
+  const duplicateListing: { line: number; reason: RejectReason; message: string }[] = [];
+  let accepted = 0;
+  for (let index = 0; index < kept.length; index += 1) {
+    const status = kept.status[index] ?? 0;
+    const line = kept.line[index] ?? 0;
+    if (status === 0) {
+      kept.timeMs[accepted] = kept.timeMs[index] ?? 0;
+      kept.seeingArcsec[accepted] = kept.seeingArcsec[index] ?? 0;
+      anisotropic += kept.anisotropic[index] ?? 0;
+      accepted += 1;
+      continue;
+    }
+    const reason: RejectReason = status === DUPLICATE_CODE ? 'duplicate_time' : (FILTER_CODES[status - 1] ?? 'zenith_limit');
+    rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
+    if (duplicateListing.length < MAX_LISTED_REJECTIONS) {
+      duplicateListing.push({ line, reason, message: `line ${line}: ${describeLateRejection(reason, kept.timeMs[index] ?? 0, filters)}` });
+    }
+  }
+  const rejectedRows = [...listed, ...duplicateListing].sort((left, right) => left.line - right.line).slice(0, MAX_LISTED_REJECTIONS);
+  const rejected = Object.values(rejectedByReason).reduce((sum, count) => sum + count, 0);
+
+  const columns = { timeMs: kept.timeMs.subarray(0, accepted), seeingArcsec: kept.seeingArcsec.subarray(0, accepted) };
+  const summary = summarizeSeeing(columns, { longitudeDeg: options.site?.longitudeDeg, ...options.summary }) ?? emptySummary();
+  let firstTimeMs = Number.POSITIVE_INFINITY;
+  let lastTimeMs = Number.NEGATIVE_INFINITY;
+  for (let index = 0; index < accepted; index += 1) {
+    const time = columns.timeMs[index] ?? 0;
+    if (time < firstTimeMs) firstTimeMs = time;
+    if (time > lastTimeMs) lastTimeMs = time;
+  }
+
+  return {
+    samples: {
+      read: file.rowsRead,
+      accepted,
+      rejected,
+      rejectedByReason,
+      anisotropic,
+      firstTimeUtc: accepted > 0 ? new Date(firstTimeMs).toISOString() : null,
+      lastTimeUtc: accepted > 0 ? new Date(lastTimeMs).toISOString() : null,
+    },
+    ...summary,
+    rejectedRows,
+    monitor: { ...options.monitor, responseName: RESPONSE_SET_NAMES[options.monitor.response] },
+    filters: { ...filters, nightFilter: options.site !== undefined },
+    file,
+  };
+}
+
+/** Marks every readable row whose time already appeared on an earlier readable row (status → duplicate). */
+function markDuplicates(kept: GrowableColumns, timesAscending: boolean): void {
+  if (timesAscending || kept.length < 2) return;
+  const sortedTimes = kept.timeMs.slice(0, kept.length).sort();
+  const repeated = new Set<number>();
+  for (let index = 1; index < sortedTimes.length; index += 1) {
+    if (sortedTimes[index] === sortedTimes[index - 1]) repeated.add(sortedTimes[index] ?? 0);
+  }
+  if (repeated.size === 0) return;
+  const seen = new Set<number>();
+  for (let index = 0; index < kept.length; index += 1) {
+    const time = kept.timeMs[index] ?? 0;
+    if (!repeated.has(time)) continue;
+    if (seen.has(time)) kept.status[index] = DUPLICATE_CODE;
+    else seen.add(time);
+  }
+}
+
+function describeLateRejection(reason: RejectReason, timeMs: number, filters: FilterSettings): string {
+  switch (reason) {
+    case 'duplicate_time':
+      return `time ${new Date(timeMs).toISOString()} already appeared on an earlier row`;
+    case 'zenith_limit':
+      return `zenith angle above the ${filters.maxZenithDeg}° limit`;
+    case 'sun_above_limit':
+      return `sun above ${filters.sunMaxDeg}° at the site`;
+    case 'low_flux':
+      return `flux below the minimum ${String(filters.minFlux)}`;
+    default:
+      return reason;
+  }
+}
+
+async function openLog(path: string): Promise<NodeJS.ReadableStream> {
+  try {
+    const info = await stat(path);
+    if (info.isDirectory()) throw new LogFormatError(`${path} is a folder, not a log file.`, { hint: 'Give the path of one log file.' });
+  } catch (error) {
+    if (error instanceof LogFormatError) throw error;
+    throw new LogFormatError(`Cannot open ${path}: ${error instanceof Error ? error.message : String(error)}`, {
+      hint: 'Check the path and that the file is readable.',
+    });
+  }
+  return createReadStream(path, { highWaterMark: 1 << 20 });
+}
+
+function emptySummary(): SeeingSummary {
+  const none = Number.NaN;
+  return {
+    seeing: { unit: 'arcsec', wavelengthNm: 500, atZenith: true, mean: none, p10: none, p25: none, median: none, p75: none, p90: none, medianCi95: [none, none] },
+    r0: { unit: 'cm', p10: none, p25: none, median: none, p75: none, p90: none },
+    lognormal: { mu: none, sigma: none, median: none, ks: none },
+    fractionBelow: {},
+    nights: 0,
+    monthly: [],
+    hourly: [],
+    nightly: [],
+    histogram: [],
+    cdf: [],
+    method: {
+      seeingConstant: 0.98,
+      percentile: 'linear (Hyndman-Fan type 7)',
+      bootstrap: 'not run: no accepted samples',
+      lognormal: 'not fitted: no accepted samples',
+      fractionBelow: 'share of accepted samples with seeing strictly below the threshold',
+      night: 'date of (local solar time − 12 h)',
+      hourly: 'local solar hour 0..23, listed from noon through the night',
+    },
+  };
+}

@@ -1,0 +1,34 @@
+import { SeeingInputError } from '../errors.js';
+
+export interface LogNormalFit {
+  /** Mean of ln ε. */
+  mu: number;
+  /** Standard deviation of ln ε with divisor n (the maximum-likelihood estimate). */
+  sigma: number;
+  /** e^μ, in the unit of the values. */
+  median: number;
+}
+
+/**
+ * Maximum-likelihood log-normal fit: μ = mean(ln x), σ² = Σ(ln x − μ)² / n (divisor n, not n − 1).
+ * Needs at least one value, all > 0. Example: fitLogNormal([0.5, 1, 2]) → { mu: 0, sigma: 0.5660, median: 1 }.
+ */
+export function fitLogNormal(values: ArrayLike<number>): LogNormalFit {
+  const count = values.length;
+  if (count === 0) throw new SeeingInputError('fitLogNormal needs at least one value, got none');
+  let sumLog = 0;
+  for (let index = 0; index < count; index += 1) {
+    const value = values[index] ?? Number.NaN;
+    if (!(value > 0)) throw new SeeingInputError(`fitLogNormal needs values > 0, got ${String(value)} at index ${index}`);
+    sumLog += Math.log(value);
+  }
+  const mu = sumLog / count;
+  // Second pass on the deviations, not Σln² − nμ², to avoid cancellation on large samples.
+  let sumSquaredDeviation = 0;
+  for (let index = 0; index < count; index += 1) {
+    const deviation = Math.log(values[index] ?? Number.NaN) - mu;
+    sumSquaredDeviation += deviation * deviation;
+  }
+  const sigma = Math.sqrt(sumSquaredDeviation / count);
+  return { mu, sigma, median: Math.exp(mu) };
+}

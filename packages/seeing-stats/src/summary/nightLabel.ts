@@ -1,0 +1,42 @@
+import { SeeingInputError } from '../errors.js';
+
+const HOUR_MS = 3_600_000;
+const DAY_MS = 86_400_000;
+
+/** Offset of local mean solar time from UTC, in ms: longitude / 15 hours (east positive; 0 when no longitude). */
+export function solarOffsetMs(longitudeDeg?: number): number {
+  if (longitudeDeg === undefined) return 0;
+  if (!Number.isFinite(longitudeDeg) || longitudeDeg < -180 || longitudeDeg > 360) {
+    throw new SeeingInputError(`longitudeDeg must be degrees east in [-180, 360], got ${String(longitudeDeg)}`);
+  }
+  return (longitudeDeg / 15) * HOUR_MS;
+}
+
+/**
+ * Whole-day number (days since 1970-01-01) of the night a moment belongs to: the local date of
+ * (local solar time − 12 h), so a night runs from local noon to local noon and is named by its evening.
+ */
+export function nightDayNumber(timeMs: number, offsetMs: number): number {
+  return Math.floor((timeMs + offsetMs - 12 * HOUR_MS) / DAY_MS);
+}
+
+/** 'YYYY-MM-DD' of a day number. */
+export function dayNumberLabel(dayNumber: number): string {
+  return new Date(dayNumber * DAY_MS).toISOString().slice(0, 10);
+}
+
+/**
+ * Name of the night a sample belongs to, 'YYYY-MM-DD' of the evening it began: the date of
+ * (UTC + longitude/15 h − 12 h); plain UTC when no longitude is given.
+ * Example: nightLabel(Date.parse('2025-03-02T03:00:00Z'), -70) → '2025-03-01'.
+ */
+export function nightLabel(timeMs: number, longitudeDeg?: number): string {
+  if (!Number.isFinite(timeMs)) throw new SeeingInputError(`timeMs must be a finite UTC epoch time in ms, got ${String(timeMs)}`);
+  return dayNumberLabel(nightDayNumber(timeMs, solarOffsetMs(longitudeDeg)));
+}
+
+/** Local solar hour 0..23 of a moment. */
+export function localSolarHour(timeMs: number, offsetMs: number): number {
+  const msIntoDay = (((timeMs + offsetMs) % DAY_MS) + DAY_MS) % DAY_MS;
+  return Math.floor(msIntoDay / HOUR_MS);
+}

@@ -1,0 +1,248 @@
+import { SeeingInputError } from '../errors.js';
+import { ARCSEC_PER_RADIAN, REFERENCE_WAVELENGTH_NM, SEEING_CONSTANT } from '../physics/constants.js';
+import { bootstrapPooledMedian } from '../stats/bootstrapPooledMedian.js';
+import { fitLogNormal } from '../stats/fitLogNormal.js';
+import { ksDistanceLogNormal } from '../stats/ksDistanceLogNormal.js';
+import { normalCdf } from '../stats/normalCdf.js';
+import { percentileSorted } from '../stats/percentile.js';
+import { groupValues } from './groupValues.js';
+import { dayNumberLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './nightLabel.js';
+
+/** Accepted samples only, equal length; seeing at zenith and 500 nm. */
+export interface SampleColumns {
+  timeMs: Float64Array;
+  seeingArcsec: Float64Array;
+}
+
+export interface SummaryOptions {
+  /** Site longitude (east positive): sets local solar time for nights and hours; UTC when absent. */
+  longitudeDeg?: number;
+  /** Thresholds for fractionBelow; default [0.6, 0.8, 1.0]. */
+  thresholdsArcsec?: number[];
+  /** Night-bootstrap replicates for medianCi95; default 1000. */
+  bootstrapReplicates?: number;
+  /** Seed of the bootstrap generator; default 1. */
+  seed?: number;
+  /** Number of log-spaced histogram bins; default 30. */
+  histogramBins?: number;
+}
+
+export interface SeeingSummary {
+  seeing: { unit: 'arcsec'; wavelengthNm: 500; atZenith: true; mean: number; p10: number; p25: number; median: number; p75: number; p90: number; medianCi95: [number, number] };
+  r0: { unit: 'cm'; p10: number; p25: number; median: number; p75: number; p90: number };
+  lognormal: { mu: number; sigma: number; median: number; ks: number };
+  fractionBelow: Record<string, number>;
+  nights: number;
+  monthly: { month: string; samples: number; median: number; p10: number; p25: number; p75: number; p90: number }[];
+  hourly: { hour: number; samples: number; median: number }[];
+  nightly: { night: string; samples: number; median: number }[];
+  histogram: { lowArcsec: number; highArcsec: number; count: number; density: number; lognormalDensity: number }[];
+  cdf: { seeingArcsec: number; fraction: number }[];
+  method: {
+    seeingConstant: 0.98;
+    percentile: 'linear (Hyndman-Fan type 7)';
+    bootstrap: string;
+    lognormal: string;
+    fractionBelow: string;
+    night: string;
+    hourly: string;
+  };
+}
+
+export const DEFAULT_THRESHOLDS_ARCSEC: readonly number[] = [0.6, 0.8, 1.0];
+const DEFAULT_REPLICATES = 1000;
+const DEFAULT_SEED = 1;
+const DEFAULT_HISTOGRAM_BINS = 30;
+const CDF_POINTS = 200;
+
+/**
+ * Statistics of accepted seeing samples (zenith, 500 nm): mean; type-7 percentiles 10/25/50/75/90 of seeing
+ * and of r0 (r0 = 0.98 λ/ε per sample); a maximum-likelihood log-normal fit with its KS distance; the
+ * fraction strictly below each threshold; monthly, hourly and nightly breakdowns; a 95% interval of the median
+ * from a bootstrap over whole nights (samples within a night are correlated); chart data. Returns null for no samples.
+ * Throws SeeingInputError when the columns differ in length or hold a value that is not a positive finite seeing.
+ */
+export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions = {}): SeeingSummary | null {
+  const { timeMs, seeingArcsec } = columns;
+  const count = seeingArcsec.length;
+  if (timeMs.length !== count) {
+    throw new SeeingInputError(`timeMs and seeingArcsec must have equal length, got ${timeMs.length} and ${count}`);
+  }
+  if (count === 0) return null;
+  const replicates = options.bootstrapReplicates ?? DEFAULT_REPLICATES;
+  const seed = options.seed ?? DEFAULT_SEED;
+  const thresholds = options.thresholdsArcsec ?? [...DEFAULT_THRESHOLDS_ARCSEC];
+  const binCount = options.histogramBins ?? DEFAULT_HISTOGRAM_BINS;
+  if (!Number.isInteger(binCount) || binCount < 1) throw new SeeingInputError(`histogramBins must be a positive whole number, got ${String(binCount)}`);
+  for (const threshold of thresholds) {
+    if (!(threshold > 0 && Number.isFinite(threshold))) throw new SeeingInputError(`thresholdsArcsec must hold positive numbers of arcseconds, got ${String(threshold)}`);
+  }
+  const offsetMs = solarOffsetMs(options.longitudeDeg);
+
+  let sum = 0;
+  for (let index = 0; index < count; index += 1) {
+    const value = seeingArcsec[index] ?? Number.NaN;
+    if (!(value > 0 && value < Number.POSITIVE_INFINITY)) {
+      throw new SeeingInputError(`seeingArcsec must hold positive finite arcseconds, got ${String(value)} at index ${index}`);
+    }
+    sum += value;
+  }
+  const sorted = Float64Array.from(seeingArcsec).sort();
+  const quantile = (fraction: number): number => percentileSorted(sorted, fraction);
+  const fit = fitLogNormal(sorted);
+  const ks = fit.sigma > 0 ? ksDistanceLogNormal(sorted, fit.mu, fit.sigma) : 1 - 1 / count;
+
+  // Nights: the bootstrap block, the nightly medians and the month a sample counts in.
+  const nightKeys = new Int32Array(count);
+  const hourKeys = new Int32Array(count);
+  for (let index = 0; index < count; index += 1) {
+    const time = timeMs[index] ?? 0;
+    nightKeys[index] = nightDayNumber(time, offsetMs);
+    hourKeys[index] = localSolarHour(time, offsetMs);
+  }
+  const nights = groupValues(nightKeys, seeingArcsec);
+  const nightly = nights.keys.map((dayNumber, slot) => {
+    const segment = nights.values.subarray(nights.offsets[slot] ?? 0, nights.offsets[slot + 1] ?? 0);
+    return { night: dayNumberLabel(dayNumber), samples: segment.length, median: percentileSorted(segment, 0.5) };
+  });
+
+  const monthOfNight = new Map<number, number>();
+  const monthLabels: string[] = [];
+  const monthLabelIndex = new Map<string, number>();
+  for (const dayNumber of nights.keys) {
+    const label = dayNumberLabel(dayNumber).slice(0, 7);
+    let monthIndex = monthLabelIndex.get(label);
+    if (monthIndex === undefined) {
+      monthIndex = monthLabels.length;
+      monthLabels.push(label);
+      monthLabelIndex.set(label, monthIndex);
+    }
+    monthOfNight.set(dayNumber, monthIndex);
+  }
+  // Nights are ascending, so month indices are too; the night key of a sample gives its month.
+  const monthKeys = new Int32Array(count);
+  for (let index = 0; index < count; index += 1) monthKeys[index] = monthOfNight.get(nightKeys[index] ?? 0) ?? 0;
+  const months = groupValues(monthKeys, seeingArcsec);
+  const monthly = months.keys.map((monthIndex, slot) => {
+    const segment = months.values.subarray(months.offsets[slot] ?? 0, months.offsets[slot + 1] ?? 0);
+    return {
+      month: monthLabels[monthIndex] ?? '',
+      samples: segment.length,
+      median: percentileSorted(segment, 0.5),
+      p10: percentileSorted(segment, 0.1),
+      p25: percentileSorted(segment, 0.25),
+      p75: percentileSorted(segment, 0.75),
+      p90: percentileSorted(segment, 0.9),
+    };
+  });
+
+  const hours = groupValues(hourKeys, seeingArcsec);
+  const hourly = hours.keys
+    .map((hour, slot) => {
+      const segment = hours.values.subarray(hours.offsets[slot] ?? 0, hours.offsets[slot + 1] ?? 0);
+      return { hour, samples: segment.length, median: percentileSorted(segment, 0.5) };
+    })
+    // Ordered through the night (from local noon), so an evening-to-morning chart reads left to right.
+    .sort((left, right) => ((left.hour + 12) % 24) - ((right.hour + 12) % 24));
+
+  const replicateMedians = bootstrapPooledMedian(nights, { replicates, seed }).sort();
+  const medianCi95: [number, number] = [percentileSorted(replicateMedians, 0.025), percentileSorted(replicateMedians, 0.975)];
+
+  const fractionBelow: Record<string, number> = {};
+  for (const threshold of thresholds) fractionBelow[thresholdKey(threshold)] = lowerBound(sorted, threshold) / count;
+
+  // r0 = 0.98 λ/ε per sample is decreasing in ε, so r0's ascending order is seeing's descending order.
+  const r0ScaleCmArcsec = ((SEEING_CONSTANT * REFERENCE_WAVELENGTH_NM * 1e-9) * ARCSEC_PER_RADIAN) * 100;
+  const r0Quantile = (fraction: number): number => {
+    // Type-7 interpolation on the r0 order statistics r0[i] = scale / seeing[n − 1 − i].
+    const position = (count - 1) * fraction;
+    const lowIndex = Math.floor(position);
+    const low = r0ScaleCmArcsec / (sorted[count - 1 - lowIndex] ?? Number.NaN);
+    if (lowIndex + 1 >= count) return low;
+    const high = r0ScaleCmArcsec / (sorted[count - 2 - lowIndex] ?? Number.NaN);
+    return low + (position - lowIndex) * (high - low);
+  };
+
+  return {
+    seeing: {
+      unit: 'arcsec',
+      wavelengthNm: 500,
+      atZenith: true,
+      mean: sum / count,
+      p10: quantile(0.1),
+      p25: quantile(0.25),
+      median: quantile(0.5),
+      p75: quantile(0.75),
+      p90: quantile(0.9),
+      medianCi95,
+    },
+    r0: { unit: 'cm', p10: r0Quantile(0.1), p25: r0Quantile(0.25), median: r0Quantile(0.5), p75: r0Quantile(0.75), p90: r0Quantile(0.9) },
+    lognormal: { mu: fit.mu, sigma: fit.sigma, median: fit.median, ks },
+    fractionBelow,
+    nights: nights.keys.length,
+    monthly,
+    hourly,
+    nightly,
+    histogram: logHistogram(sorted, binCount, fit.mu, fit.sigma),
+    cdf: cdfPoints(sorted),
+    method: {
+      seeingConstant: 0.98,
+      percentile: 'linear (Hyndman-Fan type 7)',
+      bootstrap: `whole nights resampled with replacement, ${replicates} replicates, seed ${seed}, 2.5–97.5% percentile interval of the pooled median`,
+      lognormal: 'maximum likelihood on ln(seeing), sigma with divisor n; ks = Kolmogorov–Smirnov distance to the fit',
+      fractionBelow: 'share of accepted samples with seeing strictly below the threshold',
+      night: `date of (local solar time − 12 h), local solar time = UTC + longitude/15 h (${options.longitudeDeg === undefined ? 'no longitude given: UTC' : `longitude ${options.longitudeDeg}°`})`,
+      hourly: 'local solar hour 0..23, listed from noon through the night',
+    },
+  };
+}
+
+/** "0.6", "0.8", "1.0": one decimal at least, so the keys match the documented JSON. */
+export function thresholdKey(thresholdArcsec: number): string {
+  return Number.isInteger(thresholdArcsec) ? thresholdArcsec.toFixed(1) : String(thresholdArcsec);
+}
+
+/** First index whose value is ≥ threshold, i.e. how many values are strictly below it. */
+function lowerBound(sorted: Float64Array, threshold: number): number {
+  let low = 0;
+  let high = sorted.length;
+  while (low < high) {
+    const middle = (low + high) >>> 1;
+    if ((sorted[middle] ?? 0) < threshold) low = middle + 1;
+    else high = middle;
+  }
+  return low;
+}
+
+function logHistogram(sorted: Float64Array, binCount: number, mu: number, sigma: number): SeeingSummary['histogram'] {
+  const count = sorted.length;
+  const smallest = sorted[0] ?? 1;
+  const largest = sorted[count - 1] ?? 1;
+  // Widen a degenerate range so every bin has width; edges are log-spaced because seeing is right-skewed.
+  const lowEdgeLog = Math.log(smallest) - (largest === smallest ? 0.05 : 0);
+  const highEdgeLog = Math.log(largest) + (largest === smallest ? 0.05 : 1e-12);
+  const stepLog = (highEdgeLog - lowEdgeLog) / binCount;
+  const bins: SeeingSummary['histogram'] = [];
+  let cursor = 0;
+  for (let bin = 0; bin < binCount; bin += 1) {
+    const lowArcsec = Math.exp(lowEdgeLog + bin * stepLog);
+    const highArcsec = bin === binCount - 1 ? Math.exp(highEdgeLog) : Math.exp(lowEdgeLog + (bin + 1) * stepLog);
+    const start = cursor;
+    while (cursor < count && ((sorted[cursor] ?? 0) < highArcsec || bin === binCount - 1)) cursor += 1;
+    const binSamples = cursor - start;
+    const width = highArcsec - lowArcsec;
+    const modelShare = sigma > 0 ? normalCdf((Math.log(highArcsec) - mu) / sigma) - normalCdf((Math.log(lowArcsec) - mu) / sigma) : 0;
+    bins.push({ lowArcsec, highArcsec, count: binSamples, density: binSamples / count / width, lognormalDensity: modelShare / width });
+  }
+  return bins;
+}
+
+function cdfPoints(sorted: Float64Array): SeeingSummary['cdf'] {
+  const count = sorted.length;
+  const points: SeeingSummary['cdf'] = [];
+  const step = Math.max(1, Math.ceil(count / CDF_POINTS));
+  for (let index = 0; index < count; index += step) points.push({ seeingArcsec: sorted[index] ?? 0, fraction: (index + 1) / count });
+  const last = points[points.length - 1];
+  if (last !== undefined && last.fraction < 1) points.push({ seeingArcsec: sorted[count - 1] ?? 0, fraction: 1 });
+  return points;
+}

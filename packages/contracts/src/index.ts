@@ -6,3 +6,4 @@ export * from "./campaigns";
 export * from "./uploads";
 export * from "./summaries";
 export * from "./users";
+export * from "./samples";

@@ -7,10 +7,28 @@ import { AppLayout } from "./routes/_app";
 import { ReportsPage } from "./routes/reports";
 import { RouteError } from "./routes/route-error";
 import { SignInPage } from "./routes/sign-in";
+import { SitesPage } from "./routes/sites";
+import { SitePage, siteLoader } from "./routes/sites.$siteId";
+import { CampaignPage, campaignLoader } from "./routes/campaigns.$campaignId";
+import { sitesQuery } from "./api/sites";
+
+const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
 
 /** Signed-in pages other areas add (sites, campaigns, upload, people): see DEVELOPERS.md "Add a page". */
 export function appRoutes(queryClient: QueryClient): RouteObject[] {
+  const fieldGuard = roleLoader(queryClient, FIELD_ROLES);
   return [
+    {
+      path: "sites",
+      loader: async (args) => {
+        await fieldGuard(args);
+        await queryClient.ensureQueryData(sitesQuery);
+        return null;
+      },
+      element: <SitesPage />,
+    },
+    { path: "sites/:siteId", loader: siteLoader(queryClient), element: <SitePage /> },
+    { path: "campaigns/:campaignId", loader: campaignLoader(queryClient), element: <CampaignPage /> },
     { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
   ];
 }

@@ -1,0 +1,132 @@
+import { useEffect, useMemo } from "react";
+import { CircleMarker, GeoJSON, MapContainer, TileLayer, Tooltip, useMap } from "react-leaflet";
+import { latLngBounds } from "leaflet";
+import type { SiteListItem } from "@calmcrest/contracts";
+import { countryOutlines } from "../lib/basemap";
+import { SEEING_LEGEND_TICKS_ARCSEC, SEEING_SCALE_MAX_ARCSEC, SEEING_SCALE_MIN_ARCSEC, seeingColour } from "../lib/colour-scale";
+import { formatArcsec, formatNumber } from "../lib/format";
+
+export interface MapTiles {
+  url: string;
+  attribution: string;
+}
+
+function FitToSites({ sites }: { sites: SiteListItem[] }) {
+  const map = useMap();
+  useEffect(() => {
+    if (sites.length === 0) return;
+    const bounds = latLngBounds(sites.map((site) => [site.latitude, site.longitude] as [number, number]));
+    // Candidate sites are often a few kilometres apart: cap the zoom so coastlines and borders give context.
+    map.fitBounds(bounds.pad(0.4), { maxZoom: 8 });
+  }, [map, sites]);
+  return null;
+}
+
+/**
+ * The candidate sites on a map. Offline by default (country outlines shipped with the app); with `tiles` it shows an
+ * online tile layer instead. Marker fill follows median seeing; a hollow dashed ring means no data yet.
+ */
+export function SiteMap({
+  sites,
+  tiles,
+  highlightedSiteId,
+  onHover,
+  onOpen,
+}: {
+  sites: SiteListItem[];
+  tiles?: MapTiles | null;
+  highlightedSiteId?: number | null;
+  onHover?: (siteId: number | null) => void;
+  onOpen: (siteId: number) => void;
+}) {
+  const outlines = useMemo(() => (tiles ? null : countryOutlines()), [tiles]);
+  return (
+    <MapContainer
+      center={[0, 0]}
+      zoom={2}
+      minZoom={2}
+      maxZoom={tiles ? 14 : 10}
+      worldCopyJump={false}
+      className="h-[420px] w-full rounded-lg border border-line md:h-[520px]"
+      style={{ background: "#dbe6ea" }}
+      attributionControl={Boolean(tiles)}
+    >
+      {tiles ? (
+        <TileLayer url={tiles.url} attribution={tiles.attribution} />
+      ) : outlines ? (
+        <GeoJSON data={outlines} interactive={false} style={{ color: "#8a9a9f", weight: 1, fillColor: "#f3f1e8", fillOpacity: 1 }} />
+      ) : null}
+      <FitToSites sites={sites} />
+      {sites.map((site) => {
+        const highlighted = highlightedSiteId === site.id;
+        const median = site.summary?.median;
+        return (
+          <CircleMarker
+            key={site.id}
+            center={[site.latitude, site.longitude]}
+            radius={highlighted ? 14 : 11}
+            pathOptions={
+              median === undefined
+                ? { color: "#1c2733", weight: 2.5, dashArray: "4 3", fill: true, fillColor: "#ffffff", fillOpacity: 0.0, className: "site-marker site-marker-empty" }
+                : { color: "#1c2733", weight: highlighted ? 3 : 1.5, fillColor: seeingColour(median), fillOpacity: 1, className: "site-marker" }
+            }
+            eventHandlers={{
+              click: () => onOpen(site.id),
+              mouseover: () => onHover?.(site.id),
+              mouseout: () => onHover?.(null),
+            }}
+          >
+            <Tooltip direction="top" offset={[0, -10]}>
+              <span className="block font-semibold">{site.name}</span>
+              <span className="block">{formatNumber(site.elevationM)} m above sea level</span>
+              {site.summary ? (
+                <span className="block">
+                  median {formatArcsec(site.summary.median)} · {formatNumber(site.summary.nights)} nights
+                </span>
+              ) : (
+                <span className="block">no seeing data yet</span>
+              )}
+            </Tooltip>
+          </CircleMarker>
+        );
+      })}
+    </MapContainer>
+  );
+}
+
+/** The colour key of the map: the ramp with ticks in arcsec, and the hollow marker for sites without data. */
+export function SeeingLegend() {
+  const gradient = useMemo(() => {
+    const steps = 12;
+    const colours = Array.from({ length: steps + 1 }, (_, index) =>
+      seeingColour(SEEING_SCALE_MIN_ARCSEC + ((SEEING_SCALE_MAX_ARCSEC - SEEING_SCALE_MIN_ARCSEC) * index) / steps),
+    );
+    return `linear-gradient(to right, ${colours.join(", ")})`;
+  }, []);
+  return (
+    <figure className="flex flex-wrap items-end gap-x-8 gap-y-3 text-sm" aria-label="Map colour key">
+      <div>
+        <figcaption className="mb-1 font-semibold">Median seeing at zenith, 500 nm (arcsec)</figcaption>
+        <div className="h-3 w-64 rounded-sm border border-ink/30" style={{ background: gradient }} />
+        <div className="relative h-5 w-64 text-xs text-ink-soft">
+          {SEEING_LEGEND_TICKS_ARCSEC.map((tick) => (
+            <span
+              key={tick}
+              className="num absolute -translate-x-1/2"
+              style={{ left: `${((tick - SEEING_SCALE_MIN_ARCSEC) / (SEEING_SCALE_MAX_ARCSEC - SEEING_SCALE_MIN_ARCSEC)) * 100}%` }}
+            >
+              {tick.toFixed(1)}
+            </span>
+          ))}
+        </div>
+        <p className="text-xs text-ink-soft">Dark blue: sharper images (better). Yellow: more blurred.</p>
+      </div>
+      <div className="flex items-center gap-2">
+        <svg width="24" height="24" aria-hidden="true">
+          <circle cx="12" cy="12" r="9" fill="none" stroke="#1c2733" strokeWidth="2.5" strokeDasharray="4 3" />
+        </svg>
+        <span>No seeing data yet</span>
+      </div>
+    </figure>
+  );
+}

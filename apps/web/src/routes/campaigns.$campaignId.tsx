@@ -1,0 +1,177 @@
+import type { QueryClient } from "@tanstack/react-query";
+import { keepPreviousData, useQuery, useSuspenseQuery } from "@tanstack/react-query";
+import { createColumnHelper } from "@tanstack/react-table";
+import { Link, useParams, type LoaderFunctionArgs } from "react-router-dom";
+import type { UploadListItem } from "@calmcrest/contracts";
+import { campaignQuery, campaignSummaryQuery } from "../api/campaigns";
+import { ApiError } from "../api/client";
+import { DataTable } from "../components/data-table";
+import { Exclusions } from "../components/exclusions";
+import { FilterPanel, useFilterParams } from "../components/filter-panel";
+import { MonitorSettings } from "../components/monitor-settings";
+import { Notice, Page } from "../components/page";
+import { SeeingCharts } from "../components/seeing-charts";
+import { SummaryFigures } from "../components/summary-figures";
+import { filtersFromParams } from "../lib/filter-params";
+import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber, reasonLabel } from "../lib/format";
+import { roleLoader } from "../route-guards";
+import { idParam } from "./sites.$siteId";
+
+export function campaignLoader(queryClient: QueryClient) {
+  const guard = roleLoader(queryClient, ["admin", "lead", "engineer"]);
+  return async (args: LoaderFunctionArgs) => {
+    await guard(args);
+    const campaignId = idParam(args.params.campaignId);
+    await queryClient.ensureQueryData(campaignQuery(campaignId));
+    void queryClient.prefetchQuery(campaignSummaryQuery(campaignId, filtersFromParams(new URL(args.request.url).searchParams).filters));
+    return null;
+  };
+}
+
+const STATUS_STYLES: Record<string, string> = {
+  done: "bg-accent-pale text-accent-strong",
+  failed: "bg-bad-pale text-bad",
+  interrupted: "bg-warn-pale text-warn",
+  queued: "bg-paper text-ink-soft",
+  ingesting: "bg-paper text-ink",
+};
+
+export function UploadStatusBadge({ status }: { status: string }) {
+  return <span className={`rounded-full px-2 py-0.5 text-xs font-semibold ${STATUS_STYLES[status] ?? "bg-paper"}`}>{status}</span>;
+}
+
+const column = createColumnHelper<UploadListItem>();
+const uploadColumns = [
+  column.accessor("fileName", {
+    header: "File",
+    cell: (cell) => (
+      <span>
+        <span className="font-semibold">{cell.getValue()}</span>
+        <span className="block text-xs text-ink-soft">{formatBytes(cell.row.original.sizeBytes)}</span>
+      </span>
+    ),
+  }),
+  column.accessor((upload) => upload.uploadedBy.name, { id: "uploader", header: "Uploaded by" }),
+  column.accessor("uploadedAt", { header: "Time", meta: { unit: "UTC" }, cell: (cell) => <span className="whitespace-nowrap tabular-nums">{formatDateTimeUtc(cell.getValue())}</span> }),
+  column.accessor("status", {
+    header: "Status",
+    cell: (cell) => (
+      <span>
+        <UploadStatusBadge status={cell.getValue()} />
+        {cell.row.original.error ? <span className="mt-1 block max-w-64 text-xs text-bad">{cell.row.original.error}</span> : null}
+      </span>
+    ),
+  }),
+  column.accessor((upload) => upload.samples.accepted, { id: "accepted", header: "Accepted", meta: { unit: "rows", numeric: true }, cell: (cell) => formatNumber(cell.getValue()) }),
+  column.accessor((upload) => upload.samples.rejected, {
+    id: "rejected",
+    header: "Rejected",
+    meta: { unit: "rows, by reason", numeric: true },
+    cell: (cell) => {
+      const upload = cell.row.original;
+      const reasons = Object.entries(upload.samples.rejectedByReason).filter(([, count]) => (count ?? 0) > 0);
+      return (
+        <span className="inline-flex flex-col items-end">
+          <span className="font-semibold">{formatNumber(cell.getValue())}</span>
+          {reasons.map(([reason, count]) => (
+            <span key={reason} className="text-xs text-ink-soft">
+              {formatNumber(count)} {reasonLabel(reason)}
+            </span>
+          ))}
+          {upload.samples.rejected > 0 ? (
+            <a href={`/api/uploads/${upload.id}/rejected.csv`} className="text-xs font-semibold text-accent underline" download>
+              rejected rows (CSV)
+            </a>
+          ) : null}
+        </span>
+      );
+    },
+  }),
+];
+
+export function CampaignPage() {
+  const campaignId = idParam(useParams().campaignId);
+  const { data: campaign } = useSuspenseQuery(campaignQuery(campaignId));
+  const { filters } = useFilterParams();
+  const summary = useQuery({ ...campaignSummaryQuery(campaignId, filters), placeholderData: keepPreviousData });
+
+  return (
+    <Page
+      title={campaign.name}
+      intro={
+        <>
+          Campaign at <Link to={`/sites/${campaign.site.id}`} className="font-semibold text-accent underline">{campaign.siteName}</Link> · {campaign.status} ·{" "}
+          {formatDateUtc(campaign.startDate ?? campaign.firstSampleAt)} to {formatDateUtc(campaign.endDate ?? campaign.lastSampleAt)}
+        </>
+      }
+      actions={
+        campaign.can.upload ? (
+          <Link to={`/upload?campaign=${campaign.id}`} className="rounded-md bg-accent px-4 py-2 font-semibold text-white hover:bg-accent-strong">
+            Upload logs to this campaign
+          </Link>
+        ) : null
+      }
+    >
+      <div className="space-y-8">
+        <section aria-labelledby="monitor-heading" className="grid gap-4 rounded-lg border border-line bg-panel p-4 md:grid-cols-2">
+          <div>
+            <h2 id="monitor-heading" className="mb-2 text-lg font-semibold">
+              Monitor
+            </h2>
+            <MonitorSettings monitor={campaign.monitor} />
+          </div>
+          <div className="text-sm">
+            <h2 className="mb-2 text-lg font-semibold">Stored data</h2>
+            <p>
+              {formatNumber(campaign.sampleCount)} samples from {formatNumber(campaign.uploadCount)} uploads, {formatDateTimeUtc(campaign.firstSampleAt)} to {formatDateTimeUtc(campaign.lastSampleAt)}.
+            </p>
+            {campaign.notes ? <p className="mt-2 text-ink-soft">{campaign.notes}</p> : null}
+          </div>
+        </section>
+
+        <section aria-labelledby="uploads-heading" className="space-y-3">
+          <h2 id="uploads-heading" className="text-lg font-semibold">
+            Uploads
+          </h2>
+          <DataTable
+            caption="Uploads of this campaign"
+            columns={uploadColumns}
+            data={campaign.uploads}
+            initialSorting={[{ id: "uploadedAt", desc: true }]}
+            pageSize={10}
+            getRowId={(upload) => String(upload.id)}
+            empty={
+              <Notice title="No logs uploaded yet.">
+                {campaign.can.upload ? "Upload the monitor's logs with the button above after each trip." : "The field engineers of this campaign upload its logs after each trip."}
+              </Notice>
+            }
+          />
+        </section>
+
+        <Exclusions campaign={campaign} />
+
+        <FilterPanel />
+        {summary.isPending ? (
+          <p role="status" className="text-ink-soft">
+            Computing the seeing statistics…
+          </p>
+        ) : summary.isError ? (
+          <Notice tone="bad" title="The seeing statistics could not be computed.">
+            {summary.error instanceof ApiError ? summary.error.message : "Reload the page to try again."}
+          </Notice>
+        ) : (
+          <div className={`space-y-8 ${summary.isPlaceholderData ? "opacity-60" : ""}`} aria-busy={summary.isPlaceholderData}>
+            <SummaryFigures summary={summary.data} />
+            {summary.data.empty ? (
+              <Notice tone="warn" title="No sample passes these settings.">
+                {summary.data.samples.read === 0 ? "Nothing has been uploaded to this campaign yet." : "Widen the date window or relax the limits above."}
+              </Notice>
+            ) : (
+              <SeeingCharts scope={{ kind: "campaign", id: campaignId }} filters={filters} summary={summary.data} />
+            )}
+          </div>
+        )}
+      </div>
+    </Page>
+  );
+}

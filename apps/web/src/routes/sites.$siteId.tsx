@@ -1,0 +1,144 @@
+import type { QueryClient } from "@tanstack/react-query";
+import { keepPreviousData, useQuery, useSuspenseQuery } from "@tanstack/react-query";
+import { Link, useParams, type LoaderFunctionArgs } from "react-router-dom";
+import type { CampaignListItem, SummaryQuery } from "@calmcrest/contracts";
+import { meQuery } from "../api/auth";
+import { campaignSummaryQuery } from "../api/campaigns";
+import { siteQuery, siteSummaryQuery } from "../api/sites";
+import { CoverageStrip } from "../components/coverage-strip";
+import { FilterPanel, useFilterParams } from "../components/filter-panel";
+import { MonitorSettings } from "../components/monitor-settings";
+import { Notice, Page } from "../components/page";
+import { SeeingCharts } from "../components/seeing-charts";
+import { SummaryFigures } from "../components/summary-figures";
+import { ApiError } from "../api/client";
+import { filtersFromParams } from "../lib/filter-params";
+import { formatDateUtc, formatNumber } from "../lib/format";
+import { roleLoader } from "../route-guards";
+
+/** Route ids are positive integers; anything else is a page that does not exist. */
+export function idParam(value: string | undefined): number {
+  const id = Number(value);
+  if (!Number.isInteger(id) || id <= 0) throw new Response("Not found", { status: 404 });
+  return id;
+}
+
+export function siteLoader(queryClient: QueryClient) {
+  const guard = roleLoader(queryClient, ["admin", "lead", "engineer"]);
+  return async (args: LoaderFunctionArgs) => {
+    await guard(args);
+    const siteId = idParam(args.params.siteId);
+    const { filters } = filtersFromParams(new URL(args.request.url).searchParams);
+    await queryClient.ensureQueryData(siteQuery(siteId));
+    // Start the summary now but do not hold the page for it: the figures show their own loading state.
+    void queryClient.prefetchQuery(siteSummaryQuery(siteId, filters));
+    return null;
+  };
+}
+
+function CampaignCard({ campaign, filters }: { campaign: CampaignListItem; filters: SummaryQuery }) {
+  const summary = useQuery({ ...campaignSummaryQuery(campaign.id, filters), placeholderData: keepPreviousData });
+  const nights = summary.data && !summary.data.empty ? summary.data.nightly.map((night) => night.night) : [];
+  return (
+    <article className="rounded-lg border border-line bg-panel p-4">
+      <div className="mb-3 flex flex-wrap items-baseline justify-between gap-2">
+        <h3 className="font-semibold">
+          <Link to={`/campaigns/${campaign.id}`} className="text-accent underline-offset-2 hover:underline">
+            {campaign.name}
+          </Link>
+        </h3>
+        <span className="rounded-full bg-accent-pale px-2 py-0.5 text-xs font-semibold text-accent-strong">{campaign.status}</span>
+      </div>
+      <p className="mb-3 text-sm text-ink-soft">
+        {formatNumber(campaign.sampleCount)} stored samples from {formatNumber(campaign.uploadCount)} uploads · data {formatDateUtc(campaign.firstSampleAt)} to {formatDateUtc(campaign.lastSampleAt)}
+      </p>
+      <div className="grid gap-4 md:grid-cols-[minmax(0,1fr)_minmax(0,1.4fr)]">
+        <MonitorSettings monitor={campaign.monitor} />
+        <div>
+          <h4 className="mb-1 text-sm font-semibold">Observed nights per month</h4>
+          {summary.isPending ? (
+            <p className="text-sm text-ink-soft">Loading coverage…</p>
+          ) : summary.isError ? (
+            <p className="text-sm text-bad">Coverage could not be loaded: {summary.error.message}</p>
+          ) : (
+            <CoverageStrip
+              nights={nights}
+              fromMonth={(filters.from ?? campaign.firstSampleAt ?? undefined)?.slice(0, 7)}
+              toMonth={(filters.to ?? campaign.lastSampleAt ?? undefined)?.slice(0, 7)}
+              label={`Observed nights per month, ${campaign.name}`}
+            />
+          )}
+        </div>
+      </div>
+    </article>
+  );
+}
+
+export function SitePage() {
+  const siteId = idParam(useParams().siteId);
+  const { data: site } = useSuspenseQuery(siteQuery(siteId));
+  const { data: me } = useSuspenseQuery(meQuery);
+  const { filters } = useFilterParams();
+  const summary = useQuery({ ...siteSummaryQuery(siteId, filters), placeholderData: keepPreviousData });
+
+  return (
+    <Page
+      title={site.name}
+      intro={
+        <>
+          {site.latitude.toFixed(3)}°, {site.longitude.toFixed(3)}° · {formatNumber(site.elevationM)} m above sea level.{" "}
+          {site.notes ? site.notes : null}
+        </>
+      }
+      actions={
+        <Link to="/sites" className="text-sm font-semibold text-accent underline">
+          All sites
+        </Link>
+      }
+    >
+      <div className="space-y-8">
+        <FilterPanel />
+        {summary.isPending ? (
+          <p role="status" className="text-ink-soft">
+            Computing the seeing statistics…
+          </p>
+        ) : summary.isError ? (
+          <Notice tone="bad" title="The seeing statistics could not be computed.">
+            {summary.error instanceof ApiError ? summary.error.message : "Reload the page to try again."}
+          </Notice>
+        ) : (
+          <div className={`space-y-8 transition-opacity ${summary.isPlaceholderData ? "opacity-60" : ""}`} aria-busy={summary.isPlaceholderData}>
+            <SummaryFigures summary={summary.data} />
+            {summary.data.empty ? (
+              <Notice tone="warn" title="No sample passes these settings.">
+                {summary.data.samples.read === 0
+                  ? me?.role === "engineer"
+                    ? "No logs have been uploaded for your campaigns here yet. Upload your monitor's logs under Upload logs."
+                    : "No logs have been uploaded for this site yet. Field engineers upload them under Upload logs after each trip."
+                  : "Widen the date window or relax the zenith, sun or flux limits above to include more samples."}
+              </Notice>
+            ) : (
+              <SeeingCharts scope={{ kind: "site", id: siteId }} filters={filters} summary={summary.data} />
+            )}
+          </div>
+        )}
+        <section aria-labelledby="campaigns-heading" className="space-y-3">
+          <h2 id="campaigns-heading" className="text-lg font-semibold">
+            Campaigns at this site
+          </h2>
+          {site.campaigns.length === 0 ? (
+            <Notice title="No campaigns here yet.">
+              A campaign is one monitor set up at this site for a period. Survey leads create campaigns; field engineers are then added to them and upload the logs.
+            </Notice>
+          ) : (
+            <div className="grid gap-4">
+              {site.campaigns.map((campaign) => (
+                <CampaignCard key={campaign.id} campaign={campaign} filters={filters} />
+              ))}
+            </div>
+          )}
+        </section>
+      </div>
+    </Page>
+  );
+}

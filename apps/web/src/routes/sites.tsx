@@ -1,0 +1,95 @@
+import { useMemo, useState } from "react";
+import { useSuspenseQuery } from "@tanstack/react-query";
+import { Link, useNavigate } from "react-router-dom";
+import { createColumnHelper } from "@tanstack/react-table";
+import type { SiteListItem } from "@calmcrest/contracts";
+import { meQuery } from "../api/auth";
+import { sitesQuery } from "../api/sites";
+import { DataTable } from "../components/data-table";
+import { Notice, Page } from "../components/page";
+import { SeeingLegend, SiteMap, type MapTiles } from "../components/site-map";
+import { formatArcsec, formatNumber } from "../lib/format";
+import { seeingColour } from "../lib/colour-scale";
+
+const column = createColumnHelper<SiteListItem>();
+const columns = [
+  column.accessor("name", {
+    header: "Site",
+    cell: (cell) => (
+      <span className="flex items-center gap-2">
+        <span
+          aria-hidden="true"
+          className="inline-block h-3 w-3 shrink-0 rounded-full border border-ink"
+          style={cell.row.original.summary ? { background: seeingColour(cell.row.original.summary.median) } : { borderStyle: "dashed" }}
+        />
+        <Link to={`/sites/${cell.row.original.id}`} className="font-semibold text-accent underline-offset-2 hover:underline">
+          {cell.getValue()}
+        </Link>
+      </span>
+    ),
+  }),
+  column.accessor("elevationM", { header: "Elevation", meta: { unit: "m", numeric: true }, cell: (cell) => formatNumber(cell.getValue()) }),
+  column.accessor((site) => site.summary?.median, {
+    id: "median",
+    header: "Median seeing",
+    meta: { unit: "arcsec", numeric: true },
+    cell: (cell) => formatArcsec(cell.getValue()),
+  }),
+  column.accessor((site) => site.summary?.p25, { id: "p25", header: "25th pct.", meta: { unit: "arcsec", numeric: true }, cell: (cell) => formatArcsec(cell.getValue()) }),
+  column.accessor((site) => site.summary?.p75, { id: "p75", header: "75th pct.", meta: { unit: "arcsec", numeric: true }, cell: (cell) => formatArcsec(cell.getValue()) }),
+  column.accessor((site) => site.summary?.nights, { id: "nights", header: "Nights", meta: { numeric: true }, cell: (cell) => formatNumber(cell.getValue()) }),
+  column.accessor("campaignCount", { header: "Campaigns", meta: { numeric: true } }),
+];
+
+export function SitesPage() {
+  const { data: sites } = useSuspenseQuery(sitesQuery);
+  const { data: me } = useSuspenseQuery(meQuery);
+  const navigate = useNavigate();
+  const [hoveredSiteId, setHoveredSiteId] = useState<number | null>(null);
+  // The server has no route that hands out its tile setting (CALMCREST_TILE_URL) yet, so the map stays on the shipped
+  // outlines and asks nothing: SiteMap takes `tiles` as soon as such a route exists.
+  const tiles: MapTiles | null = null;
+  const withData = useMemo(() => sites.filter((site) => site.summary).length, [sites]);
+
+  return (
+    <Page
+      title="Sites"
+      intro="Candidate sites and their median seeing (at zenith, 500 nm, default filters) over every campaign you can see. Hover a marker for its figures; click it or a name to open the site."
+    >
+      {sites.length === 0 ? (
+        <Notice title="No sites to show yet.">
+          {me?.role === "engineer"
+            ? "You see the sites of the campaigns you are a member of. Ask the survey lead or an administrator to add you to your campaign."
+            : "Survey leads and administrators add candidate sites; each site then gets a campaign per monitor deployment, and field engineers upload its logs."}
+        </Notice>
+      ) : (
+        <div className="grid gap-6 xl:grid-cols-[minmax(0,5fr)_minmax(0,6fr)]">
+          <section aria-labelledby="map-heading" className="space-y-3">
+            <h2 id="map-heading" className="sr-only">
+              Map of sites
+            </h2>
+            <SiteMap sites={sites} tiles={tiles} highlightedSiteId={hoveredSiteId} onHover={setHoveredSiteId} onOpen={(siteId) => void navigate(`/sites/${siteId}`)} />
+            <SeeingLegend />
+            <p className="text-sm text-ink-soft">
+              {withData} of {sites.length} sites have seeing data. {tiles ? "Map tiles from the configured tile server." : "Country outlines: Natural Earth, 1:110 million (shipped with Calmcrest, no network needed)."}
+            </p>
+          </section>
+          <section aria-labelledby="table-heading" className="space-y-3">
+            <h2 id="table-heading" className="text-lg font-semibold">
+              The same sites as a table
+            </h2>
+            <DataTable
+              caption="Candidate sites with their median seeing"
+              columns={columns}
+              data={sites}
+              initialSorting={[{ id: "median", desc: false }]}
+              getRowId={(site) => String(site.id)}
+              highlightedRowId={hoveredSiteId === null ? null : String(hoveredSiteId)}
+              onRowHover={(rowId) => setHoveredSiteId(rowId === null ? null : Number(rowId))}
+            />
+          </section>
+        </div>
+      )}
+    </Page>
+  );
+}

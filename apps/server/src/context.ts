@@ -1,10 +1,18 @@
 import type { AppDatabase } from "./db/database.server";
 import type { AppLucia } from "./auth/lucia.server";
 import type { Env } from "./env.server";
+import type { IngestQueue } from "./ingest/ingest-queue.server";
+import type { SampleCache } from "./summaries/sample-cache.server";
 
 /** What every route module receives. */
 export interface AppContext {
   env: Env;
   db: AppDatabase;
   lucia: AppLucia;
+  /** Background ingest of stored uploads, one at a time. */
+  ingest: IngestQueue;
+  /** Per-campaign sample columns for summaries, loaded from SQLite on first use. */
+  samples: SampleCache;
+  /** Stops the ingest worker and closes the database. */
+  close(): Promise<void>;
 }

@@ -9,7 +9,7 @@ try {
   console.log(`Calmcrest is serving at http://localhost:${env.PORT} (data in ${env.dataDir})`);
   const stop = () => {
     server.close();
-    void context.db.close().then(() => process.exit(0));
+    void context.close().then(() => process.exit(0));
   };
   process.on("SIGINT", stop);
   process.on("SIGTERM", stop);

@@ -4,16 +4,37 @@ import { createLucia } from "./auth/lucia.server";
 import type { AppContext } from "./context";
 import { openDatabase } from "./db/database.server";
 import type { Env } from "./env.server";
+import { IngestQueue, recoverUploads } from "./ingest/ingest-queue.server";
 import { seedIfEmpty } from "./seed/index";
+import { SampleCache } from "./summaries/sample-cache.server";
 
 // Start-up hooks other areas register (for example: mark uploads left half-done by a dead process).
-export const startupSteps: ((context: AppContext) => Promise<void>)[] = [];
+export const startupSteps: ((context: AppContext) => Promise<void>)[] = [
+  async ({ db, ingest }) => {
+    const { interrupted, requeued } = await recoverUploads(db, ingest);
+    if (interrupted + requeued > 0) {
+      console.log(`Calmcrest: ${interrupted} upload(s) left half-ingested by a stopped server are marked interrupted; ${requeued} queued upload(s) re-queued.`);
+    }
+  },
+];
 
 /** Opens the database (migrating it), seeds an empty one, and returns the context the app runs on. */
 export async function createContext(env: Env): Promise<AppContext> {
   const db = await openDatabase(env.dataDir);
   const lucia = createLucia(db.sqlite, { secureCookies: env.NODE_ENV === "production" });
-  const context: AppContext = { env, db, lucia };
+  const samples = new SampleCache(db.sqlite);
+  const ingest = new IngestQueue(db, env.dataDir, samples, env.NODE_ENV === "test");
+  const context: AppContext = {
+    env,
+    db,
+    lucia,
+    ingest,
+    samples,
+    async close() {
+      await ingest.stop();
+      await db.close();
+    },
+  };
   for (const step of startupSteps) await step(context);
   await seedIfEmpty(context);
   return context;

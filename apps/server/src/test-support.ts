@@ -29,7 +29,7 @@ export async function createTestServer(options: { seed?: "users" | "full" | "non
   const context: AppContext = await createContext(env);
   const app: Express = createApp(context);
   afterAll(async () => {
-    await context.db.close();
+    await context.close();
     rmSync(dataDir, { recursive: true, force: true });
   });
   return { app, context, dataDir };

@@ -3,6 +3,7 @@ import { join } from "node:path";
 import Database from "better-sqlite3";
 import knexFactory, { type Knex } from "knex";
 import { migrationSource } from "@calmcrest/migrations";
+import { tune } from "./tune.server";
 
 export interface AppDatabase {
   knex: Knex;
@@ -10,14 +11,6 @@ export interface AppDatabase {
   sqlite: Database.Database;
   file: string;
   close(): Promise<void>;
-}
-
-function tune(connection: Database.Database) {
-  connection.pragma("journal_mode = WAL");
-  connection.pragma("foreign_keys = ON");
-  // Writers wait for each other instead of failing with SQLITE_BUSY.
-  connection.pragma("busy_timeout = 5000");
-  connection.pragma("synchronous = NORMAL");
 }
 
 export async function openDatabase(dataDir: string): Promise<AppDatabase> {

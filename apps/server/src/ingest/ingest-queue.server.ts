@@ -1,0 +1,192 @@
+import { Worker } from "node:worker_threads";
+import type { ColumnMapping, MonitorSettings } from "@calmcrest/seeing-stats";
+import type { AppDatabase } from "../db/database.server";
+import type { CampaignRow, SiteRow } from "../access/access.server";
+import { rawFilePath } from "../uploads/raw-files.server";
+import type { SampleCache } from "../summaries/sample-cache.server";
+import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
+
+interface QueuedUploadRow {
+  id: number;
+  campaign_id: number;
+  sha256: string;
+  size_bytes: number;
+  mapping: string;
+}
+
+/**
+ * The in-process ingest queue: one ingest at a time (SQLite has one writer anyway), run in a worker thread.
+ * Progress of the running ingest is kept in memory for GET /api/uploads/:id.
+ */
+export class IngestQueue {
+  private readonly waiting: number[] = [];
+  private readonly progressByUpload = new Map<number, number>();
+  private running: { uploadId: number; campaignId: number; sizeBytes: number; settle: () => void } | null = null;
+  private worker: Worker | null = null;
+  private stopped = false;
+  private busy = false;
+  private idleWaiters: (() => void)[] = [];
+  /** Test-only knobs (ignored outside NODE_ENV=test). */
+  readonly testHooks: { failAfterSamples?: number } = {};
+
+  constructor(
+    private readonly db: AppDatabase,
+    private readonly dataDir: string,
+    private readonly cache: SampleCache,
+    private readonly allowTestHooks: boolean,
+  ) {}
+
+  /** Queues a stored upload (status queued) for ingest. */
+  enqueue(uploadId: number): void {
+    if (this.stopped) return;
+    if (this.waiting.includes(uploadId) || this.running?.uploadId === uploadId) return;
+    this.waiting.push(uploadId);
+    this.progressByUpload.set(uploadId, 0);
+    void this.pump();
+  }
+
+  /** 0..1 for a queued or running upload; undefined when it is not in the queue. */
+  progress(uploadId: number): number | undefined {
+    return this.progressByUpload.get(uploadId);
+  }
+
+  /** Resolves when nothing is queued or running. */
+  idle(): Promise<void> {
+    if (!this.busy && this.waiting.length === 0) return Promise.resolve();
+    return new Promise((resolve) => this.idleWaiters.push(resolve));
+  }
+
+  /** Lets the running ingest finish, drops the rest (they stay `queued` and are re-queued at the next start), stops the worker. */
+  async stop(): Promise<void> {
+    this.stopped = true;
+    this.waiting.length = 0;
+    if (this.busy) await new Promise<void>((resolve) => this.idleWaiters.push(resolve));
+    const worker = this.worker;
+    this.worker = null;
+    if (worker) {
+      const exited = new Promise<void>((resolve) => worker.once("exit", () => resolve()));
+      worker.postMessage({ type: "close" } satisfies ToWorker);
+      // close() ends the worker's message port, so it exits; terminate() is the fallback.
+      const timeout = setTimeout(() => void worker.terminate(), 2000);
+      await exited;
+      clearTimeout(timeout);
+    }
+  }
+
+  private ensureWorker(): Worker {
+    if (this.worker) return this.worker;
+    const worker = new Worker(new URL("./ingest-worker.mjs", import.meta.url));
+    worker.on("message", (message: FromWorker) => this.onMessage(message));
+    worker.on("error", (error) => {
+      // The worker died (out of memory, a bug): the running upload failed; a fresh worker serves the next one.
+      this.worker = null;
+      const running = this.running;
+      if (running) void this.finishFailed(running.uploadId, `The ingest stopped unexpectedly: ${error.message}`);
+    });
+    worker.on("exit", () => {
+      if (this.worker === worker) this.worker = null;
+    });
+    this.worker = worker;
+    return worker;
+  }
+
+  private onMessage(message: FromWorker): void {
+    const running = this.running;
+    if (!running || running.uploadId !== message.uploadId) return;
+    if (message.type === "progress") {
+      this.progressByUpload.set(message.uploadId, Math.min(0.99, message.bytesRead / Math.max(1, running.sizeBytes)));
+      return;
+    }
+    if (message.type === "done") {
+      this.cache.invalidate(running.campaignId);
+      running.settle();
+      return;
+    }
+    void this.finishFailed(message.uploadId, message.message);
+  }
+
+  private async finishFailed(uploadId: number, error: string): Promise<void> {
+    await this.db.knex("upload").where({ id: uploadId }).update({
+      status: "failed",
+      error,
+      rows_read: 0,
+      samples_accepted: 0,
+      rejected_by_reason: "{}",
+      finished_at: new Date().toISOString(),
+    });
+    this.running?.settle();
+  }
+
+  private async pump(): Promise<void> {
+    // `busy` is set before the first await, so two enqueues in a row cannot start two ingests.
+    if (this.busy) return;
+    const uploadId = this.stopped ? undefined : this.waiting.shift();
+    if (uploadId === undefined) {
+      for (const resolve of this.idleWaiters.splice(0)) resolve();
+      return;
+    }
+    this.busy = true;
+    try {
+      const job = await this.jobFor(uploadId);
+      if (job) {
+        await new Promise<void>((settle) => {
+          this.running = { uploadId, campaignId: job.campaignId, sizeBytes: job.sizeBytes, settle };
+          void this.db
+            .knex("upload")
+            .where({ id: uploadId })
+            .update({ status: "ingesting", started_at: new Date().toISOString(), error: null, finished_at: null })
+            .then(() => this.ensureWorker().postMessage({ type: "job", job } satisfies ToWorker))
+            .catch((error: unknown) => void this.finishFailed(uploadId, error instanceof Error ? error.message : String(error)));
+        });
+      }
+    } finally {
+      this.running = null;
+      this.busy = false;
+      this.progressByUpload.delete(uploadId);
+    }
+    void this.pump();
+  }
+
+  private async jobFor(uploadId: number): Promise<IngestJob | null> {
+    const knex = this.db.knex;
+    const upload = await knex("upload").where({ id: uploadId }).first<QueuedUploadRow | undefined>();
+    if (!upload) return null;
+    const campaign = await knex("campaign").where({ id: upload.campaign_id }).first<CampaignRow>();
+    const site = await knex("site").where({ id: campaign.site_id }).first<SiteRow>();
+    const monitor: MonitorSettings = {
+      apertureMm: campaign.aperture_mm,
+      baselineMm: campaign.baseline_mm,
+      wavelengthNm: campaign.wavelength_nm,
+      response: campaign.response,
+      ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
+      ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
+    };
+    const job: IngestJob = {
+      uploadId,
+      campaignId: campaign.id,
+      dbFile: this.db.file,
+      rawPath: rawFilePath(this.dataDir, upload.sha256),
+      sizeBytes: upload.size_bytes,
+      mapping: JSON.parse(upload.mapping) as ColumnMapping,
+      monitor,
+      site: { latitudeDeg: site.latitude, longitudeDeg: site.longitude, elevationM: site.elevation_m },
+    };
+    if (this.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;
+    return job;
+  }
+}
+
+/**
+ * Start-up recovery: an upload left `ingesting` belonged to a process that died mid-ingest. Its samples cannot
+ * exist (one transaction), so it is marked `interrupted` for a person to retry. Uploads still `queued` never
+ * started: they are simply queued again.
+ */
+export async function recoverUploads(db: AppDatabase, queue: IngestQueue): Promise<{ interrupted: number; requeued: number }> {
+  const interrupted = await db
+    .knex("upload")
+    .where({ status: "ingesting" })
+    .update({ status: "interrupted", error: "The server stopped while this file was being ingested; nothing of it was stored. Retry it.", finished_at: new Date().toISOString() });
+  const queued = await db.knex("upload").where({ status: "queued" }).orderBy("id").select<{ id: number }[]>("id");
+  for (const row of queued) queue.enqueue(row.id);
+  return { interrupted, requeued: queued.length };
+}

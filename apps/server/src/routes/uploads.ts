@@ -1,0 +1,304 @@
+import { access, open } from "node:fs/promises";
+import { Router, type RequestHandler } from "express";
+import multer from "multer";
+import type { User } from "lucia";
+import { LogFormatError, previewLog, SeeingInputError, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import {
+  columnMappingSchema,
+  type RejectReasonName,
+  type UploadAccepted,
+  type UploadDuplicateBody,
+  type UploadPreview,
+  type UploadStatus,
+} from "@calmcrest/contracts";
+import type { AppContext } from "../context";
+import { campaignFor, FIELD_ROLES, routeId, type CampaignAction, type CampaignRow, type SiteRow } from "../access/access.server";
+import { recordAudit } from "../audit/audit.server";
+import { HttpError, notFound, parseOr400 } from "../http/errors";
+import { currentUser, requireUser, requireRole } from "../http/session";
+import { discardTemporary, hashingDiskStorage, rawFilePath, storeRawFile, type HashedFile } from "../uploads/raw-files.server";
+import { uploadListItem, uploadQuery, type UploadRow } from "../views.server";
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Locals {
+      /** Set by campaignAccess before multer runs. */
+      campaign?: CampaignRow;
+    }
+  }
+}
+
+/** The preview reads only the first rows; the wizard sends a small slice of the file. */
+const PREVIEW_MAX_BYTES = 4 * 1024 * 1024;
+/** Enough of a stored file to check its header and mapping before queueing it. */
+const HEADER_CHECK_BYTES = 64 * 1024;
+const LISTED_REJECTED_ROWS = 100;
+
+function accessedCampaign(locals: Express.Locals): CampaignRow {
+  if (!locals.campaign) throw notFound("That campaign");
+  return locals.campaign;
+}
+
+function monitorOf(campaign: CampaignRow): MonitorSettings {
+  return {
+    apertureMm: campaign.aperture_mm,
+    baselineMm: campaign.baseline_mm,
+    wavelengthNm: campaign.wavelength_nm,
+    response: campaign.response,
+    ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
+    ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
+  };
+}
+
+/** The multipart `mapping` field: JSON field -> header, or absent (then the engine's proposal is used). */
+function parseMappingField(value: unknown): ColumnMapping | undefined {
+  if (value === undefined || value === "") return undefined;
+  if (typeof value !== "string") throw new HttpError(400, "invalid_input", "The mapping must be one JSON text field.", { mapping: ["Send one mapping field."] });
+  let parsed: unknown;
+  try {
+    parsed = JSON.parse(value);
+  } catch {
+    throw new HttpError(400, "invalid_input", 'The mapping is not valid JSON. Send it like {"time_utc":"Timestamp","seeing_arcsec":"FWHM"}.', {
+      mapping: ["Not valid JSON."],
+    });
+  }
+  return parseOr400(columnMappingSchema, parsed, "The mapping");
+}
+
+/** Text of a LogFormatError for a person: what is wrong, where, how to fix it. */
+function formatProblem(error: LogFormatError): string {
+  return `${error.message}${error.line === null ? "" : ` (line ${error.line})`}. ${error.hint}`.trim();
+}
+
+/** The first bytes of a file as text (a cut multi-byte character at the end is harmless for a header check). */
+async function readHead(path: string): Promise<string> {
+  const handle = await open(path, "r");
+  try {
+    const buffer = Buffer.alloc(HEADER_CHECK_BYTES);
+    const { bytesRead } = await handle.read(buffer, 0, HEADER_CHECK_BYTES, 0);
+    return buffer.subarray(0, bytesRead).toString("utf8");
+  } finally {
+    await handle.close();
+  }
+}
+
+function csvCell(value: string | number): string {
+  const text = String(value);
+  return /[",\r\n]/.test(text) ? `"${text.replaceAll('"', '""')}"` : text;
+}
+
+/** Runs a multer middleware and turns its errors into the API's JSON errors (413 names the limit in MB). */
+function withUploadErrors(middleware: RequestHandler, limitMb: number): RequestHandler {
+  return (req, res, next) => {
+    middleware(req, res, (error?: unknown) => {
+      if (!error) return next();
+      if (error instanceof multer.MulterError) {
+        if (error.code === "LIMIT_FILE_SIZE") {
+          return next(
+            new HttpError(413, "file_too_large", `The file is larger than the upload limit of ${limitMb} MB. Split the log into smaller files (for example one per month) and upload each.`),
+          );
+        }
+        return next(new HttpError(400, "bad_upload", `The upload form was not understood (${error.message}). Send one file in the field "file".`));
+      }
+      next(error);
+    });
+  };
+}
+
+export function uploadRoutes(context: AppContext): Router {
+  const { db, env, ingest } = context;
+  const knex = db.knex;
+  const router = Router();
+  router.use(["/uploads", "/campaigns"], requireUser, requireRole(...FIELD_ROLES));
+
+  const limitMb = env.CALMCREST_MAX_UPLOAD_MB;
+  const receiveFile = withUploadErrors(
+    multer({ storage: hashingDiskStorage(env.dataDir), limits: { fileSize: env.maxUploadBytes, files: 1, fields: 10 } }).single("file"),
+    limitMb,
+  );
+  const receivePreview = withUploadErrors(
+    multer({ storage: multer.memoryStorage(), limits: { fileSize: PREVIEW_MAX_BYTES, files: 1, fields: 10 } }).single("file"),
+    PREVIEW_MAX_BYTES / 1024 / 1024,
+  );
+
+  /** Checks access before multer reads a byte, and keeps the campaign for the handler. */
+  const campaignAccess =
+    (action: CampaignAction): RequestHandler =>
+    async (req, res, next) => {
+      const campaign = await campaignFor(knex, currentUser(res.locals), routeId(req.params.id, "That campaign"), action);
+      res.locals.campaign = campaign;
+      next();
+    };
+
+  async function siteOf(campaign: CampaignRow): Promise<SiteRow> {
+    return knex("site").where({ id: campaign.site_id }).first<SiteRow>();
+  }
+
+  async function uploadFor(user: User, uploadId: number, action: CampaignAction): Promise<UploadRow> {
+    const row = await uploadQuery(knex).where("upload.id", uploadId).first();
+    if (!row) throw notFound("That upload");
+    try {
+      await campaignFor(knex, user, row.campaign_id, action);
+    } catch (error) {
+      // An upload of a campaign one cannot see does not exist for them.
+      if (error instanceof HttpError && error.status === 404) throw notFound("That upload");
+      throw error;
+    }
+    return row;
+  }
+
+  async function uploadStatus(row: UploadRow): Promise<UploadStatus> {
+    const rejectedRows = await knex("upload_reject")
+      .where({ upload_id: row.id })
+      .orderBy("line")
+      .limit(LISTED_REJECTED_ROWS)
+      .select<{ line: number; reason: RejectReasonName; message: string }[]>("line", "reason", "message");
+    const running = ingest.progress(row.id);
+    const progress = row.status === "done" ? 1 : (running ?? 0);
+    return { ...uploadListItem(row), progress, rejectedRows, startedAt: row.started_at };
+  }
+
+  router.post("/campaigns/:id/uploads/preview", campaignAccess("upload"), receivePreview, async (req, res) => {
+    const campaign = accessedCampaign(res.locals);
+    const body = req.body as Record<string, unknown> | undefined;
+    const text = req.file ? req.file.buffer.toString("utf8") : typeof body?.text === "string" ? body.text : null;
+    if (text === null) throw new HttpError(400, "invalid_input", 'Send the first rows of the log as the file field "file".', { file: ["No file was sent."] });
+    const mapping = parseMappingField(body?.mapping);
+    const site = await siteOf(campaign);
+    try {
+      const preview = previewLog(text, {
+        monitor: monitorOf(campaign),
+        site: { latitudeDeg: site.latitude, longitudeDeg: site.longitude, elevationM: site.elevation_m },
+        maxRows: 20,
+        ...(mapping ? { mapping } : {}),
+      });
+      const answer: UploadPreview = {
+        delimiter: preview.delimiter,
+        headers: preview.headers,
+        // The proposal is always from the headers, so the wizard can offer it even when a mapping was sent.
+        proposedMapping: mapping ? previewLog(text, { monitor: monitorOf(campaign), maxRows: 0 }).proposedMapping : preview.proposedMapping,
+        mappingProblems: preview.mappingProblems,
+        mappingUsed: mapping ?? preview.proposedMapping,
+        rows: preview.rows,
+      };
+      res.json(answer);
+    } catch (error) {
+      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
+      if (error instanceof SeeingInputError) throw new HttpError(400, "invalid_input", error.message);
+      throw error;
+    }
+  });
+
+  router.post("/campaigns/:id/uploads", campaignAccess("upload"), receiveFile, async (req, res) => {
+    const user = currentUser(res.locals);
+    const campaign = accessedCampaign(res.locals);
+    const file = req.file as (Express.Multer.File & HashedFile) | undefined;
+    try {
+      if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file".', { file: ["No file was sent."] });
+      const body = req.body as Record<string, unknown> | undefined;
+      const sentMapping = parseMappingField(body?.mapping);
+
+      // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
+      const head = await readHead(file.path);
+      let mapping: ColumnMapping;
+      try {
+        const preview = previewLog(head, { monitor: monitorOf(campaign), maxRows: 0, ...(sentMapping ? { mapping: sentMapping } : {}) });
+        if (preview.mappingProblems.length > 0) {
+          throw new HttpError(400, "unusable_mapping", `The file cannot be read with this mapping: ${preview.mappingProblems.join(" ")}`, {
+            mapping: preview.mappingProblems,
+          });
+        }
+        mapping = sentMapping ?? preview.proposedMapping;
+      } catch (error) {
+        if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
+        throw error;
+      }
+
+      const existing = await uploadQuery(knex).where({ "upload.campaign_id": campaign.id, "upload.sha256": file.sha256 }).first();
+      if (existing) {
+        const duplicate: UploadDuplicateBody = {
+          error: {
+            code: "duplicate_upload",
+            message: `This file was uploaded to this campaign already (${existing.file_name}, ${existing.uploaded_at}); its samples are counted once.`,
+          },
+          upload: uploadListItem(existing),
+        };
+        await discardTemporary(file);
+        res.status(409).json(duplicate);
+        return;
+      }
+      await storeRawFile(env.dataDir, file);
+      const [inserted] = await knex("upload")
+        .insert({
+          campaign_id: campaign.id,
+          file_name: file.originalname,
+          size_bytes: file.size,
+          sha256: file.sha256,
+          uploaded_by: user.id,
+          uploaded_at: new Date().toISOString(),
+          mapping: JSON.stringify(mapping),
+          status: "queued",
+        })
+        .returning<{ id: number }[]>("id");
+      if (!inserted) throw new HttpError(500, "server_error", "The upload could not be recorded. Try again.");
+      await recordAudit(knex, {
+        userId: user.id,
+        action: "upload.create",
+        targetType: "upload",
+        targetId: inserted.id,
+        details: { campaignId: campaign.id, fileName: file.originalname, sizeBytes: file.size, sha256: file.sha256 },
+      });
+      ingest.enqueue(inserted.id);
+      const accepted: UploadAccepted = { upload: { id: inserted.id, status: "queued" } };
+      res.status(202).json(accepted);
+    } catch (error) {
+      // The raw file is only kept once an upload record points at it (storeRawFile moves it away first).
+      await discardTemporary(file);
+      throw error;
+    }
+  });
+
+  router.get("/uploads/:id", async (req, res) => {
+    const row = await uploadFor(currentUser(res.locals), routeId(req.params.id, "That upload"), "read");
+    res.json(await uploadStatus(row));
+  });
+
+  router.get("/uploads/:id/rejected.csv", async (req, res) => {
+    const row = await uploadFor(currentUser(res.locals), routeId(req.params.id, "That upload"), "read");
+    res.setHeader("Content-Type", "text/csv; charset=utf-8");
+    const safeName = row.file_name.replace(/[^\w.-]+/g, "_");
+    res.setHeader("Content-Disposition", `attachment; filename="rejected-${row.id}-${safeName}.csv"`);
+    const rows = db.sqlite
+      .prepare("SELECT line, reason, message, raw_line FROM upload_reject WHERE upload_id = ? ORDER BY line")
+      .raw()
+      .iterate(row.id) as IterableIterator<[number, string, string, string]>;
+    let buffer = "line,reason,message,raw_line\n";
+    for (const [line, reason, message, rawLine] of rows) {
+      buffer += `${line},${csvCell(reason)},${csvCell(message)},${csvCell(rawLine)}\n`;
+      if (buffer.length > 64 * 1024) {
+        res.write(buffer);
+        buffer = "";
+      }
+    }
+    res.end(buffer);
+  });
+
+  router.post("/uploads/:id/retry", async (req, res) => {
+    const user = currentUser(res.locals);
+    const row = await uploadFor(user, routeId(req.params.id, "That upload"), "upload");
+    if (row.status !== "failed" && row.status !== "interrupted") {
+      throw new HttpError(409, "not_retryable", `Only failed or interrupted uploads can be retried; this one is ${row.status}.`);
+    }
+    await access(rawFilePath(env.dataDir, row.sha256)).catch(() => {
+      throw new HttpError(409, "raw_file_missing", "The stored raw file of this upload is missing from the data directory, so it cannot be retried. Upload the file again.");
+    });
+    await knex("upload").where({ id: row.id }).update({ status: "queued", error: null, finished_at: null });
+    await recordAudit(knex, { userId: user.id, action: "upload.retry", targetType: "upload", targetId: row.id, details: { previousStatus: row.status, previousError: row.error } });
+    ingest.enqueue(row.id);
+    const accepted: UploadAccepted = { upload: { id: row.id, status: "queued" } };
+    res.status(202).json(accepted);
+  });
+
+  return router;
+}

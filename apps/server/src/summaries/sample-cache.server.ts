@@ -1,0 +1,109 @@
+import type Database from "better-sqlite3";
+import type { SiteSummaryBrief } from "@calmcrest/contracts";
+
+/**
+ * A campaign's stored samples as columns in time order (typed arrays: about 40 bytes a sample).
+ * Nullable values are NaN. Filters and exclusions are applied per request, never baked in.
+ */
+export interface CampaignColumns {
+  count: number;
+  timeMs: Float64Array;
+  seeingArcsec: Float64Array;
+  zenithDeg: Float64Array;
+  sunAltDeg: Float64Array;
+  flux: Float64Array;
+}
+
+export interface ExclusionWindow {
+  fromMs: number;
+  toMs: number;
+  reason: string;
+}
+
+interface CampaignEntry {
+  columns: CampaignColumns;
+  exclusions: ExclusionWindow[];
+}
+
+/**
+ * Loads each campaign's samples from SQLite once and keeps them until an ingest into that campaign finishes or
+ * its exclusions change. Summaries are computed fresh from these columns on every request.
+ */
+export class SampleCache {
+  private readonly campaigns = new Map<number, CampaignEntry>();
+  /** Short site summaries for the site list, keyed by site and visible campaigns; cleared on any change. */
+  readonly briefs = new Map<string, SiteSummaryBrief | null>();
+
+  constructor(private readonly sqlite: Database.Database) {}
+
+  private entry(campaignId: number): CampaignEntry {
+    const cached = this.campaigns.get(campaignId);
+    if (cached) return cached;
+    const entry = { columns: this.loadColumns(campaignId), exclusions: this.loadExclusions(campaignId) };
+    this.campaigns.set(campaignId, entry);
+    return entry;
+  }
+
+  columns(campaignId: number): CampaignColumns {
+    return this.entry(campaignId).columns;
+  }
+
+  exclusions(campaignId: number): ExclusionWindow[] {
+    return this.entry(campaignId).exclusions;
+  }
+
+  /** Call after an ingest into the campaign commits or its exclusions change. */
+  invalidate(campaignId: number): void {
+    this.campaigns.delete(campaignId);
+    this.briefs.clear();
+  }
+
+  private loadColumns(campaignId: number): CampaignColumns {
+    const countRow = this.sqlite.prepare("SELECT COUNT(*) AS n FROM sample WHERE campaign_id = ?").get(campaignId) as { n: number };
+    const count = countRow.n;
+    const columns: CampaignColumns = {
+      count,
+      timeMs: new Float64Array(count),
+      seeingArcsec: new Float64Array(count),
+      zenithDeg: new Float64Array(count),
+      sunAltDeg: new Float64Array(count),
+      flux: new Float64Array(count),
+    };
+    // The primary key (campaign_id, time_ms) returns them in time order without sorting.
+    const rows = this.sqlite
+      .prepare("SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux FROM sample WHERE campaign_id = ? ORDER BY time_ms")
+      .raw()
+      .iterate(campaignId) as IterableIterator<[number, number, number, number | null, number | null]>;
+    let index = 0;
+    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux] of rows) {
+      // A concurrent ingest cannot add rows mid-read (WAL snapshot), but guard the preallocated length anyway.
+      if (index >= count) break;
+      columns.timeMs[index] = timeMs;
+      columns.seeingArcsec[index] = seeingArcsec;
+      columns.zenithDeg[index] = zenithDeg;
+      columns.sunAltDeg[index] = sunAltDeg ?? Number.NaN;
+      columns.flux[index] = flux ?? Number.NaN;
+      index += 1;
+    }
+    return index === count ? columns : { ...columns, count: index };
+  }
+
+  private loadExclusions(campaignId: number): ExclusionWindow[] {
+    const rows = this.sqlite
+      .prepare("SELECT from_ms AS fromMs, to_ms AS toMs, reason FROM exclusion WHERE campaign_id = ? ORDER BY from_ms")
+      .all(campaignId) as ExclusionWindow[];
+    return rows;
+  }
+}
+
+/** First index whose time is >= timeMs (times ascending). */
+export function lowerBoundTime(times: Float64Array, count: number, timeMs: number): number {
+  let low = 0;
+  let high = count;
+  while (low < high) {
+    const middle = (low + high) >>> 1;
+    if ((times[middle] ?? Number.POSITIVE_INFINITY) < timeMs) low = middle + 1;
+    else high = middle;
+  }
+  return low;
+}

@@ -186,23 +186,23 @@ export function createRowReader(options: {
   }
   const measureName = measure === 'seeing' ? 'seeing_arcsec' : measure === 'r0' ? 'r0_cm' : measure === 'variance_px2' ? 'var_…_px2' : 'var_…_arcsec2';
 
-  return (fields, line) => {
+  return (fields) => {
     const timeText = fields[timeIndex];
     const timeMs = timeText === undefined ? Number.NaN : parseUtcTime(timeText);
     if (Number.isNaN(timeMs)) {
       const shown = timeText === undefined || timeText.trim() === '' ? 'an empty time' : `"${timeText.slice(0, 40)}"`;
-      return { ok: false, reason: 'unreadable_time', message: `line ${line}: ${shown} is not an ISO 8601 UTC time like 2025-03-01T23:15:00Z` };
+      return { ok: false, reason: 'unreadable_time', message: `${shown} is not an ISO 8601 UTC time like 2025-03-01T23:15:00Z` };
     }
 
     let zenithDeg: number;
     if (zenithIndex >= 0) {
       zenithDeg = readNumber(fields, zenithIndex, decimalComma);
-      if (Number.isNaN(zenithDeg)) return missingOrNonFinite(line, 'zenith_deg');
-      if (!(zenithDeg >= 0 && zenithDeg < 90)) return nonPhysical(line, `zenith angle ${zenithDeg}° is outside [0°, 90°)`);
+      if (Number.isNaN(zenithDeg)) return missingOrNonFinite('zenith_deg');
+      if (!(zenithDeg >= 0 && zenithDeg < 90)) return nonPhysical(`zenith angle ${zenithDeg}° is outside [0°, 90°)`);
     } else {
       const airmass = readNumber(fields, airmassIndex, decimalComma);
-      if (Number.isNaN(airmass)) return missingOrNonFinite(line, 'airmass');
-      if (!(airmass >= 1)) return nonPhysical(line, `airmass ${airmass} is below 1`);
+      if (Number.isNaN(airmass)) return missingOrNonFinite('airmass');
+      if (!(airmass >= 1)) return nonPhysical(`airmass ${airmass} is below 1`);
       zenithDeg = Math.acos(1 / airmass) / DEG_TO_RAD; // X = sec z
     }
     const cosZenith = Math.cos(zenithDeg * DEG_TO_RAD);
@@ -213,11 +213,11 @@ export function createRowReader(options: {
     let anisotropic = false;
     if (measure === 'variance_arcsec2' || measure === 'variance_px2') {
       const varianceLong = readNumber(fields, longIndex, decimalComma);
-      if (Number.isNaN(varianceLong)) return missingOrNonFinite(line, measureName.replace('…', 'long'));
+      if (Number.isNaN(varianceLong)) return missingOrNonFinite(measureName.replace('…', 'long'));
       const varianceTrans = readNumber(fields, transIndex, decimalComma);
-      if (Number.isNaN(varianceTrans)) return missingOrNonFinite(line, measureName.replace('…', 'trans'));
+      if (Number.isNaN(varianceTrans)) return missingOrNonFinite(measureName.replace('…', 'trans'));
       if (!(varianceLong > 0) || !(varianceTrans > 0)) {
-        return nonPhysical(line, `variances must be > 0, got ${varianceLong} and ${varianceTrans}`);
+        return nonPhysical(`variances must be > 0, got ${varianceLong} and ${varianceTrans}`);
       }
       seeingLongArcsec = longFactor * (varianceLong * varianceToArcsec2 * cosZenith) ** (3 / 5);
       seeingTransArcsec = transFactor * (varianceTrans * varianceToArcsec2 * cosZenith) ** (3 / 5);
@@ -226,13 +226,13 @@ export function createRowReader(options: {
       anisotropic = ratio > anisotropyLimit;
     } else if (measure === 'seeing') {
       const measured = readNumber(fields, seeingIndex, decimalComma);
-      if (Number.isNaN(measured)) return missingOrNonFinite(line, 'seeing_arcsec');
-      if (!(measured > 0)) return nonPhysical(line, `seeing ${measured}″ must be > 0`);
+      if (Number.isNaN(measured)) return missingOrNonFinite('seeing_arcsec');
+      if (!(measured > 0)) return nonPhysical(`seeing ${measured}″ must be > 0`);
       seeingArcsec = measured * cosZenith ** (3 / 5) * toReferenceSeeing;
     } else {
       const measured = readNumber(fields, r0Index, decimalComma);
-      if (Number.isNaN(measured)) return missingOrNonFinite(line, 'r0_cm');
-      if (!(measured > 0)) return nonPhysical(line, `r0 ${measured} cm must be > 0`);
+      if (Number.isNaN(measured)) return missingOrNonFinite('r0_cm');
+      if (!(measured > 0)) return nonPhysical(`r0 ${measured} cm must be > 0`);
       // r0(zenith, 500 nm) = r0 (cos z)^(-3/5) (500/λ)^(6/5); seeing from it.
       const r0ReferenceCm = measured * cosZenith ** (-3 / 5) * (REFERENCE_WAVELENGTH_NM / monitor.wavelengthNm) ** (6 / 5);
       seeingArcsec = r0ScaleCmArcsec / r0ReferenceCm;
@@ -260,11 +260,11 @@ export function createRowReader(options: {
   };
 }
 
-function missingOrNonFinite(line: number, field: string): RowResult {
-  if (lastFieldWasNonFinite) return { ok: false, reason: 'non_physical', message: `line ${line}: ${field} is not a finite number (NaN or infinity)` };
-  return { ok: false, reason: 'missing_value', message: `line ${line}: ${field} is empty or not a number` };
+function missingOrNonFinite(field: string): RowResult {
+  if (lastFieldWasNonFinite) return { ok: false, reason: 'non_physical', message: `${field} is not a finite number (NaN or infinity)` };
+  return { ok: false, reason: 'missing_value', message: `${field} is empty or not a number` };
 }
 
-function nonPhysical(line: number, what: string): RowResult {
-  return { ok: false, reason: 'non_physical', message: `line ${line}: ${what}` };
+function nonPhysical(what: string): RowResult {
+  return { ok: false, reason: 'non_physical', message: what };
 }

@@ -1,6 +1,6 @@
 import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
-import { LogFormatError } from '../errors.js';
+import { LogFormatError, SeeingInputError, requireRange } from '../errors.js';
 import type { ColumnMapping } from '../log/logFields.js';
 import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filterReason.js';
 import type { FilterRejectReason, MonitorSettings, RejectReason } from '../log/createRowReader.js';
@@ -49,6 +49,9 @@ const DUPLICATE_CODE = 255;
  */
 export async function analyzeLog(input: NodeJS.ReadableStream | string, options: AnalyzeOptions): Promise<AnalyzerReport> {
   const filters: FilterSettings = { ...DEFAULT_FILTERS, ...options.filters };
+  requireRange(filters.maxZenithDeg, 'maxZenithDeg', 0, 90, 'degrees', true);
+  requireRange(filters.sunMaxDeg, 'sunMaxDeg', -90, 90, 'degrees', true);
+  if (filters.minFlux !== null && !Number.isFinite(filters.minFlux)) throw new SeeingInputError(`minFlux must be a finite number of counts, got ${String(filters.minFlux)}`);
   const stream = typeof input === 'string' ? await openLog(input) : input;
   const kept = new GrowableColumns();
   const rejectedByReason: Record<string, number> = {};
@@ -91,7 +94,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
     const reason: RejectReason = status === DUPLICATE_CODE ? 'duplicate_time' : (FILTER_CODES[status - 1] ?? 'zenith_limit');
     rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
     if (duplicateListing.length < MAX_LISTED_REJECTIONS) {
-      duplicateListing.push({ line, reason, message: `line ${line}: ${describeLateRejection(reason, kept.timeMs[index] ?? 0, filters)}` });
+      duplicateListing.push({ line, reason, message: `${describeLateRejection(reason, kept.timeMs[index] ?? 0, filters)}` });
     }
   }
   const rejectedRows = [...listed, ...duplicateListing].sort((left, right) => left.line - right.line).slice(0, MAX_LISTED_REJECTIONS);

@@ -1,4 +1,5 @@
 import { SeeingInputError } from '../errors.js';
+import { argsortPositive } from './argsortPositive.js';
 import { createRandom } from './random.js';
 
 export interface GroupedValues {
@@ -9,25 +10,46 @@ export interface GroupedValues {
 }
 
 /**
- * Block bootstrap of the pooled median (Efron 1979; resampling whole blocks as recommended for autocorrelated
- * series, e.g. Künsch 1989): each replicate draws as many groups (nights) as there are, with replacement, and
- * takes the type-7 median of all values of the drawn groups, each counted as often as its group was drawn.
- * Exact, without materialising the replicate: the k-th smallest pooled value is found by binary search over the
- * globally sorted values, counting each drawn group's share by binary search weighted by its draw count.
- * Needs at least one group with values. Returns the replicate medians (unsorted, in draw order).
+ * Block bootstrap of the pooled median (Efron 1979; whole blocks are resampled because values within a block,
+ * here a night, are correlated, as in Künsch 1989): each replicate draws as many groups as there are, with
+ * replacement, and takes the type-7 median of the values of all drawn groups, each counted as often as its group
+ * was drawn. Exact, without materialising the replicate. The globally sorted values, each tagged with its group,
+ * listed with every value repeated by its group's draw count, are the sorted replicate; so the k-th smallest is
+ * the first global position where the running weighted count reaches k + 1. The running count at one position is
+ * found by binary searches in the drawn groups; from a start near the overall median the search gallops to a
+ * bracket and then walks it, adding each position's weight.
+ * Needs at least one group with values. Returns the replicate medians in draw order.
  */
-export function bootstrapPooledMedian(groups: GroupedValues, options: { replicates: number; seed: number }): Float64Array {
+export function bootstrapPooledMedian(
+  groups: GroupedValues,
+  options: { replicates: number; seed: number; sortedWithGroups?: { sorted: Float64Array; groupOf: Int32Array } },
+): Float64Array {
   const { values, offsets } = groups;
   const groupCount = offsets.length - 1;
-  if (groupCount < 1 || values.length === 0) throw new SeeingInputError('bootstrapPooledMedian needs at least one group with values');
+  const total = values.length;
+  if (groupCount < 1 || total === 0) throw new SeeingInputError('bootstrapPooledMedian needs at least one group with values');
   if (!Number.isInteger(options.replicates) || options.replicates < 1) {
     throw new SeeingInputError(`replicates must be a positive whole number, got ${String(options.replicates)}`);
   }
-  const globallySorted = Float64Array.from(values).sort();
+  const { sorted, groupOf } = options.sortedWithGroups ?? sortWithGroups(values, offsets);
   const random = createRandom(options.seed);
   const drawCounts = new Int32Array(groupCount);
   const activeGroups = new Int32Array(groupCount);
   const medians = new Float64Array(options.replicates);
+  let activeCount = 0;
+
+  /** Σ over drawn groups of draw count × (values ≤ threshold): the running weighted count up to the last copy of threshold. */
+  const countAtMost = (threshold: number): number => {
+    let count = 0;
+    for (let slot = 0; slot < activeCount; slot += 1) {
+      const group = activeGroups[slot] ?? 0;
+      const start = offsets[group] ?? 0;
+      count += (drawCounts[group] ?? 0) * (upperBound(values, start, offsets[group + 1] ?? 0, threshold) - start);
+    }
+    return count;
+  };
+  /** Last global position holding the same value as position (ties are adjacent). */
+  const lastOfTies = (position: number): number => upperBound(sorted, position, total, sorted[position] ?? 0) - 1;
 
   for (let replicate = 0; replicate < options.replicates; replicate += 1) {
     drawCounts.fill(0);
@@ -35,7 +57,7 @@ export function bootstrapPooledMedian(groups: GroupedValues, options: { replicat
       const group = Math.floor(random() * groupCount);
       drawCounts[group] = (drawCounts[group] ?? 0) + 1;
     }
-    let activeCount = 0;
+    activeCount = 0;
     let pooledSize = 0;
     for (let group = 0; group < groupCount; group += 1) {
       const weight = drawCounts[group] ?? 0;
@@ -45,50 +67,82 @@ export function bootstrapPooledMedian(groups: GroupedValues, options: { replicat
         pooledSize += weight * ((offsets[group + 1] ?? 0) - (offsets[group] ?? 0));
       }
     }
-    // Type-7 median of the pooled replicate: order statistics k and k + 1 (0-based), interpolated.
     const position = (pooledSize - 1) / 2;
-    const rank = Math.floor(position);
-    const lowValue = kthSmallest(rank);
+    const rank = Math.floor(position); // type-7 median: order statistics rank and rank + 1 (0-based), interpolated
+    const target = rank + 1;
+
+    // Find a start position whose running count is below target, near the answer.
+    const step = Math.max(64, activeCount * 8);
+    let start = -1; // position before the walk; its running count is known
+    let startCount = 0;
+    let probe = lastOfTies(Math.min(total - 1, Math.max(0, Math.floor((total - 1) / 2))));
+    let probeCount = countAtMost(sorted[probe] ?? 0);
+    let stride = step;
+    if (probeCount < target) {
+      for (;;) {
+        start = probe;
+        startCount = probeCount;
+        const next = Math.min(total - 1, probe + stride);
+        if (next === probe) break;
+        probe = lastOfTies(next);
+        probeCount = countAtMost(sorted[probe] ?? 0);
+        if (probeCount >= target) break;
+        stride *= 2;
+      }
+    } else {
+      for (;;) {
+        const next = probe - stride;
+        if (next < 0) {
+          start = -1;
+          startCount = 0;
+          break;
+        }
+        probe = lastOfTies(next);
+        probeCount = countAtMost(sorted[probe] ?? 0);
+        if (probeCount < target) {
+          start = probe;
+          startCount = probeCount;
+          break;
+        }
+        stride *= 2;
+      }
+    }
+
+    // Walk from start, adding each position's weight, to the rank-th and (rank + 1)-th pooled values.
+    let running = startCount;
+    let cursor = start;
+    while (running < target) {
+      cursor += 1;
+      running += drawCounts[groupOf[cursor] ?? 0] ?? 0;
+    }
+    const lowValue = sorted[cursor] ?? Number.NaN;
     let highValue = lowValue;
-    if (position > rank) {
-      // The (k + 1)-th is the same value when it repeats, else the smallest drawn value above it.
-      if (countAtMost(lowValue) < rank + 2) highValue = smallestAbove(lowValue);
+    if (position > rank && running < target + 1) {
+      while (running < target + 1) {
+        cursor += 1;
+        running += drawCounts[groupOf[cursor] ?? 0] ?? 0;
+      }
+      highValue = sorted[cursor] ?? Number.NaN;
     }
     medians[replicate] = lowValue + (position - rank) * (highValue - lowValue);
-
-    function countAtMost(threshold: number): number {
-      let count = 0;
-      for (let slot = 0; slot < activeCount; slot += 1) {
-        const group = activeGroups[slot] ?? 0;
-        count += (drawCounts[group] ?? 0) * (upperBound(values, offsets[group] ?? 0, offsets[group + 1] ?? 0, threshold) - (offsets[group] ?? 0));
-      }
-      return count;
-    }
-    function kthSmallest(targetRank: number): number {
-      // Smallest global index whose value has at least targetRank + 1 pooled values at or below it.
-      let low = 0;
-      let high = globallySorted.length - 1;
-      while (low < high) {
-        const middle = (low + high) >>> 1;
-        if (countAtMost(globallySorted[middle] ?? 0) >= targetRank + 1) high = middle;
-        else low = middle + 1;
-      }
-      return globallySorted[low] ?? Number.NaN;
-    }
-    function smallestAbove(threshold: number): number {
-      let best = Number.POSITIVE_INFINITY;
-      for (let slot = 0; slot < activeCount; slot += 1) {
-        const group = activeGroups[slot] ?? 0;
-        const index = upperBound(values, offsets[group] ?? 0, offsets[group + 1] ?? 0, threshold);
-        if (index < (offsets[group + 1] ?? 0)) {
-          const candidate = values[index] ?? Number.POSITIVE_INFINITY;
-          if (candidate < best) best = candidate;
-        }
-      }
-      return best;
-    }
   }
   return medians;
+}
+
+/** All values sorted ascending, and the group each sorted position came from. */
+export function sortWithGroups(values: Float64Array, offsets: Int32Array): { sorted: Float64Array; groupOf: Int32Array } {
+  const total = values.length;
+  const groupOfIndex = new Int32Array(total);
+  for (let group = 0; group + 1 < offsets.length; group += 1) groupOfIndex.fill(group, offsets[group] ?? 0, offsets[group + 1] ?? 0);
+  const order = argsortPositive(values);
+  const sorted = new Float64Array(total);
+  const groupOf = new Int32Array(total);
+  for (let position = 0; position < total; position += 1) {
+    const index = order[position] ?? 0;
+    sorted[position] = values[index] ?? Number.NaN;
+    groupOf[position] = groupOfIndex[index] ?? 0;
+  }
+  return { sorted, groupOf };
 }
 
 /** First index in sorted[start, end) whose value is greater than threshold. */

@@ -1,17 +1,21 @@
+import { argsortPositive } from '../stats/argsortPositive.js';
 import type { GroupedValues } from '../stats/bootstrapPooledMedian.js';
 
 export interface KeyedGroups extends GroupedValues {
   /** The key of each group, ascending. */
   keys: number[];
+  /** The group slot of each input value. */
+  slotOf: Int32Array;
 }
 
 /**
- * Groups values by an integer key with a counting sort (keys ascending) and sorts each group's values,
- * so per-group percentiles and the night bootstrap can read them directly. O(n log(n / groups)).
+ * Groups values by an integer key (groups in ascending key order), each group's values sorted ascending, by
+ * scattering the values in globally sorted order (a stable counting sort), so no group needs its own sort.
+ * `order` is the ascending argsort of values when the caller has it already. O(n) after the argsort.
  */
-export function groupValues(keys: Int32Array, values: Float64Array): KeyedGroups {
+export function groupValues(keys: Int32Array, values: Float64Array, order: Uint32Array = argsortPositive(values)): KeyedGroups {
   const count = values.length;
-  if (count === 0) return { keys: [], offsets: new Int32Array([0]), values: new Float64Array(0) };
+  if (count === 0) return { keys: [], offsets: new Int32Array([0]), values: new Float64Array(0), slotOf: new Int32Array(0) };
   let minimumKey = Number.POSITIVE_INFINITY;
   let maximumKey = Number.NEGATIVE_INFINITY;
   for (let index = 0; index < count; index += 1) {
@@ -21,8 +25,7 @@ export function groupValues(keys: Int32Array, values: Float64Array): KeyedGroups
   }
   // Dense slots when the key range is modest (days over decades are fine); a map otherwise.
   const span = maximumKey - minimumKey + 1;
-  const slotOfKey = span <= 4 * count + 1024 ? denseSlots(keys, minimumKey, span) : sparseSlots(keys);
-  const { slotKeys, slotOf } = slotOfKey;
+  const { slotKeys, slotOf } = span <= 4 * count + 1024 ? denseSlots(keys, minimumKey, span) : sparseSlots(keys);
   const slotCount = slotKeys.length;
   const offsets = new Int32Array(slotCount + 1);
   for (let index = 0; index < count; index += 1) {
@@ -32,14 +35,14 @@ export function groupValues(keys: Int32Array, values: Float64Array): KeyedGroups
   for (let slot = 0; slot < slotCount; slot += 1) offsets[slot + 1] = (offsets[slot + 1] ?? 0) + (offsets[slot] ?? 0);
   const cursor = offsets.slice(0, slotCount);
   const grouped = new Float64Array(count);
-  for (let index = 0; index < count; index += 1) {
+  for (let position = 0; position < count; position += 1) {
+    const index = order[position] ?? 0;
     const slot = slotOf[index] ?? 0;
     const target = cursor[slot] ?? 0;
     grouped[target] = values[index] ?? Number.NaN;
     cursor[slot] = target + 1;
   }
-  for (let slot = 0; slot < slotCount; slot += 1) grouped.subarray(offsets[slot] ?? 0, offsets[slot + 1] ?? 0).sort();
-  return { keys: slotKeys, offsets, values: grouped };
+  return { keys: slotKeys, offsets, values: grouped, slotOf };
 }
 
 function denseSlots(keys: Int32Array, minimumKey: number, span: number): { slotKeys: number[]; slotOf: Int32Array } {

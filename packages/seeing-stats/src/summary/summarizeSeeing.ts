@@ -1,6 +1,7 @@
 import { SeeingInputError } from '../errors.js';
 import { ARCSEC_PER_RADIAN, REFERENCE_WAVELENGTH_NM, SEEING_CONSTANT } from '../physics/constants.js';
 import { bootstrapPooledMedian } from '../stats/bootstrapPooledMedian.js';
+import { argsortPositive } from '../stats/argsortPositive.js';
 import { fitLogNormal } from '../stats/fitLogNormal.js';
 import { ksDistanceLogNormal } from '../stats/ksDistanceLogNormal.js';
 import { normalCdf } from '../stats/normalCdf.js';
@@ -87,7 +88,9 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     }
     sum += value;
   }
-  const sorted = Float64Array.from(seeingArcsec).sort();
+  const order = argsortPositive(seeingArcsec);
+  const sorted = new Float64Array(count);
+  for (let position = 0; position < count; position += 1) sorted[position] = seeingArcsec[order[position] ?? 0] ?? Number.NaN;
   const quantile = (fraction: number): number => percentileSorted(sorted, fraction);
   const fit = fitLogNormal(sorted);
   const ks = fit.sigma > 0 ? ksDistanceLogNormal(sorted, fit.mu, fit.sigma) : 1 - 1 / count;
@@ -100,7 +103,7 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     nightKeys[index] = nightDayNumber(time, offsetMs);
     hourKeys[index] = localSolarHour(time, offsetMs);
   }
-  const nights = groupValues(nightKeys, seeingArcsec);
+  const nights = groupValues(nightKeys, seeingArcsec, order);
   const nightly = nights.keys.map((dayNumber, slot) => {
     const segment = nights.values.subarray(nights.offsets[slot] ?? 0, nights.offsets[slot + 1] ?? 0);
     return { night: dayNumberLabel(dayNumber), samples: segment.length, median: percentileSorted(segment, 0.5) };
@@ -120,9 +123,10 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     monthOfNight.set(dayNumber, monthIndex);
   }
   // Nights are ascending, so month indices are too; the night key of a sample gives its month.
+  const monthOfSlot = new Int32Array(nights.keys.map((dayNumber) => monthOfNight.get(dayNumber) ?? 0));
   const monthKeys = new Int32Array(count);
-  for (let index = 0; index < count; index += 1) monthKeys[index] = monthOfNight.get(nightKeys[index] ?? 0) ?? 0;
-  const months = groupValues(monthKeys, seeingArcsec);
+  for (let index = 0; index < count; index += 1) monthKeys[index] = monthOfSlot[nights.slotOf[index] ?? 0] ?? 0;
+  const months = groupValues(monthKeys, seeingArcsec, order);
   const monthly = months.keys.map((monthIndex, slot) => {
     const segment = months.values.subarray(months.offsets[slot] ?? 0, months.offsets[slot + 1] ?? 0);
     return {
@@ -136,7 +140,7 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     };
   });
 
-  const hours = groupValues(hourKeys, seeingArcsec);
+  const hours = groupValues(hourKeys, seeingArcsec, order);
   const hourly = hours.keys
     .map((hour, slot) => {
       const segment = hours.values.subarray(hours.offsets[slot] ?? 0, hours.offsets[slot + 1] ?? 0);
@@ -145,7 +149,9 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     // Ordered through the night (from local noon), so an evening-to-morning chart reads left to right.
     .sort((left, right) => ((left.hour + 12) % 24) - ((right.hour + 12) % 24));
 
-  const replicateMedians = bootstrapPooledMedian(nights, { replicates, seed }).sort();
+  const groupOf = new Int32Array(count);
+  for (let position = 0; position < count; position += 1) groupOf[position] = nights.slotOf[order[position] ?? 0] ?? 0;
+  const replicateMedians = bootstrapPooledMedian(nights, { replicates, seed, sortedWithGroups: { sorted, groupOf } }).sort();
   const medianCi95: [number, number] = [percentileSorted(replicateMedians, 0.025), percentileSorted(replicateMedians, 0.975)];
 
   const fractionBelow: Record<string, number> = {};

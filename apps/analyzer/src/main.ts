@@ -1,0 +1,58 @@
+#!/usr/bin/env node
+// Calmcrest's command-line log check: field engineers run it before uploading, with the same engine the server uses.
+import { basename } from 'node:path';
+import { LogFormatError, SeeingInputError } from '@calmcrest/seeing-stats';
+import { analyzeLog } from '@calmcrest/seeing-stats/node';
+import { formatReport } from './formatReport.ts';
+import { parseArguments, USAGE, UsageError } from './parseArguments.ts';
+
+const EXIT_NO_SAMPLES = 1;
+const EXIT_UNUSABLE = 2;
+
+async function main(argv: readonly string[]): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArguments(argv);
+  } catch (error) {
+    if (error instanceof UsageError) return fail(error.message, 'Run with --help for the flags.');
+    throw error;
+  }
+  if (parsed.help) {
+    process.stdout.write(`${USAGE}\n`);
+    return 0;
+  }
+  if (parsed.file === null) return fail('No log file given.', 'Usage: npm run --silent analyze -- <file> [flags]; --help lists the flags.');
+  try {
+    const report = await analyzeLog(parsed.file, parsed.options);
+    if (parsed.json) process.stdout.write(`${JSON.stringify(report)}\n`);
+    else process.stdout.write(formatReport(report, basename(parsed.file)));
+    if (report.samples.accepted === 0) {
+      if (parsed.json) process.stderr.write('No sample was accepted; see rejectedByReason and rejectedRows.\n');
+      return EXIT_NO_SAMPLES;
+    }
+    return 0;
+  } catch (error) {
+    if (error instanceof LogFormatError) {
+      const where = error.line === null ? '' : ` (line ${error.line})`;
+      return fail(`${parsed.file}${where}: ${error.message}`, error.hint);
+    }
+    if (error instanceof SeeingInputError) return fail(error.message, 'Check the flag values; --help lists them with their units.');
+    throw error;
+  }
+}
+
+function fail(message: string, hint: string): number {
+  process.stderr.write(`calmcrest analyze: ${message}\n  How to fix: ${hint}\n`);
+  return EXIT_UNUSABLE;
+}
+
+main(process.argv.slice(2)).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (error: unknown) => {
+    // An unexpected failure is a bug in Calmcrest, not in the file: say so, keep stdout clean.
+    process.stderr.write(`calmcrest analyze: internal error: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+    process.exitCode = EXIT_UNUSABLE;
+  },
+);

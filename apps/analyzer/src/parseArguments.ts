@@ -1,0 +1,156 @@
+import { isLogField, RESPONSE_SETS, type ColumnMapping, type ResponseSet } from '@calmcrest/seeing-stats';
+import type { AnalyzeOptions } from '@calmcrest/seeing-stats/node';
+
+export class UsageError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'UsageError';
+  }
+}
+
+export interface AnalyzerArguments {
+  file: string | null;
+  json: boolean;
+  help: boolean;
+  options: AnalyzeOptions;
+}
+
+export const USAGE = `Usage: npm run --silent analyze -- <file> [flags]
+
+Checks a seeing-monitor log and prints seeing statistics at zenith and 500 nm.
+
+Monitor
+  --aperture-mm D            sub-aperture diameter (needed for variance columns)
+  --baseline-mm B            distance between sub-aperture centres (needed for variance columns)
+  --wavelength-nm L          wavelength the monitor measured at (default 500)
+  --pixel-scale-arcsec P     plate scale, for variances logged in pixel²
+  --exposure-ms T            exposure time per frame (recorded in the output)
+  --response SET             z-tilt (default) | g-tilt | sarazin-roddier
+Columns
+  --map field=Header         the file's column "Header" holds field (repeatable), e.g. --map seeing_arcsec="FWHM [arcsec]"
+Filters
+  --site-lat DEG --site-lon DEG   site position (east positive); turns on the night filter
+  --site-elevation-m M       site elevation (optional)
+  --sun-max-deg DEG          drop samples with the sun above this altitude (default -18)
+  --max-zenith-deg DEG       drop samples farther than this from the zenith (default 60)
+  --min-flux F               drop samples with a flux below F
+Statistics
+  --thresholds A,B,C         seeing thresholds for the "fraction below" lines (default 0.6,0.8,1.0)
+  --replicates N             night-bootstrap replicates (default 1000)
+  --seed N                   bootstrap seed (default 1)
+Output
+  --json                     print exactly one JSON document on stdout
+  --help                     this text
+
+Exit codes: 0 analysed; 1 analysed but no sample was accepted; 2 the file or the flags cannot be used.`;
+
+const NUMBER_FLAGS = new Set([
+  '--aperture-mm',
+  '--baseline-mm',
+  '--wavelength-nm',
+  '--pixel-scale-arcsec',
+  '--exposure-ms',
+  '--site-lat',
+  '--site-lon',
+  '--site-elevation-m',
+  '--sun-max-deg',
+  '--max-zenith-deg',
+  '--min-flux',
+  '--replicates',
+  '--seed',
+]);
+
+function readNumberFlag(flag: string, text: string | undefined): number {
+  if (text === undefined || text.trim() === '') throw new UsageError(`${flag} needs a number after it.`);
+  const value = Number(text);
+  if (!Number.isFinite(value)) throw new UsageError(`${flag} needs a number, got "${text}".`);
+  return value;
+}
+
+/** Parses the analyzer's command line; throws UsageError with a message a person can act on. */
+export function parseArguments(argv: readonly string[]): AnalyzerArguments {
+  const numbers = new Map<string, number>();
+  const mapping: ColumnMapping = {};
+  let file: string | null = null;
+  let json = false;
+  let help = false;
+  let response: ResponseSet = 'z-tilt';
+  let thresholdsArcsec: number[] | undefined;
+  for (let index = 0; index < argv.length; index += 1) {
+    const argument = argv[index] ?? '';
+    const equals = argument.startsWith('--') ? argument.indexOf('=') : -1;
+    // Accept both "--flag value" and "--flag=value".
+    const flag = equals > 0 ? argument.slice(0, equals) : argument;
+    const inlineValue = equals > 0 ? argument.slice(equals + 1) : undefined;
+    const takeValue = (): string | undefined => {
+      if (inlineValue !== undefined) return inlineValue;
+      index += 1;
+      return argv[index];
+    };
+    if (flag === '--json') json = true;
+    else if (flag === '--help' || flag === '-h') help = true;
+    else if (NUMBER_FLAGS.has(flag)) numbers.set(flag, readNumberFlag(flag, takeValue()));
+    else if (flag === '--response') {
+      const value = takeValue() ?? '';
+      if (!(RESPONSE_SETS as readonly string[]).includes(value)) throw new UsageError(`--response must be one of ${RESPONSE_SETS.join(', ')}, got "${value}".`);
+      response = value as ResponseSet;
+    } else if (flag === '--map') {
+      const value = takeValue() ?? '';
+      const split = value.indexOf('=');
+      const field = split > 0 ? value.slice(0, split).trim() : '';
+      const header = split > 0 ? value.slice(split + 1) : '';
+      if (!isLogField(field) || header === '') {
+        throw new UsageError(`--map needs field=Header with a Calmcrest field name (time_utc, seeing_arcsec, airmass, …; see docs/log-format.md), got "${value}".`);
+      }
+      mapping[field] = header;
+    } else if (flag === '--thresholds') {
+      const value = takeValue() ?? '';
+      const parsed = value.split(',').map((part) => Number(part));
+      if (parsed.length === 0 || parsed.some((threshold) => !(threshold > 0 && Number.isFinite(threshold)))) {
+        throw new UsageError(`--thresholds needs positive seeing values in arcsec separated by commas, e.g. 0.6,0.8,1.0; got "${value}".`);
+      }
+      thresholdsArcsec = parsed;
+    } else if (argument.startsWith('-')) {
+      throw new UsageError(`Unknown flag ${argument}. Run with --help for the list of flags.`);
+    } else if (file === null) {
+      file = argument;
+    } else {
+      throw new UsageError(`Only one log file can be analysed at a time; got "${file}" and "${argument}".`);
+    }
+  }
+
+  const latitude = numbers.get('--site-lat');
+  const longitude = numbers.get('--site-lon');
+  if ((latitude === undefined) !== (longitude === undefined)) throw new UsageError('Give both --site-lat and --site-lon (degrees, east positive), or neither.');
+  if (latitude !== undefined && !(latitude >= -90 && latitude <= 90)) throw new UsageError(`--site-lat must be in [-90, 90] degrees, got ${latitude}.`);
+  if (longitude !== undefined && !(longitude >= -180 && longitude <= 360)) throw new UsageError(`--site-lon must be in [-180, 360] degrees east, got ${longitude}.`);
+  const replicates = numbers.get('--replicates');
+  if (replicates !== undefined && !(Number.isInteger(replicates) && replicates >= 1)) throw new UsageError(`--replicates must be a whole number ≥ 1, got ${replicates}.`);
+
+  const options: AnalyzeOptions = {
+    mapping: Object.keys(mapping).length > 0 ? mapping : undefined,
+    monitor: {
+      wavelengthNm: numbers.get('--wavelength-nm') ?? 500,
+      response,
+      ...(numbers.has('--aperture-mm') ? { apertureMm: numbers.get('--aperture-mm') } : {}),
+      ...(numbers.has('--baseline-mm') ? { baselineMm: numbers.get('--baseline-mm') } : {}),
+      ...(numbers.has('--pixel-scale-arcsec') ? { pixelScaleArcsec: numbers.get('--pixel-scale-arcsec') } : {}),
+      ...(numbers.has('--exposure-ms') ? { exposureMs: numbers.get('--exposure-ms') } : {}),
+    },
+    site:
+      latitude !== undefined && longitude !== undefined
+        ? { latitudeDeg: latitude, longitudeDeg: longitude, ...(numbers.has('--site-elevation-m') ? { elevationM: numbers.get('--site-elevation-m') } : {}) }
+        : undefined,
+    filters: {
+      ...(numbers.has('--sun-max-deg') ? { sunMaxDeg: numbers.get('--sun-max-deg') } : {}),
+      ...(numbers.has('--max-zenith-deg') ? { maxZenithDeg: numbers.get('--max-zenith-deg') } : {}),
+      ...(numbers.has('--min-flux') ? { minFlux: numbers.get('--min-flux') } : {}),
+    },
+    summary: {
+      ...(thresholdsArcsec !== undefined ? { thresholdsArcsec } : {}),
+      ...(replicates !== undefined ? { bootstrapReplicates: replicates } : {}),
+      ...(numbers.has('--seed') ? { seed: numbers.get('--seed') } : {}),
+    },
+  };
+  return { file, json, help, options };
+}

@@ -1,0 +1,159 @@
+import { LOG_FIELD_INFO, checkMapping, type ColumnMapping, type LogField } from "@calmcrest/seeing-stats";
+import { unitsOfMapping, withUnits, type PointingKind, type VarianceUnit } from "../../lib/log-head";
+
+const GROUPS: { title: string; help: string; fields: (units: { variance: VarianceUnit; pointing: PointingKind }) => LogField[] }[] = [
+  { title: "Time", help: "Needed: when each sample was taken (UTC).", fields: () => ["time_utc"] },
+  {
+    title: "Seeing measure",
+    help: "Needed: both image-motion variances, or the seeing the monitor computed, or r0.",
+    fields: (units) => (units.variance === "px2" ? ["var_long_px2", "var_trans_px2", "seeing_arcsec", "r0_cm"] : ["var_long_arcsec2", "var_trans_arcsec2", "seeing_arcsec", "r0_cm"]),
+  },
+  { title: "Pointing", help: "Needed: where the star was, to reduce every sample to zenith.", fields: (units) => [units.pointing === "airmass" ? "airmass" : "zenith_deg"] },
+  { title: "Optional columns", help: "Kept with each sample when present.", fields: () => ["flux", "scint_index", "tau0_ms", "theta0_arcsec", "wind_ms", "rh_pct"] },
+];
+
+/**
+ * Which column of the file holds which Calmcrest field, and in which units. Changes are reported whole, and the
+ * problems (from the engine's checkMapping, the same rules the server applies) are listed under the table.
+ */
+export function MappingEditor({
+  headers,
+  rows,
+  mapping,
+  onChange,
+  pixelScaleArcsec,
+  wavelengthNm,
+}: {
+  headers: string[];
+  rows: Record<string, string>[];
+  mapping: ColumnMapping;
+  onChange: (mapping: ColumnMapping) => void;
+  /** From the campaign's monitor; pixel² variances need it. */
+  pixelScaleArcsec: number | null;
+  wavelengthNm: number;
+}) {
+  const units = unitsOfMapping(mapping);
+  const problems = checkMapping(mapping, headers);
+  if (units.variance === "px2" && pixelScaleArcsec === null && (mapping.var_long_px2 || mapping.var_trans_px2)) {
+    problems.push("Variances in pixel² need the monitor's pixel scale, and this campaign has none. Ask the survey lead to enter it on the campaign, or map variances in arcsec².");
+  }
+  const setField = (field: LogField, header: string) => {
+    const next: ColumnMapping = { ...mapping };
+    if (header === "") delete next[field];
+    else next[field] = header;
+    onChange(next);
+  };
+  const examples = (header: string | undefined) =>
+    header === undefined
+      ? ""
+      : rows
+          .slice(0, 3)
+          .map((row) => row[header] ?? "")
+          .join(" · ");
+  const unmapped = headers.filter((header) => !Object.values(mapping).includes(header));
+
+  return (
+    <div className="space-y-5">
+      <fieldset className="grid gap-4 rounded-lg border border-line bg-paper p-3 md:grid-cols-3">
+        <legend className="px-1 text-sm font-semibold">Units in this file</legend>
+        <div role="radiogroup" aria-label="Variance unit" className="space-y-1 text-sm">
+          <p className="font-semibold">Image-motion variances in</p>
+          {(
+            [
+              ["arcsec2", "arcsec²"],
+              ["px2", `pixel² (× pixel scale ${pixelScaleArcsec === null ? "not set" : `${pixelScaleArcsec} ″/px`})`],
+            ] as const
+          ).map(([value, label]) => (
+            <label key={value} className="flex items-center gap-2">
+              <input type="radio" name="variance-unit" checked={units.variance === value} onChange={() => onChange(withUnits(mapping, { ...units, variance: value }))} />
+              {label}
+            </label>
+          ))}
+        </div>
+        <div role="radiogroup" aria-label="Pointing" className="space-y-1 text-sm">
+          <p className="font-semibold">Star position given as</p>
+          {(
+            [
+              ["zenith", "zenith angle (degrees)"],
+              ["airmass", "airmass (sec z)"],
+            ] as const
+          ).map(([value, label]) => (
+            <label key={value} className="flex items-center gap-2">
+              <input type="radio" name="pointing" checked={units.pointing === value} onChange={() => onChange(withUnits(mapping, { ...units, pointing: value }))} />
+              {label}
+            </label>
+          ))}
+        </div>
+        <div className="text-sm">
+          <p className="font-semibold">Measurement wavelength</p>
+          <p className="tabular-nums">{wavelengthNm} nm</p>
+          <p className="text-ink-soft">From the campaign's monitor settings; every figure is scaled to 500 nm and zenith.</p>
+        </div>
+      </fieldset>
+
+      <table className="w-full border-collapse text-sm">
+        <caption className="sr-only">Column mapping</caption>
+        <thead>
+          <tr className="border-b border-line text-left">
+            <th scope="col" className="py-2 pr-3">Calmcrest field</th>
+            <th scope="col" className="py-2 pr-3">Column in the file</th>
+            <th scope="col" className="py-2">First values</th>
+          </tr>
+        </thead>
+        {GROUPS.map((group) => (
+          <tbody key={group.title}>
+            <tr>
+              <th colSpan={3} scope="rowgroup" className="pt-4 pb-1 text-left">
+                {group.title} <span className="font-normal text-ink-soft">— {group.help}</span>
+              </th>
+            </tr>
+            {group.fields(units).map((field) => {
+              const info = LOG_FIELD_INFO[field];
+              const selectId = `map-${field}`;
+              return (
+                <tr key={field} className="border-b border-line/60">
+                  <td className="py-1.5 pr-3">
+                    <label htmlFor={selectId}>
+                      <span className="font-semibold">{info.label}</span> <span className="text-ink-soft">({info.unit})</span>
+                      <span className="block font-mono text-xs text-ink-soft">{field}</span>
+                    </label>
+                  </td>
+                  <td className="py-1.5 pr-3">
+                    <select id={selectId} value={mapping[field] ?? ""} onChange={(event) => setField(field, event.target.value)} className="w-full min-w-40 rounded-md border border-line bg-panel px-2 py-1">
+                      <option value="">— not in this file —</option>
+                      {headers.map((header) => (
+                        <option key={header} value={header}>
+                          {header}
+                        </option>
+                      ))}
+                    </select>
+                  </td>
+                  <td className="py-1.5 font-mono text-xs text-ink-soft">{examples(mapping[field])}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+        ))}
+      </table>
+      {unmapped.length > 0 ? <p className="text-sm text-ink-soft">Columns not used: {unmapped.map((header) => `“${header}”`).join(", ")}.</p> : null}
+      {problems.length > 0 ? (
+        <ul role="alert" aria-label="Mapping problems" className="space-y-1 rounded-md border border-bad/40 bg-bad-pale px-3 py-2 text-sm text-bad">
+          {problems.map((problem) => (
+            <li key={problem}>{problem}</li>
+          ))}
+        </ul>
+      ) : (
+        <p role="status" className="rounded-md bg-accent-pale px-3 py-2 text-sm text-accent-strong">
+          The mapping is complete: the file can be read.
+        </p>
+      )}
+    </div>
+  );
+}
+
+/** Problems that block the upload (the editor lists the same ones). */
+export function mappingProblems(mapping: ColumnMapping, headers: readonly string[], pixelScaleArcsec: number | null): string[] {
+  const problems = checkMapping(mapping, headers);
+  if ((mapping.var_long_px2 || mapping.var_trans_px2) && pixelScaleArcsec === null) problems.push("Variances in pixel² need the campaign's pixel scale.");
+  return problems;
+}

@@ -6,6 +6,7 @@ import {
   createExclusionSchema,
   instantMs,
   patchCampaignSchema,
+  samplesQuerySchema,
   savedMappingSchema,
   summaryQuerySchema,
   type CampaignDetail,
@@ -18,6 +19,7 @@ import { recordAudit } from "../audit/audit.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { currentUser, requireRole, requireUser } from "../http/session";
 import { ingestRejections } from "../summaries/ingest-rejections.server";
+import { sampleSeries } from "../summaries/sample-series.server";
 import { buildSummary, resolveQuery } from "../summaries/summarize.server";
 import { campaignListItem, campaignStats, exclusionQuery, exclusionView, uploadListItem, uploadQuery } from "../views.server";
 
@@ -238,6 +240,14 @@ export function campaignRoutes(context: AppContext): Router {
     const site = await knex("site").where({ id: campaign.site_id }).first<SiteRow>();
     const rejections = await ingestRejections(knex, [campaign.id]);
     res.json(buildSummary(samples, { kind: "campaign", site, campaigns: [campaign], resolved: resolveQuery(query), ingestRejections: rejections }));
+  });
+
+  router.get("/campaigns/:id/samples", async (req, res) => {
+    const user = currentUser(res.locals);
+    const campaign = await campaignFor(knex, user, routeId(req.params.id, "That campaign"), "read");
+    const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
+    const site = await knex("site").where({ id: campaign.site_id }).first<SiteRow>();
+    res.json(sampleSeries(samples, [campaign.id], site.longitude, query));
   });
 
   return router;

@@ -1,6 +1,6 @@
 import { Router } from "express";
 import type { User } from "lucia";
-import { createSiteSchema, patchSiteSchema, summaryQuerySchema, type SiteDetail, type SiteListItem } from "@calmcrest/contracts";
+import { createSiteSchema, patchSiteSchema, samplesQuerySchema, summaryQuerySchema, type SiteDetail, type SiteListItem } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId, siteFor, visibleCampaignIds, type CampaignRow, type SiteRow } from "../access/access.server";
 import { recordAudit } from "../audit/audit.server";
@@ -8,6 +8,7 @@ import { HttpError, parseOr400 } from "../http/errors";
 import { currentUser, requireRole, requireUser } from "../http/session";
 import { buildSummary, resolveQuery, siteBrief } from "../summaries/summarize.server";
 import { ingestRejections } from "../summaries/ingest-rejections.server";
+import { sampleSeries } from "../summaries/sample-series.server";
 import { campaignListItem, campaignStats } from "../views.server";
 
 export function siteRoutes(context: AppContext): Router {
@@ -123,6 +124,13 @@ export function siteRoutes(context: AppContext): Router {
     const campaigns = await knex("campaign").whereIn("id", campaignIds).orderBy("id").select<CampaignRow[]>("*");
     const rejections = await ingestRejections(knex, campaignIds);
     res.json(buildSummary(samples, { kind: "site", site, campaigns, resolved: resolveQuery(query), ingestRejections: rejections }));
+  });
+
+  router.get("/sites/:id/samples", async (req, res) => {
+    const user = currentUser(res.locals);
+    const { site, campaignIds } = await siteFor(knex, user, routeId(req.params.id, "That site"));
+    const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
+    res.json(sampleSeries(samples, campaignIds, site.longitude, query));
   });
 
   return router;

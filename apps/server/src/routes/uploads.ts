@@ -1,8 +1,8 @@
-import { access, open } from "node:fs/promises";
+import { access } from "node:fs/promises";
 import { Router, type RequestHandler } from "express";
 import multer from "multer";
 import type { User } from "lucia";
-import { LogFormatError, previewLog, SeeingInputError, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import { LogFormatError, previewLog, SeeingInputError, type ColumnMapping } from "@calmcrest/seeing-stats";
 import {
   columnMappingSchema,
   type RejectReasonName,
@@ -16,7 +16,8 @@ import { campaignFor, FIELD_ROLES, routeId, type CampaignAction, type CampaignRo
 import { recordAudit } from "../audit/audit.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { currentUser, requireUser, requireRole } from "../http/session";
-import { discardTemporary, hashingDiskStorage, rawFilePath, storeRawFile, type HashedFile } from "../uploads/raw-files.server";
+import { acceptUpload, formatProblem, monitorOf } from "../uploads/accept-upload.server";
+import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
 import { uploadListItem, uploadQuery, type UploadRow } from "../views.server";
 
 declare global {
@@ -31,24 +32,11 @@ declare global {
 
 /** The preview reads only the first rows; the wizard sends a small slice of the file. */
 const PREVIEW_MAX_BYTES = 4 * 1024 * 1024;
-/** Enough of a stored file to check its header and mapping before queueing it. */
-const HEADER_CHECK_BYTES = 64 * 1024;
 const LISTED_REJECTED_ROWS = 100;
 
 function accessedCampaign(locals: Express.Locals): CampaignRow {
   if (!locals.campaign) throw notFound("That campaign");
   return locals.campaign;
-}
-
-function monitorOf(campaign: CampaignRow): MonitorSettings {
-  return {
-    apertureMm: campaign.aperture_mm,
-    baselineMm: campaign.baseline_mm,
-    wavelengthNm: campaign.wavelength_nm,
-    response: campaign.response,
-    ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
-    ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
-  };
 }
 
 /** The multipart `mapping` field: JSON field -> header, or absent (then the engine's proposal is used). */
@@ -64,23 +52,6 @@ function parseMappingField(value: unknown): ColumnMapping | undefined {
     });
   }
   return parseOr400(columnMappingSchema, parsed, "The mapping");
-}
-
-/** Text of a LogFormatError for a person: what is wrong, where, how to fix it. */
-function formatProblem(error: LogFormatError): string {
-  return `${error.message}${error.line === null ? "" : ` (line ${error.line})`}. ${error.hint}`.trim();
-}
-
-/** The first bytes of a file as text (a cut multi-byte character at the end is harmless for a header check). */
-async function readHead(path: string): Promise<string> {
-  const handle = await open(path, "r");
-  try {
-    const buffer = Buffer.alloc(HEADER_CHECK_BYTES);
-    const { bytesRead } = await handle.read(buffer, 0, HEADER_CHECK_BYTES, 0);
-    return buffer.subarray(0, bytesRead).toString("utf8");
-  } finally {
-    await handle.close();
-  }
 }
 
 function csvCell(value: string | number): string {
@@ -194,69 +165,29 @@ export function uploadRoutes(context: AppContext): Router {
     const user = currentUser(res.locals);
     const campaign = accessedCampaign(res.locals);
     const file = req.file as (Express.Multer.File & HashedFile) | undefined;
+    if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file".', { file: ["No file was sent."] });
+    let mapping: ColumnMapping | undefined;
     try {
-      if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file".', { file: ["No file was sent."] });
-      const body = req.body as Record<string, unknown> | undefined;
-      const sentMapping = parseMappingField(body?.mapping);
-
-      // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
-      const head = await readHead(file.path);
-      let mapping: ColumnMapping;
-      try {
-        const preview = previewLog(head, { monitor: monitorOf(campaign), maxRows: 0, ...(sentMapping ? { mapping: sentMapping } : {}) });
-        if (preview.mappingProblems.length > 0) {
-          throw new HttpError(400, "unusable_mapping", `The file cannot be read with this mapping: ${preview.mappingProblems.join(" ")}`, {
-            mapping: preview.mappingProblems,
-          });
-        }
-        mapping = sentMapping ?? preview.proposedMapping;
-      } catch (error) {
-        if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
-        throw error;
-      }
-
-      const existing = await uploadQuery(knex).where({ "upload.campaign_id": campaign.id, "upload.sha256": file.sha256 }).first();
-      if (existing) {
-        const duplicate: UploadDuplicateBody = {
-          error: {
-            code: "duplicate_upload",
-            message: `This file was uploaded to this campaign already (${existing.file_name}, ${existing.uploaded_at}); its samples are counted once.`,
-          },
-          upload: uploadListItem(existing),
-        };
-        await discardTemporary(file);
-        res.status(409).json(duplicate);
-        return;
-      }
-      await storeRawFile(env.dataDir, file);
-      const [inserted] = await knex("upload")
-        .insert({
-          campaign_id: campaign.id,
-          file_name: file.originalname,
-          size_bytes: file.size,
-          sha256: file.sha256,
-          uploaded_by: user.id,
-          uploaded_at: new Date().toISOString(),
-          mapping: JSON.stringify(mapping),
-          status: "queued",
-        })
-        .returning<{ id: number }[]>("id");
-      if (!inserted) throw new HttpError(500, "server_error", "The upload could not be recorded. Try again.");
-      await recordAudit(knex, {
-        userId: user.id,
-        action: "upload.create",
-        targetType: "upload",
-        targetId: inserted.id,
-        details: { campaignId: campaign.id, fileName: file.originalname, sizeBytes: file.size, sha256: file.sha256 },
-      });
-      ingest.enqueue(inserted.id);
-      const accepted: UploadAccepted = { upload: { id: inserted.id, status: "queued" } };
-      res.status(202).json(accepted);
+      mapping = parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping);
     } catch (error) {
-      // The raw file is only kept once an upload record points at it (storeRawFile moves it away first).
       await discardTemporary(file);
       throw error;
     }
+    const result = await acceptUpload(context, { campaign, userId: user.id, file, fileName: file.originalname, mapping });
+    if (result.kind === "duplicate") {
+      const { existing } = result;
+      const duplicate: UploadDuplicateBody = {
+        error: {
+          code: "duplicate_upload",
+          message: `This file was uploaded to this campaign already (${existing.file_name}, ${existing.uploaded_at}); its samples are counted once.`,
+        },
+        upload: uploadListItem(existing),
+      };
+      res.status(409).json(duplicate);
+      return;
+    }
+    const accepted: UploadAccepted = { upload: { id: result.uploadId, status: "queued" } };
+    res.status(202).json(accepted);
   });
 
   router.get("/uploads/:id", async (req, res) => {

@@ -1,8 +1,15 @@
 import type { AppContext } from "../context";
+import { seedDemoScenario } from "./demo-scenario";
 import { seedDemoUsers } from "./demo-users";
 
 // Steps that fill an empty database with the demo scenario, run in order after the users exist.
-export const demoScenarioSteps: ((context: AppContext) => Promise<void>)[] = [];
+export const demoScenarioSteps: ((context: AppContext) => Promise<void>)[] = [
+  async (context) => {
+    const startedMs = Date.now();
+    await seedDemoScenario(context);
+    console.log(`Calmcrest: seeded the demo scenario (four invented candidate ridges) in ${((Date.now() - startedMs) / 1000).toFixed(1)} s.`);
+  },
+];
 
 /** Seeds the demo scenario when the database has no users yet. Never in production. */
 export async function seedIfEmpty(context: AppContext): Promise<void> {

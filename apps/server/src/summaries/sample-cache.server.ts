@@ -12,6 +12,9 @@ export interface CampaignColumns {
   zenithDeg: Float64Array;
   sunAltDeg: Float64Array;
   flux: Float64Array;
+  /** Per-axis seeing (variance inputs only), for the longitudinal-against-transverse check. */
+  seeingLongArcsec: Float64Array;
+  seeingTransArcsec: Float64Array;
 }
 
 export interface ExclusionWindow {
@@ -68,14 +71,16 @@ export class SampleCache {
       zenithDeg: new Float64Array(count),
       sunAltDeg: new Float64Array(count),
       flux: new Float64Array(count),
+      seeingLongArcsec: new Float64Array(count),
+      seeingTransArcsec: new Float64Array(count),
     };
     // The primary key (campaign_id, time_ms) returns them in time order without sorting.
     const rows = this.sqlite
-      .prepare("SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux FROM sample WHERE campaign_id = ? ORDER BY time_ms")
+      .prepare("SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux, seeing_long_arcsec, seeing_trans_arcsec FROM sample WHERE campaign_id = ? ORDER BY time_ms")
       .raw()
-      .iterate(campaignId) as IterableIterator<[number, number, number, number | null, number | null]>;
+      .iterate(campaignId) as IterableIterator<[number, number, number, number | null, number | null, number | null, number | null]>;
     let index = 0;
-    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux] of rows) {
+    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux, seeingLongArcsec, seeingTransArcsec] of rows) {
       // A concurrent ingest cannot add rows mid-read (WAL snapshot), but guard the preallocated length anyway.
       if (index >= count) break;
       columns.timeMs[index] = timeMs;
@@ -83,6 +88,8 @@ export class SampleCache {
       columns.zenithDeg[index] = zenithDeg;
       columns.sunAltDeg[index] = sunAltDeg ?? Number.NaN;
       columns.flux[index] = flux ?? Number.NaN;
+      columns.seeingLongArcsec[index] = seeingLongArcsec ?? Number.NaN;
+      columns.seeingTransArcsec[index] = seeingTransArcsec ?? Number.NaN;
       index += 1;
     }
     return index === count ? columns : { ...columns, count: index };

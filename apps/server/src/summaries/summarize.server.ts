@@ -1,7 +1,7 @@
 import { DEFAULT_FILTERS, filterReason, summarizeSeeing, type FilterSettings } from "@calmcrest/seeing-stats";
 import { instantMs, RESPONSE_SET_LABELS, type SeeingStatistics, type SiteSummaryBrief, type SummaryQuery, type SummaryResponse, type SummaryScope } from "@calmcrest/contracts";
 import type { CampaignRow, SiteRow } from "../access/access.server";
-import { lowerBoundTime, type SampleCache } from "./sample-cache.server";
+import { lowerBoundTime, type CampaignColumns, type ExclusionWindow, type SampleCache } from "./sample-cache.server";
 
 const DAY_MS = 86_400_000;
 
@@ -39,30 +39,32 @@ export interface SelectedSamples {
 }
 
 /**
- * The accepted samples of the campaigns for the query: time range first, then exclusion windows, then the
- * engine's filterReason with the query's settings. Every sample left out is counted under its reason.
+ * Visits the accepted samples of the campaigns for the query, campaign by campaign in time order: time range
+ * first, then exclusion windows, then the engine's filterReason with the query's settings. Every sample left out
+ * is counted under its reason. Returns the number of stored samples in the time range and the reasons.
  */
-export function selectSamples(cache: SampleCache, campaignIds: readonly number[], resolved: ResolvedQuery): SelectedSamples {
-  const ranges = campaignIds.map((campaignId) => {
-    const columns = cache.columns(campaignId);
-    const start = resolved.fromMs === null ? 0 : lowerBoundTime(columns.timeMs, columns.count, resolved.fromMs);
-    const end = resolved.toMs === null ? columns.count : lowerBoundTime(columns.timeMs, columns.count, resolved.toMs);
-    return { columns, exclusions: cache.exclusions(campaignId), start, end: Math.max(start, end) };
-  });
-  const capacity = ranges.reduce((sum, range) => sum + (range.end - range.start), 0);
-  const timeMs = new Float64Array(capacity);
-  const seeingArcsec = new Float64Array(capacity);
+export function forEachAccepted(
+  cache: SampleCache,
+  campaignIds: readonly number[],
+  resolved: ResolvedQuery,
+  visit: (columns: CampaignColumns, index: number) => void,
+): { stored: number; rejectedByReason: Record<string, number> } {
   const rejectedByReason: Record<string, number> = {};
   const reject = (reason: string) => {
     rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
   };
   // One probe object reused for every sample: filterReason only reads these three fields.
   const probe: { zenithDeg: number; sunAltDeg: number | null; flux: number | null } = { zenithDeg: 0, sunAltDeg: null, flux: null };
-  let accepted = 0;
-  for (const { columns, exclusions, start, end } of ranges) {
+  let stored = 0;
+  for (const campaignId of campaignIds) {
+    const columns = cache.columns(campaignId);
+    const exclusions = cache.exclusions(campaignId);
+    const start = resolved.fromMs === null ? 0 : lowerBoundTime(columns.timeMs, columns.count, resolved.fromMs);
+    const end = Math.max(start, resolved.toMs === null ? columns.count : lowerBoundTime(columns.timeMs, columns.count, resolved.toMs));
+    stored += end - start;
     for (let index = start; index < end; index += 1) {
       const time = columns.timeMs[index] ?? 0;
-      if (exclusions.length > 0 && exclusions.some((window) => time >= window.fromMs && time < window.toMs)) {
+      if (insideAny(exclusions, time)) {
         reject("excluded_window");
         continue;
       }
@@ -76,12 +78,31 @@ export function selectSamples(cache: SampleCache, campaignIds: readonly number[]
         reject(reason);
         continue;
       }
-      timeMs[accepted] = time;
-      seeingArcsec[accepted] = columns.seeingArcsec[index] ?? Number.NaN;
-      accepted += 1;
+      visit(columns, index);
     }
   }
-  return { timeMs: timeMs.subarray(0, accepted), seeingArcsec: seeingArcsec.subarray(0, accepted), stored: capacity, rejectedByReason };
+  return { stored, rejectedByReason };
+}
+
+/** Whether the time falls in one of the windows (from inclusive, to exclusive). A plain loop: this runs per sample. */
+function insideAny(windows: readonly ExclusionWindow[], timeMs: number): boolean {
+  for (const window of windows) if (timeMs >= window.fromMs && timeMs < window.toMs) return true;
+  return false;
+}
+
+/** The accepted samples as the engine's columns (time and seeing), with the counts of the rest. */
+export function selectSamples(cache: SampleCache, campaignIds: readonly number[], resolved: ResolvedQuery): SelectedSamples {
+  let capacity = 0;
+  for (const campaignId of campaignIds) capacity += cache.columns(campaignId).count;
+  const timeMs = new Float64Array(capacity);
+  const seeingArcsec = new Float64Array(capacity);
+  let accepted = 0;
+  const { stored, rejectedByReason } = forEachAccepted(cache, campaignIds, resolved, (columns, index) => {
+    timeMs[accepted] = columns.timeMs[index] ?? 0;
+    seeingArcsec[accepted] = columns.seeingArcsec[index] ?? Number.NaN;
+    accepted += 1;
+  });
+  return { timeMs: timeMs.subarray(0, accepted), seeingArcsec: seeingArcsec.subarray(0, accepted), stored, rejectedByReason };
 }
 
 export interface SummaryInput {

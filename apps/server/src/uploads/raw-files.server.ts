@@ -1,5 +1,5 @@
 import { createHash, randomUUID } from "node:crypto";
-import { createWriteStream, existsSync, mkdirSync } from "node:fs";
+import { createReadStream, createWriteStream, existsSync, mkdirSync } from "node:fs";
 import { rename, unlink } from "node:fs/promises";
 import { join } from "node:path";
 import { pipeline } from "node:stream/promises";
@@ -74,4 +74,21 @@ export async function storeRawFile(dataDir: string, file: HashedFile): Promise<s
 
 export async function discardTemporary(file: HashedFile | undefined): Promise<void> {
   if (file) await unlink(file.path).catch(() => undefined);
+}
+
+/** Copies a file on disk into <dataDir>/tmp while hashing it, as if it had been uploaded (used by the demo seed). */
+export async function hashIntoTemporary(dataDir: string, sourcePath: string): Promise<HashedFile> {
+  mkdirSync(tmpDir(dataDir), { recursive: true });
+  const path = join(tmpDir(dataDir), `${Date.now()}-${randomUUID()}.part`);
+  const hash = createHash("sha256");
+  let size = 0;
+  const hasher = new Transform({
+    transform(chunk: Buffer, _encoding, done) {
+      hash.update(chunk);
+      size += chunk.length;
+      done(null, chunk);
+    },
+  });
+  await pipeline(createReadStream(sourcePath), hasher, createWriteStream(path));
+  return { path, size, sha256: hash.digest("hex") };
 }

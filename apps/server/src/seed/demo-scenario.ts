@@ -1,0 +1,278 @@
+import { existsSync, mkdirSync } from "node:fs";
+import { join } from "node:path";
+import { writeSyntheticLog } from "@calmcrest/seeing-stats/node";
+import type { ResponseSetName } from "@calmcrest/contracts";
+import type { AppContext } from "../context";
+import type { CampaignRow } from "../access/access.server";
+import { recordAudit } from "../audit/audit.server";
+import { acceptUpload, monitorOf } from "../uploads/accept-upload.server";
+import { hashIntoTemporary } from "../uploads/raw-files.server";
+
+// The demo scenario: an invented survey consortium choosing among four candidate ridges in a dry, high mountain
+// range of the southern hemisphere. Every name, coordinate and number here is invented. The logs are written with
+// a fixed seed under <dataDir>/demo-logs/ and go through the same upload and ingest path as a person's file.
+
+interface DemoLog {
+  file: string;
+  seed: number;
+  startDate: string;
+  nights: number;
+  uploadedBy: "lead" | "engineer";
+}
+
+interface DemoCampaign {
+  name: string;
+  apertureMm: number;
+  baselineMm: number;
+  wavelengthNm: number;
+  pixelScaleArcsec?: number;
+  heightAboveGroundM: number;
+  response: ResponseSetName;
+  startDate: string;
+  endDate: string;
+  status: "running" | "finished";
+  medianSeeingArcsec: number;
+  seasonalAmplitude: number;
+  engineerIsMember: boolean;
+  logs: DemoLog[];
+  exclusion?: { from: string; to: string; reason: string };
+}
+
+interface DemoSite {
+  name: string;
+  latitude: number;
+  longitude: number;
+  elevationM: number;
+  notes: string;
+  campaigns: DemoCampaign[];
+}
+
+export const DEMO_SITES: DemoSite[] = [
+  {
+    name: "Tern Ridge",
+    latitude: -25.812,
+    longitude: -68.431,
+    elevationM: 4380,
+    notes: "Broad north–south ridge; the access track washes out after summer storms.",
+    campaigns: [
+      {
+        name: "Tern Ridge north mast",
+        apertureMm: 60,
+        baselineMm: 200,
+        wavelengthNm: 500,
+        heightAboveGroundM: 6,
+        response: "z-tilt",
+        startDate: "2025-03-01",
+        endDate: "2025-12-31",
+        status: "finished",
+        medianSeeingArcsec: 0.72,
+        seasonalAmplitude: 0.12,
+        engineerIsMember: true,
+        logs: [
+          { file: "tern-north-2025a.csv", seed: 1101, startDate: "2025-03-01", nights: 150, uploadedBy: "engineer" },
+          { file: "tern-north-2025b.csv", seed: 1102, startDate: "2025-07-29", nights: 150, uploadedBy: "engineer" },
+        ],
+        exclusion: { from: "2025-05-12T00:00:00Z", to: "2025-05-15T00:00:00Z", reason: "Dome maintenance: shutter motor replaced" },
+      },
+      {
+        name: "Tern Ridge low tower",
+        apertureMm: 60,
+        baselineMm: 200,
+        wavelengthNm: 500,
+        heightAboveGroundM: 2,
+        response: "z-tilt",
+        startDate: "2025-08-01",
+        endDate: "2026-01-27",
+        status: "finished",
+        medianSeeingArcsec: 0.86,
+        seasonalAmplitude: 0.12,
+        engineerIsMember: false,
+        logs: [{ file: "tern-low-2025.csv", seed: 1201, startDate: "2025-08-01", nights: 180, uploadedBy: "lead" }],
+      },
+    ],
+  },
+  {
+    name: "Saltpan Crest",
+    latitude: -25.947,
+    longitude: -68.702,
+    elevationM: 4115,
+    notes: "Low crest above the salt flat; afternoon dust.",
+    campaigns: [
+      {
+        name: "Saltpan Crest tower",
+        apertureMm: 60,
+        baselineMm: 200,
+        wavelengthNm: 550,
+        heightAboveGroundM: 8,
+        response: "z-tilt",
+        startDate: "2025-04-01",
+        endDate: "2025-11-26",
+        status: "finished",
+        medianSeeingArcsec: 0.95,
+        seasonalAmplitude: 0.1,
+        engineerIsMember: true,
+        logs: [{ file: "saltpan-2025.csv", seed: 2101, startDate: "2025-04-01", nights: 240, uploadedBy: "engineer" }],
+      },
+    ],
+  },
+  {
+    name: "Quartz Shoulder",
+    latitude: -26.105,
+    longitude: -68.377,
+    elevationM: 4620,
+    notes: "Highest candidate; a narrow shoulder under the main summit.",
+    campaigns: [
+      {
+        name: "Quartz Shoulder pier",
+        apertureMm: 60,
+        baselineMm: 200,
+        wavelengthNm: 500,
+        heightAboveGroundM: 5,
+        response: "sarazin-roddier",
+        startDate: "2025-03-15",
+        endDate: "2025-12-10",
+        status: "running",
+        medianSeeingArcsec: 0.62,
+        seasonalAmplitude: 0.15,
+        engineerIsMember: false,
+        logs: [{ file: "quartz-2025.csv", seed: 3101, startDate: "2025-03-15", nights: 270, uploadedBy: "lead" }],
+      },
+    ],
+  },
+  {
+    name: "Condor Spur",
+    latitude: -25.69,
+    longitude: -68.915,
+    elevationM: 3940,
+    notes: "Lowest and easiest to reach; spur exposed to the westerlies.",
+    campaigns: [
+      {
+        name: "Condor Spur mast",
+        apertureMm: 60,
+        baselineMm: 200,
+        wavelengthNm: 500,
+        pixelScaleArcsec: 0.85,
+        heightAboveGroundM: 3,
+        response: "z-tilt",
+        startDate: "2025-05-01",
+        endDate: "2025-11-26",
+        status: "finished",
+        medianSeeingArcsec: 1.08,
+        seasonalAmplitude: 0.08,
+        engineerIsMember: false,
+        logs: [{ file: "condor-2025.csv", seed: 4101, startDate: "2025-05-01", nights: 210, uploadedBy: "lead" }],
+      },
+    ],
+  },
+];
+
+async function userIdByEmail(context: AppContext, email: string): Promise<string> {
+  const row = await context.db.knex("user").where({ email }).first<{ id: string } | undefined>();
+  if (!row) throw new Error(`The demo user ${email} is missing; the demo users are seeded first.`);
+  return row.id;
+}
+
+/**
+ * Seeds the demo scenario and waits until every demo log is ingested. `nightsScale` shortens every log
+ * (tests use a small scale; the real seed uses 1).
+ */
+export async function seedDemoScenario(context: AppContext, options: { nightsScale?: number } = {}): Promise<void> {
+  const knex = context.db.knex;
+  const scale = options.nightsScale ?? 1;
+  const leadId = await userIdByEmail(context, "lead@calmcrest.test");
+  const engineerId = await userIdByEmail(context, "engineer@calmcrest.test");
+  const logDir = join(context.env.dataDir, "demo-logs");
+  mkdirSync(logDir, { recursive: true });
+  const now = new Date().toISOString();
+
+  for (const demoSite of DEMO_SITES) {
+    const [site] = await knex("site")
+      .insert({
+        name: demoSite.name,
+        latitude: demoSite.latitude,
+        longitude: demoSite.longitude,
+        elevation_m: demoSite.elevationM,
+        notes: demoSite.notes,
+        created_by: leadId,
+        created_at: now,
+        updated_at: now,
+      })
+      .returning<{ id: number }[]>("id");
+    if (!site) throw new Error("The demo site could not be stored.");
+    await recordAudit(knex, { userId: leadId, action: "site.create", targetType: "site", targetId: site.id, details: { name: demoSite.name, demo: true } });
+
+    for (const demo of demoSite.campaigns) {
+      const [inserted] = await knex("campaign")
+        .insert({
+          site_id: site.id,
+          name: demo.name,
+          aperture_mm: demo.apertureMm,
+          baseline_mm: demo.baselineMm,
+          wavelength_nm: demo.wavelengthNm,
+          pixel_scale_arcsec: demo.pixelScaleArcsec ?? null,
+          exposure_ms: null,
+          height_above_ground_m: demo.heightAboveGroundM,
+          response: demo.response,
+          start_date: demo.startDate,
+          end_date: demo.endDate,
+          status: demo.status,
+          notes: "",
+          created_by: leadId,
+          created_at: now,
+          updated_at: now,
+        })
+        .returning<{ id: number }[]>("id");
+      if (!inserted) throw new Error("The demo campaign could not be stored.");
+      await recordAudit(knex, { userId: leadId, action: "campaign.create", targetType: "campaign", targetId: inserted.id, details: { name: demo.name, demo: true } });
+      const campaign = await knex("campaign").where({ id: inserted.id }).first<CampaignRow>();
+      if (demo.engineerIsMember) {
+        await knex("campaign_member").insert({ campaign_id: campaign.id, user_id: engineerId, added_at: now });
+        await recordAudit(knex, { userId: null, action: "member.add", targetType: "member", targetId: `${campaign.id}:${engineerId}`, details: { demo: true } });
+      }
+
+      for (const log of demo.logs) {
+        const nights = Math.max(2, Math.round(log.nights * scale));
+        const path = join(logDir, scale === 1 ? log.file : `scaled-${nights}-${log.file}`);
+        if (!existsSync(path)) {
+          await writeSyntheticLog(path, {
+            seed: log.seed,
+            site: { latitudeDeg: demoSite.latitude, longitudeDeg: demoSite.longitude, elevationM: demoSite.elevationM },
+            startDate: log.startDate,
+            nights,
+            medianSeeingArcsec: demo.medianSeeingArcsec,
+            seasonalAmplitude: demo.seasonalAmplitude,
+            monitor: monitorOf(campaign),
+            // A few damaged rows per file, as real logs have.
+            badRowEvery: 7919,
+            weatherLossFraction: 0.22,
+          });
+        }
+        const file = await hashIntoTemporary(context.env.dataDir, path);
+        await acceptUpload(context, {
+          campaign,
+          userId: log.uploadedBy === "lead" ? leadId : engineerId,
+          file,
+          fileName: log.file,
+          mapping: undefined,
+        });
+      }
+
+      if (demo.exclusion) {
+        const [exclusion] = await knex("exclusion")
+          .insert({
+            campaign_id: campaign.id,
+            from_ms: Date.parse(demo.exclusion.from),
+            to_ms: Date.parse(demo.exclusion.to),
+            reason: demo.exclusion.reason,
+            created_by: engineerId,
+            created_at: now,
+          })
+          .returning<{ id: number }[]>("id");
+        if (exclusion) {
+          await recordAudit(knex, { userId: engineerId, action: "exclusion.add", targetType: "exclusion", targetId: exclusion.id, details: { ...demo.exclusion, demo: true } });
+        }
+      }
+    }
+  }
+  await context.ingest.idle();
+}

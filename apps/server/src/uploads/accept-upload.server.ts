@@ -1,0 +1,104 @@
+import { open } from "node:fs/promises";
+import { LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import type { AppContext } from "../context";
+import type { CampaignRow } from "../access/access.server";
+import { recordAudit } from "../audit/audit.server";
+import { HttpError } from "../http/errors";
+import { uploadQuery, type UploadRow } from "../views.server";
+import { discardTemporary, storeRawFile, type HashedFile } from "./raw-files.server";
+
+/** Enough of a stored file to check its header and mapping before queueing it. */
+const HEADER_CHECK_BYTES = 64 * 1024;
+
+export function monitorOf(campaign: CampaignRow): MonitorSettings {
+  return {
+    apertureMm: campaign.aperture_mm,
+    baselineMm: campaign.baseline_mm,
+    wavelengthNm: campaign.wavelength_nm,
+    response: campaign.response,
+    ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
+    ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
+  };
+}
+
+/** Text of a LogFormatError for a person: what is wrong, where, how to fix it. */
+export function formatProblem(error: LogFormatError): string {
+  return `${error.message}${error.line === null ? "" : ` (line ${error.line})`}. ${error.hint}`.trim();
+}
+
+/** The first bytes of a file as text (a cut multi-byte character at the end is harmless for a header check). */
+async function readHead(path: string): Promise<string> {
+  const handle = await open(path, "r");
+  try {
+    const buffer = Buffer.alloc(HEADER_CHECK_BYTES);
+    const { bytesRead } = await handle.read(buffer, 0, HEADER_CHECK_BYTES, 0);
+    return buffer.subarray(0, bytesRead).toString("utf8");
+  } finally {
+    await handle.close();
+  }
+}
+
+export type AcceptResult = { kind: "queued"; uploadId: number } | { kind: "duplicate"; existing: UploadRow };
+
+/**
+ * The one path from a received, hashed temporary file to a queued upload (used by the upload route and by the
+ * demo seed): checks the header and mapping (400 if unusable), recognises the same bytes in the same campaign
+ * (duplicate), moves the raw file to its content address, records and audits the upload, queues the ingest.
+ * The temporary file is always consumed.
+ */
+export async function acceptUpload(
+  context: AppContext,
+  input: { campaign: CampaignRow; userId: string; file: HashedFile; fileName: string; mapping: ColumnMapping | undefined },
+): Promise<AcceptResult> {
+  const { campaign, file } = input;
+  const knex = context.db.knex;
+  try {
+    // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
+    let mapping: ColumnMapping;
+    try {
+      const preview = previewLog(await readHead(file.path), { monitor: monitorOf(campaign), maxRows: 0, ...(input.mapping ? { mapping: input.mapping } : {}) });
+      if (preview.mappingProblems.length > 0) {
+        throw new HttpError(400, "unusable_mapping", `The file cannot be read with this mapping: ${preview.mappingProblems.join(" ")}`, {
+          mapping: preview.mappingProblems,
+        });
+      }
+      mapping = input.mapping ?? preview.proposedMapping;
+    } catch (error) {
+      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
+      throw error;
+    }
+
+    const existing = await uploadQuery(knex).where({ "upload.campaign_id": campaign.id, "upload.sha256": file.sha256 }).first();
+    if (existing) {
+      await discardTemporary(file);
+      return { kind: "duplicate", existing };
+    }
+    await storeRawFile(context.env.dataDir, file);
+    const [inserted] = await knex("upload")
+      .insert({
+        campaign_id: campaign.id,
+        file_name: input.fileName,
+        size_bytes: file.size,
+        sha256: file.sha256,
+        uploaded_by: input.userId,
+        uploaded_at: new Date().toISOString(),
+        mapping: JSON.stringify(mapping),
+        status: "queued",
+      })
+      .returning<{ id: number }[]>("id");
+    if (!inserted) throw new HttpError(500, "server_error", "The upload could not be recorded. Try again.");
+    await recordAudit(knex, {
+      userId: input.userId,
+      action: "upload.create",
+      targetType: "upload",
+      targetId: inserted.id,
+      details: { campaignId: campaign.id, fileName: input.fileName, sizeBytes: file.size, sha256: file.sha256 },
+    });
+    context.ingest.enqueue(inserted.id);
+    return { kind: "queued", uploadId: inserted.id };
+  } catch (error) {
+    // storeRawFile moved the file away if it got that far; otherwise drop the temporary copy.
+    await discardTemporary(file);
+    throw error;
+  }
+}

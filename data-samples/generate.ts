@@ -1,0 +1,110 @@
+// Regenerates the sample logs in this folder (invented data; see README.md for what each holds and its counts).
+// Run from the repository root: node_modules/.bin/tsx data-samples/generate.ts
+import { readFileSync, writeFileSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, dirname } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { writeSyntheticLog } from '../packages/seeing-stats/src/node/index.js'; // root scripts have no package of their own
+import { createRandom } from '../packages/seeing-stats/src/index.js';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const scratch = mkdtempSync(join(tmpdir(), 'calmcrest-samples-'));
+// An invented ridge in a desert; not any real observatory's position.
+const site = { latitudeDeg: -27.42, longitudeDeg: -70.15, elevationM: 2650 };
+
+async function syntheticLines(options: { seed: number; nights: number; cadenceSeconds: number; pixelScaleArcsec?: number; apertureMm: number; baselineMm: number; wavelengthNm: number; startDate: string }): Promise<string[]> {
+  const path = join(scratch, `s${options.seed}.csv`);
+  await writeSyntheticLog(path, {
+    seed: options.seed,
+    site,
+    startDate: options.startDate,
+    nights: options.nights,
+    medianSeeingArcsec: 0.78,
+    cadenceSeconds: options.cadenceSeconds,
+    weatherLossFraction: 0,
+    monitor: { apertureMm: options.apertureMm, baselineMm: options.baselineMm, wavelengthNm: options.wavelengthNm, pixelScaleArcsec: options.pixelScaleArcsec, response: 'z-tilt' },
+  });
+  return readFileSync(path, 'utf8').trimEnd().split('\n');
+}
+
+// 1. Native format, variances in arcsec², with one row of each kind of damage.
+{
+  const lines = await syntheticLines({ seed: 11, nights: 3, cadenceSeconds: 180, apertureMm: 60, baselineMm: 200, wavelengthNm: 500, startDate: '2025-04-07' });
+  const header = lines.findIndex((line) => line.startsWith('time_utc'));
+  const body = lines.slice(header + 1);
+  const at = (index: number): string[] => (body[index] ?? '').split(',');
+  const damaged: string[] = [];
+  const row = (fields: (string | undefined)[]): string => fields.map((field) => field ?? '').join(',');
+  const base = at(20);
+  // Distinct seconds keep the damaged rows from repeating a real row's time (only the duplicate row should).
+  const withSeconds = (time: string | undefined, seconds: string): string => (time ?? '').replace(/:\d\dZ$/, `:${seconds}Z`);
+  damaged.push(row([withSeconds(base[0], '07'), '', base[2], base[3], base[4]])); // missing_value
+  damaged.push(row(['2025-13-01T00:00:00Z', base[1], base[2], base[3], base[4]])); // unreadable_time (month 13)
+  damaged.push(row(['yesterday evening', base[1], base[2], base[3], base[4]])); // unreadable_time
+  damaged.push(row([withSeconds(base[0], '08'), base[1], '-0.0100', base[3], base[4]])); // non_physical
+  damaged.push(row([withSeconds(base[0], '09'), 'NaN', base[2], base[3], base[4]])); // non_physical
+  damaged.push(row([withSeconds(base[0], '10'), base[1], base[2], '95.00', base[4]])); // non_physical
+  damaged.push(row([withSeconds(base[0], '11'), base[1], base[2], '72.50', base[4]])); // zenith_limit
+  damaged.push(row([base[0], base[1], base[2], base[3], base[4]])); // duplicate_time (same time as body row 20)
+  damaged.push(row(['2025-04-08T18:00:00Z', base[1], base[2], base[3], base[4]])); // sun_above_limit (local early afternoon)
+  damaged.push(row([withSeconds(base[0], '12'), base[1], base[2], base[3], '120'])); // low_flux with --min-flux 1000
+  const out = [...lines.slice(0, header + 1), ...body.slice(0, 40), ...damaged, ...body.slice(40)];
+  writeFileSync(join(here, 'native-arcsec2.csv'), `${out.join('\n')}\n`);
+  console.log('native-arcsec2.csv', body.length, 'clean rows +', damaged.length, 'damaged');
+}
+
+// 2. Native names, variances in pixel², tab-separated with CRLF line ends, measured at 550 nm.
+{
+  const lines = await syntheticLines({ seed: 12, nights: 2, cadenceSeconds: 240, apertureMm: 50, baselineMm: 180, wavelengthNm: 550, pixelScaleArcsec: 0.65, startDate: '2025-06-20' });
+  const out = lines.map((line) => (line.startsWith('#') ? line : line.replaceAll(',', '\t')));
+  writeFileSync(join(here, 'native-px2.tsv'), `${out.join('\r\n')}\r\n`);
+  console.log('native-px2.tsv', out.filter((line) => !line.startsWith('#')).length - 1, 'rows');
+}
+
+// 3. A monitor's own export: semicolons, its own headers, seeing FWHM and airmass, space-separated times without Z.
+{
+  const random = createRandom(13);
+  const rows: string[] = ['Timestamp (UTC);FWHM [arcsec];Airmass;Wind [m/s]'];
+  const start = Date.parse('2025-05-02T00:30:00Z');
+  for (let index = 0; index < 400; index += 1) {
+    const time = new Date(start + index * 120_000 + Math.floor(index / 200) * 86_400_000).toISOString().slice(0, 19).replace('T', ' ');
+    const airmass = 1.05 + 0.5 * random();
+    const fwhm = 0.8 * Math.exp(0.3 * (random() + random() - 1)) * airmass ** 0.6;
+    rows.push(`${time};${fwhm.toFixed(3)};${airmass.toFixed(3)};${(3 + 6 * random()).toFixed(1)}`);
+  }
+  // Damage: airmass below 1, an empty FWHM, a low star (airmass 2.5 = 66.4° from zenith).
+  rows[51] = (rows[51] ?? '').replace(/;[0-9.]+;([0-9.]+)$/, ';0.800;$1').replace(/^([^;]+;[^;]+;)[0-9.]+/, '$10.800');
+  rows[102] = (rows[102] ?? '').replace(/^([^;]+;)[0-9.]+/, '$1');
+  rows[153] = (rows[153] ?? '').replace(/^([^;]+;[^;]+;)[0-9.]+/, '$12.500');
+  writeFileSync(join(here, 'wizard-fwhm-airmass.csv'), `${rows.join('\n')}\n`);
+  console.log('wizard-fwhm-airmass.csv', rows.length - 1, 'rows');
+}
+
+// 4. Native names, r0 in cm and zenith angle, with comments and a blank line inside.
+{
+  const random = createRandom(14);
+  const rows: string[] = ['# Fried parameter log, invented data', 'time_utc,r0_cm,zenith_deg,tau0_ms,theta0_arcsec,rh_pct'];
+  const start = Date.parse('2025-08-11T02:00:00Z');
+  for (let index = 0; index < 300; index += 1) {
+    if (index === 150) rows.push('# monitor restarted', '');
+    const time = new Date(start + index * 60_000).toISOString().slice(0, 19) + 'Z';
+    const r0Cm = 12.5 * Math.exp(0.25 * (random() + random() - 1));
+    rows.push(`${time},${r0Cm.toFixed(2)},${(15 + 20 * random()).toFixed(1)},${(3 + 4 * random()).toFixed(2)},${(1.6 + random()).toFixed(2)},${(10 + 30 * random()).toFixed(0)}`);
+  }
+  rows[60] = (rows[60] ?? '').replace(/^([^,]+,)[0-9.]+/, '$10.00'); // non_physical: r0 = 0
+  writeFileSync(join(here, 'r0-cm.csv'), `${rows.join('\n')}\n`);
+  console.log('r0-cm.csv 300 rows');
+}
+
+// 5. Files that cannot be read at all.
+{
+  const random = createRandom(15);
+  const bytes = new Uint8Array(2048);
+  for (let index = 0; index < bytes.length; index += 1) bytes[index] = Math.floor(random() * 256);
+  bytes[0] = 0x89; // looks like the start of an image file
+  bytes[7] = 0;
+  writeFileSync(join(here, 'malformed-binary.bin'), bytes);
+  writeFileSync(join(here, 'malformed-no-time.csv'), 'seeing_arcsec,zenith_deg\n0.71,20.5\n0.83,21.0\n');
+  writeFileSync(join(here, 'malformed-empty.csv'), '');
+}
+rmSync(scratch, { recursive: true, force: true });

@@ -11,6 +11,7 @@ import { SitesPage } from "./routes/sites";
 import { SitePage, siteLoader } from "./routes/sites.$siteId";
 import { CampaignPage, campaignLoader } from "./routes/campaigns.$campaignId";
 import { sitesQuery } from "./api/sites";
+import { UploadPage } from "./routes/upload";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
 
@@ -29,6 +30,15 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
     },
     { path: "sites/:siteId", loader: siteLoader(queryClient), element: <SitePage /> },
     { path: "campaigns/:campaignId", loader: campaignLoader(queryClient), element: <CampaignPage /> },
+    {
+      path: "upload",
+      loader: async (args) => {
+        await roleLoader(queryClient, ["lead", "engineer"])(args);
+        await queryClient.ensureQueryData(sitesQuery);
+        return null;
+      },
+      element: <UploadPage />,
+    },
     { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
   ];
 }

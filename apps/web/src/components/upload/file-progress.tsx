@@ -1,0 +1,131 @@
+import { useEffect, useRef } from "react";
+import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { Link } from "react-router-dom";
+import type { UploadListItem } from "@calmcrest/contracts";
+import { uploadQuery } from "../../api/uploads";
+import { formatNumber, reasonLabel } from "../../lib/format";
+
+export type FileSend =
+  | { state: "waiting" }
+  | { state: "sending"; fraction: number }
+  | { state: "stored"; uploadId: number }
+  | { state: "duplicate"; message: string; upload: UploadListItem }
+  | { state: "refused"; message: string };
+
+function Bar({ label, fraction, tone = "accent" }: { label: string; fraction: number; tone?: "accent" | "bad" }) {
+  const percent = Math.round(Math.min(1, Math.max(0, fraction)) * 100);
+  return (
+    <div className="text-sm">
+      <div className="flex justify-between">
+        <span>{label}</span>
+        <span className="tabular-nums">{percent} %</span>
+      </div>
+      <div role="progressbar" aria-label={label} aria-valuemin={0} aria-valuemax={100} aria-valuenow={percent} className="mt-1 h-2.5 overflow-hidden rounded-full bg-line">
+        <div className={`h-full ${tone === "bad" ? "bg-bad" : "bg-accent"} transition-[width]`} style={{ width: `${percent}%` }} />
+      </div>
+    </div>
+  );
+}
+
+function Counts({ upload }: { upload: UploadListItem }) {
+  const reasons = Object.entries(upload.samples.rejectedByReason).filter(([, count]) => (count ?? 0) > 0);
+  return (
+    <div className="space-y-1 text-sm" data-testid="upload-result">
+      <p>
+        <span className="font-semibold" data-testid="accepted-count">
+          {formatNumber(upload.samples.accepted)} accepted
+        </span>
+        {" · "}
+        <span className="font-semibold" data-testid="rejected-count">
+          {formatNumber(upload.samples.rejected)} rejected
+        </span>
+        {" · "}
+        {formatNumber(upload.samples.read)} rows read
+      </p>
+      {reasons.length > 0 ? (
+        <ul className="text-ink-soft" aria-label="Rejected by reason">
+          {reasons.map(([reason, count]) => (
+            <li key={reason}>
+              {formatNumber(count)} {reasonLabel(reason)}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+      {upload.samples.rejected > 0 ? (
+        <a href={`/api/uploads/${upload.id}/rejected.csv`} download className="inline-block font-semibold text-accent underline">
+          Download the rejected rows (CSV, with line numbers and reasons)
+        </a>
+      ) : null}
+    </div>
+  );
+}
+
+function Ingest({ uploadId, onFinished }: { uploadId: number; onFinished: () => void }) {
+  const status = useQuery(uploadQuery(uploadId));
+  const queryClient = useQueryClient();
+  const reported = useRef(false);
+  const finished = status.data && status.data.status !== "queued" && status.data.status !== "ingesting";
+  useEffect(() => {
+    if (!finished || reported.current || !status.data) return;
+    reported.current = true;
+    // New samples change the campaign, its site and the site list.
+    void Promise.all([
+      queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", status.data.campaignId] }),
+      queryClient.invalidateQueries({ queryKey: ["sites"] }),
+    ]).then(onFinished);
+  }, [finished, status.data, queryClient, onFinished]);
+
+  if (status.isError) return <p className="text-sm text-bad">The upload's status could not be read: {status.error.message}</p>;
+  if (!status.data) return <Bar label="Reading into the database" fraction={0} />;
+  const upload = status.data;
+  if (upload.status === "queued") return <Bar label="Waiting for the server to start reading" fraction={0} />;
+  if (upload.status === "ingesting") return <Bar label="Reading into the database" fraction={upload.progress} />;
+  if (upload.status === "failed" || upload.status === "interrupted")
+    return (
+      <div className="space-y-1 text-sm">
+        <Bar label="Reading into the database" fraction={upload.progress} tone="bad" />
+        <p role="alert" className="text-bad">
+          {upload.status === "failed" ? "The file could not be read into the database; none of its samples were kept." : "The server stopped while reading this file; none of its samples were kept."} {upload.error}
+        </p>
+      </div>
+    );
+  return (
+    <div className="space-y-2">
+      <Bar label="Reading into the database" fraction={1} />
+      <Counts upload={upload} />
+    </div>
+  );
+}
+
+/** One file's way through the upload: transfer bar, ingest bar, then its result. */
+export function FileProgress({ file, send, campaignId, onFinished }: { file: File; send: FileSend; campaignId: number; onFinished: () => void }) {
+  return (
+    <li className="space-y-2 rounded-lg border border-line bg-panel p-3">
+      <p className="font-semibold">{file.name}</p>
+      {send.state === "waiting" ? <p className="text-sm text-ink-soft">Waiting for the files before it.</p> : null}
+      {send.state === "sending" ? <Bar label="Sending to the server" fraction={send.fraction} /> : null}
+      {send.state === "stored" ? (
+        <>
+          <Bar label="Sending to the server" fraction={1} />
+          <Ingest uploadId={send.uploadId} onFinished={onFinished} />
+        </>
+      ) : null}
+      {send.state === "duplicate" ? (
+        <div className="space-y-1 text-sm">
+          <p role="status" className="rounded-md bg-warn-pale px-3 py-2 text-warn">
+            {send.message}
+          </p>
+          <Counts upload={send.upload} />
+          <Link to={`/campaigns/${campaignId}`} className="font-semibold text-accent underline">
+            See it in the campaign
+          </Link>
+        </div>
+      ) : null}
+      {send.state === "refused" ? (
+        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
+          {send.message}
+        </p>
+      ) : null}
+    </li>
+  );
+}

@@ -1,0 +1,376 @@
+import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from "react";
+import { keepPreviousData, useQueries, useQuery, useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
+import { useForm, useWatch } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { Link, useSearchParams } from "react-router-dom";
+import { z } from "zod";
+import { columnMappingSchema, type CampaignDetail, type ColumnMappingInput } from "@calmcrest/contracts";
+import type { ColumnMapping } from "@calmcrest/seeing-stats";
+import { campaignQuery, saveMapping } from "../api/campaigns";
+import { ApiError } from "../api/client";
+import { siteQuery, sitesQuery } from "../api/sites";
+import { previewUpload, sendUpload } from "../api/uploads";
+import { Notice, Page } from "../components/page";
+import { FileProgress, type FileSend } from "../components/upload/file-progress";
+import { MappingEditor, mappingProblems } from "../components/upload/mapping-editor";
+import { HEAD_BYTES, mappingFitsHeaders, readLogHead, unitsOfMapping, type LogHead } from "../lib/log-head";
+import { formatArcsec, formatBytes, formatNumber } from "../lib/format";
+
+/** The wizard's form: the campaign, the mapping (the shared schema the server also checks) and whether to keep it. */
+const wizardSchema = z.object({
+  campaignId: z.string().regex(/^\d+$/, "Choose the campaign these logs belong to."),
+  mapping: columnMappingSchema,
+  keepMapping: z.boolean(),
+});
+type WizardValues = z.infer<typeof wizardSchema>;
+
+function Step({ number, title, children, done }: { number: number; title: string; children: React.ReactNode; done?: boolean }) {
+  return (
+    <section aria-labelledby={`step-${number}`} className="rounded-lg border border-line bg-panel p-4 sm:p-5">
+      <h2 id={`step-${number}`} className="mb-3 flex items-center gap-3 text-lg font-semibold">
+        <span aria-hidden="true" className={`flex h-7 w-7 items-center justify-center rounded-full text-sm ${done ? "bg-accent text-white" : "border border-accent text-accent"}`}>
+          {number}
+        </span>
+        {title}
+      </h2>
+      {children}
+    </section>
+  );
+}
+
+function useUploadableCampaigns() {
+  const { data: sites } = useSuspenseQuery(sitesQuery);
+  const details = useQueries({ queries: sites.map((site) => siteQuery(site.id)) });
+  const pending = details.some((detail) => detail.isPending);
+  const campaigns = details.flatMap((detail) => (detail.data ? detail.data.campaigns.map((campaign) => ({ ...campaign, siteName: detail.data.name })) : []));
+  return { campaigns, pending, sites };
+}
+
+function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file: File; mapping: ColumnMappingInput }) {
+  const preview = useQuery({
+    queryKey: ["uploads", "preview", campaignId, file.name, file.size, file.lastModified, mapping],
+    queryFn: () => previewUpload(campaignId, file.slice(0, HEAD_BYTES), file.name, mapping),
+    placeholderData: keepPreviousData,
+    staleTime: Number.POSITIVE_INFINITY,
+  });
+  if (preview.isPending) return <p role="status" className="text-sm text-ink-soft">The server is reading the first rows…</p>;
+  if (preview.isError)
+    return (
+      <Notice tone="bad" title="The server could not read the first rows.">
+        {preview.error instanceof ApiError ? preview.error.message : "Try again."}
+      </Notice>
+    );
+  const rows = preview.data.rows;
+  const bad = rows.filter((row) => row.problem).length;
+  return (
+    <div className="space-y-2">
+      {preview.data.mappingProblems.length > 0 ? (
+        <Notice tone="bad" title="The server sees problems with this mapping.">
+          <ul>
+            {preview.data.mappingProblems.map((problem) => (
+              <li key={problem}>{problem}</li>
+            ))}
+          </ul>
+        </Notice>
+      ) : null}
+      <p className="text-sm" data-testid="preview-summary">
+        The server read the first {rows.length} rows: {rows.length - bad} usable, {bad} with a problem. Nothing has been stored yet.
+      </p>
+      <div className="overflow-x-auto rounded-lg border border-line">
+        <table className="w-full border-collapse text-sm">
+          <caption className="sr-only">First rows as the server reads them</caption>
+          <thead className="bg-paper">
+            <tr>
+              <th scope="col" className="num px-3 py-2">Line</th>
+              <th scope="col" className="px-3 py-2 text-left">Time (UTC)</th>
+              <th scope="col" className="num px-3 py-2">Seeing<span className="block text-xs font-normal text-ink-soft">arcsec, zenith, 500 nm</span></th>
+              <th scope="col" className="num px-3 py-2">r0<span className="block text-xs font-normal text-ink-soft">cm</span></th>
+              <th scope="col" className="num px-3 py-2">Zenith angle<span className="block text-xs font-normal text-ink-soft">deg</span></th>
+              <th scope="col" className="num px-3 py-2">Sun altitude<span className="block text-xs font-normal text-ink-soft">deg</span></th>
+              <th scope="col" className="px-3 py-2 text-left">Problem</th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((row) => (
+              <tr key={row.line} className={`border-t border-line ${row.problem ? "bg-bad-pale" : ""}`}>
+                <td className="num px-3 py-1.5">{row.line}</td>
+                <td className="whitespace-nowrap px-3 py-1.5 tabular-nums">{row.sample ? new Date(row.sample.timeMs).toISOString().slice(0, 19).replace("T", " ") : (row.values[mapping.time_utc ?? ""] ?? "–")}</td>
+                <td className="num px-3 py-1.5">{row.sample ? formatArcsec(row.sample.seeingArcsec) : "–"}</td>
+                <td className="num px-3 py-1.5">{row.sample ? formatNumber(row.sample.r0Cm, 1) : "–"}</td>
+                <td className="num px-3 py-1.5">{row.sample ? formatNumber(row.sample.zenithDeg, 1) : "–"}</td>
+                <td className="num px-3 py-1.5">{row.sample ? formatNumber(row.sample.sunAltDeg, 1) : "–"}</td>
+                <td className="px-3 py-1.5 text-bad">{row.problem ?? ""}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}
+
+export function UploadPage() {
+  const [searchParams, setSearchParams] = useSearchParams();
+  const queryClient = useQueryClient();
+  const { campaigns, pending, sites } = useUploadableCampaigns();
+  const { control, register, setValue, handleSubmit, formState } = useForm<WizardValues>({
+    resolver: zodResolver(wizardSchema),
+    defaultValues: { campaignId: searchParams.get("campaign") ?? "", mapping: {}, keepMapping: true },
+  });
+  const campaignIdText = useWatch({ control, name: "campaignId" });
+  const mapping = useWatch({ control, name: "mapping" }) as ColumnMapping;
+  const campaignId = /^\d+$/.test(campaignIdText) ? Number(campaignIdText) : null;
+  const campaign = useQuery({ ...campaignQuery(campaignId ?? 0), enabled: campaignId !== null });
+
+  const [files, setFiles] = useState<File[]>([]);
+  const [head, setHead] = useState<LogHead | null>(null);
+  const [headError, setHeadError] = useState<string | null>(null);
+  const [headerMismatch, setHeaderMismatch] = useState<string[]>([]);
+  const [mappingSource, setMappingSource] = useState<"saved" | "proposed" | null>(null);
+  const [sends, setSends] = useState<FileSend[] | null>(null);
+  const [failure, setFailure] = useState<string | null>(null);
+  const [finishedCount, setFinishedCount] = useState(0);
+  const fileInput = useRef<HTMLInputElement>(null);
+  const [dragging, setDragging] = useState(false);
+
+  const chooseFiles = async (chosen: File[]) => {
+    setSends(null);
+    setFinishedCount(0);
+    setFailure(null);
+    setFiles(chosen);
+    setHead(null);
+    setHeadError(null);
+    setHeaderMismatch([]);
+    const first = chosen[0];
+    if (!first) return;
+    try {
+      const heads = await Promise.all(chosen.map(async (file) => readLogHead(await file.slice(0, HEAD_BYTES).text())));
+      const firstHead = heads[0];
+      if (!firstHead) return;
+      // One mapping is used for every file of a batch, so all files must share the first file's columns.
+      setHeaderMismatch(chosen.filter((_, index) => (heads[index]?.headers.join("\u0000") ?? "") !== firstHead.headers.join("\u0000")).map((file) => file.name));
+      setHead(firstHead);
+    } catch (error) {
+      setHeadError(`${first.name}: ${error instanceof Error ? error.message : "the file could not be read."}`);
+    }
+  };
+
+  // When the file or campaign changes, start from the campaign's saved mapping if it fits the file, else the proposal.
+  const savedMapping = campaign.data?.savedMapping?.mapping as ColumnMapping | undefined;
+  useEffect(() => {
+    if (!head) return;
+    if (savedMapping && mappingFitsHeaders(savedMapping, head.headers)) {
+      setValue("mapping", savedMapping);
+      setMappingSource("saved");
+    } else {
+      setValue("mapping", head.proposedMapping);
+      setMappingSource("proposed");
+    }
+  }, [head, savedMapping, setValue]);
+
+  const pixelScaleArcsec = campaign.data?.monitor.pixelScaleArcsec ?? null;
+  const problems = useMemo(() => (head ? mappingProblems(mapping, head.headers, pixelScaleArcsec) : []), [head, mapping, pixelScaleArcsec]);
+  const ready = Boolean(campaign.data && head && problems.length === 0 && headerMismatch.length === 0 && files.length > 0);
+  const running = sends !== null && sends.some((send) => send.state === "sending" || send.state === "waiting");
+
+  const onUpload = handleSubmit(async (values) => {
+    const target = campaign.data;
+    if (!target || !ready) return;
+    setFailure(null);
+    setFinishedCount(0);
+    const chosenMapping = values.mapping;
+    if (values.keepMapping) {
+      try {
+        await saveMapping(target.id, { mapping: chosenMapping, units: { ...unitsOfMapping(chosenMapping as ColumnMapping) } });
+        await queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", target.id] });
+      } catch (error) {
+        setFailure(`The mapping could not be saved for next time (${error instanceof ApiError ? error.message : "try again"}); the upload goes on.`);
+      }
+    }
+    const state: FileSend[] = files.map(() => ({ state: "waiting" }));
+    setSends([...state]);
+    // One file at a time: the server ingests one at a time anyway, and the transfer bar stays meaningful.
+    for (const [index, file] of files.entries()) {
+      state[index] = { state: "sending", fraction: 0 };
+      setSends([...state]);
+      try {
+        const outcome = await sendUpload(target.id, file, chosenMapping, (fraction) => {
+          state[index] = { state: "sending", fraction };
+          setSends([...state]);
+        });
+        state[index] =
+          outcome.kind === "accepted"
+            ? { state: "stored", uploadId: outcome.accepted.upload.id }
+            : { state: "duplicate", message: outcome.duplicate.error.message, upload: outcome.duplicate.upload };
+      } catch (error) {
+        state[index] = { state: "refused", message: error instanceof ApiError ? error.message : "The upload failed. Try again." };
+      }
+      setSends([...state]);
+    }
+  });
+
+  const onFinished = useCallback(() => setFinishedCount((count) => count + 1), []);
+
+  const onDrop = (event: DragEvent<HTMLDivElement>) => {
+    event.preventDefault();
+    setDragging(false);
+    void chooseFiles(Array.from(event.dataTransfer.files));
+  };
+
+  if (sites.length === 0) {
+    return (
+      <Page title="Upload logs">
+        <Notice title="There is no campaign you can upload to.">
+          Logs belong to a campaign (one monitor at one site). Ask the survey lead to create the campaign and an administrator to add you to it.
+        </Notice>
+      </Page>
+    );
+  }
+
+  const selectedCampaign: CampaignDetail | undefined = campaign.data;
+  return (
+    <Page title="Upload logs" intro="Send the monitor's logs from a trip. You check how Calmcrest reads the columns before anything is stored; rows that cannot be used are counted and listed, never silently dropped.">
+      <form onSubmit={onUpload} noValidate className="space-y-5">
+        <Step number={1} title="Campaign" done={Boolean(selectedCampaign)}>
+          <label htmlFor="campaign" className="block text-sm font-semibold">
+            Campaign the logs belong to
+          </label>
+          <select
+            id="campaign"
+            disabled={pending || running}
+            className="mt-1 w-full max-w-xl rounded-md border border-line bg-panel px-3 py-2"
+            aria-invalid={formState.errors.campaignId ? true : undefined}
+            {...register("campaignId", {
+              onChange: (event: React.ChangeEvent<HTMLSelectElement>) => {
+                const next = new URLSearchParams(searchParams);
+                next.set("campaign", event.target.value);
+                setSearchParams(next, { replace: true });
+              },
+            })}
+          >
+            <option value="">{pending ? "Loading campaigns…" : "Choose a campaign"}</option>
+            {campaigns.map((item) => (
+              <option key={item.id} value={String(item.id)}>
+                {item.siteName} — {item.name}
+              </option>
+            ))}
+          </select>
+          {formState.errors.campaignId ? <p className="mt-1 text-sm text-bad">{formState.errors.campaignId.message}</p> : null}
+          {selectedCampaign ? (
+            <p className="mt-2 text-sm text-ink-soft">
+              Monitor: {selectedCampaign.monitor.apertureMm} mm subapertures, {selectedCampaign.monitor.baselineMm} mm baseline, {selectedCampaign.monitor.wavelengthNm} nm,{" "}
+              {selectedCampaign.monitor.heightAboveGroundM === null ? "height not recorded" : `${selectedCampaign.monitor.heightAboveGroundM} m above ground`}; {formatNumber(selectedCampaign.uploadCount)} uploads so far.
+            </p>
+          ) : campaign.isError ? (
+            <p className="mt-2 text-sm text-bad">{campaign.error.message}</p>
+          ) : null}
+        </Step>
+
+        <Step number={2} title="Log files" done={files.length > 0 && Boolean(head)}>
+          <div
+            onDragOver={(event) => {
+              event.preventDefault();
+              setDragging(true);
+            }}
+            onDragLeave={() => setDragging(false)}
+            onDrop={onDrop}
+            className={`flex flex-col items-center justify-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${dragging ? "border-accent bg-accent-pale" : "border-line bg-paper"}`}
+          >
+            <p>Drop one or more log files here (CSV, semicolon or tab separated), or</p>
+            <button type="button" disabled={running} onClick={() => fileInput.current?.click()} className="rounded-md border border-accent px-4 py-1.5 font-semibold text-accent hover:bg-accent-pale">
+              Choose files
+            </button>
+            <input
+              ref={fileInput}
+              type="file"
+              multiple
+              accept=".csv,.txt,.tsv,.log,.dat,text/csv,text/plain"
+              aria-label="Log files"
+              className="sr-only"
+              onChange={(event) => void chooseFiles(Array.from(event.target.files ?? []))}
+            />
+          </div>
+          {files.length > 0 ? (
+            <ul className="mt-3 space-y-1 text-sm">
+              {files.map((file) => (
+                <li key={`${file.name}-${file.size}`} className="flex justify-between gap-3">
+                  <span className="font-semibold">{file.name}</span>
+                  <span className="tabular-nums text-ink-soft">{formatBytes(file.size)}</span>
+                </li>
+              ))}
+            </ul>
+          ) : null}
+          {headError ? (
+            <p role="alert" className="mt-3 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
+              {headError}
+            </p>
+          ) : null}
+          {headerMismatch.length > 0 ? (
+            <p role="alert" className="mt-3 rounded-md bg-warn-pale px-3 py-2 text-sm text-warn">
+              {headerMismatch.join(", ")} {headerMismatch.length === 1 ? "has" : "have"} different columns from {files[0]?.name}. One mapping serves the whole batch: upload files with other columns separately.
+            </p>
+          ) : null}
+        </Step>
+
+        {head && selectedCampaign ? (
+          <Step number={3} title="Columns and units" done={problems.length === 0}>
+            <p className="mb-3 text-sm text-ink-soft">
+              {mappingSource === "saved"
+                ? "The mapping saved for this campaign fits these files and is filled in. Check it and go on."
+                : `Proposed from the column names of ${files[0]?.name ?? "the file"} (delimiter “${head.delimiter === "\t" ? "tab" : head.delimiter}”). Correct anything that is wrong.`}
+            </p>
+            <MappingEditor
+              headers={head.headers}
+              rows={head.rows}
+              mapping={mapping}
+              onChange={(next) => setValue("mapping", next, { shouldDirty: true })}
+              pixelScaleArcsec={pixelScaleArcsec}
+              wavelengthNm={selectedCampaign.monitor.wavelengthNm}
+            />
+            <label className="mt-4 flex items-center gap-2 text-sm">
+              <input type="checkbox" {...register("keepMapping")} />
+              Save this mapping for the campaign, so the next trip's logs need one click
+            </label>
+          </Step>
+        ) : null}
+
+        {head && selectedCampaign && problems.length === 0 && files[0] ? (
+          <Step number={4} title="How the server reads the first rows">
+            <PreviewTable campaignId={selectedCampaign.id} file={files[0]} mapping={mapping} />
+          </Step>
+        ) : null}
+
+        {failure ? (
+          <p role="alert" className="rounded-md bg-warn-pale px-3 py-2 text-sm text-warn">
+            {failure}
+          </p>
+        ) : null}
+
+        <div className="flex flex-wrap items-center gap-3">
+          <button type="submit" disabled={!ready || running} className="rounded-md bg-accent px-5 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-50">
+            {files.length > 1 ? `Upload ${files.length} files` : "Upload"}
+          </button>
+          {!ready && !running ? <span className="text-sm text-ink-soft">Choose a campaign and files, and complete the mapping, to upload.</span> : null}
+        </div>
+      </form>
+
+      {sends && selectedCampaign ? (
+        <section aria-labelledby="results-heading" className="mt-6 space-y-3">
+          <h2 id="results-heading" className="text-lg font-semibold">
+            Upload
+          </h2>
+          <ol className="space-y-3">
+            {files.map((file, index) => (
+              <FileProgress key={`${file.name}-${index}`} file={file} send={sends[index] ?? { state: "waiting" }} campaignId={selectedCampaign.id} onFinished={onFinished} />
+            ))}
+          </ol>
+          {finishedCount > 0 ? (
+            <Link to={`/campaigns/${selectedCampaign.id}`} className="inline-block font-semibold text-accent underline">
+              Open the campaign {selectedCampaign.name}
+            </Link>
+          ) : null}
+        </section>
+      ) : null}
+    </Page>
+  );
+}

@@ -1,0 +1,182 @@
+import { describe, expect, it } from 'vitest';
+// @ts-expect-error jstat ships no type declarations; used only as an outside reference in tests
+import jStatModule from 'jstat';
+import kstest from '@stdlib/stats-kstest';
+import stdlibNormalCdf from '@stdlib/stats-base-dists-normal-cdf';
+import { argsortPositive } from './argsortPositive.js';
+import { bootstrapPooledMedian, sortWithGroups } from './bootstrapPooledMedian.js';
+import { fitLogNormal } from './fitLogNormal.js';
+import { ksDistanceLogNormal } from './ksDistanceLogNormal.js';
+import { mannWhitney } from './mannWhitney.js';
+import { normalCdf } from './normalCdf.js';
+import { percentile, percentileSorted } from './percentile.js';
+import { createRandom, normalDeviate } from './random.js';
+
+interface JStatReference {
+  percentile(values: number[], fraction: number): number;
+  mean(values: number[]): number;
+  stdev(values: number[], sample?: boolean): number;
+}
+const jStat = (jStatModule as { jStat: JStatReference }).jStat;
+
+function logNormalSample(count: number, seed: number, medianArcsec = 0.7, sigma = 0.35): number[] {
+  const random = createRandom(seed);
+  return Array.from({ length: count }, () => medianArcsec * Math.exp(sigma * normalDeviate(random)));
+}
+
+describe('percentiles', () => {
+  it('match the numpy "linear" values of the reference data set', () => {
+    // seeing-physics.md §9 #21 (numpy.percentile, default method = Hyndman & Fan type 7)
+    const data = [0.45, 0.52, 0.58, 0.61, 0.66, 0.7, 0.74, 0.81, 0.93, 1.2];
+    const expected = [0.513, 0.5875, 0.68, 0.7925, 0.957];
+    [0.1, 0.25, 0.5, 0.75, 0.9].forEach((fraction, index) => expect(percentile(data, fraction)).toBeCloseTo(expected[index] ?? 0, 12));
+  });
+  it('agree with jstat on generated data', () => {
+    const data = logNormalSample(5001, 3);
+    for (const fraction of [0.01, 0.1, 0.25, 0.5, 0.75, 0.9]) {
+      // checked against jstat's percentile (inclusive, = type 7)
+      expect(percentile(data, fraction)).toBeCloseTo(jStat.percentile(data, fraction), 12);
+    }
+  });
+  it('handle one value, the ends, and refuse empty input', () => {
+    expect(percentileSorted([0.8], 0.9)).toBe(0.8);
+    expect(percentileSorted([1, 2, 3], 0)).toBe(1);
+    expect(percentileSorted([1, 2, 3], 1)).toBe(3);
+    expect(() => percentileSorted([], 0.5)).toThrow(/at least one value/);
+    expect(() => percentileSorted([1], 1.5)).toThrow(/fraction/);
+  });
+});
+
+describe('log-normal fit and KS distance', () => {
+  it('fits the reference data set to μ = −0.3666, σ = 0.2713', () => {
+    // seeing-physics.md §9 #21 (numpy, ddof 0)
+    const fit = fitLogNormal([0.45, 0.52, 0.58, 0.61, 0.66, 0.7, 0.74, 0.81, 0.93, 1.2]);
+    expect(fit.mu).toBeCloseTo(-0.3665723308921741, 12);
+    expect(fit.sigma).toBeCloseTo(0.271290169861505, 12);
+    expect(fit.median).toBeCloseTo(0.6931, 4);
+  });
+  it('agrees with jstat mean and population standard deviation of ln x on generated data', () => {
+    const data = logNormalSample(20000, 4);
+    const logs = data.map(Math.log);
+    const fit = fitLogNormal(data);
+    expect(fit.mu).toBeCloseTo(jStat.mean(logs), 12);
+    expect(fit.sigma).toBeCloseTo(jStat.stdev(logs, false), 12);
+  });
+  it('gives the same KS distance as @stdlib/stats-kstest', () => {
+    const data = logNormalSample(3000, 5, 0.8, 0.3);
+    const fit = fitLogNormal(data);
+    const sorted = Float64Array.from(data).sort();
+    const reference = kstest(data, 'lognormal', fit.mu, fit.sigma).statistic;
+    // our normal CDF is good to ~1e-7, so the distances agree to that
+    expect(Math.abs(ksDistanceLogNormal(sorted, fit.mu, fit.sigma) - reference)).toBeLessThan(1e-6);
+  });
+  it('finds a large KS distance for data that are not log-normal', () => {
+    const bimodal = [...logNormalSample(1000, 6, 0.5, 0.05), ...logNormalSample(1000, 7, 1.5, 0.05)];
+    const fit = fitLogNormal(bimodal);
+    expect(ksDistanceLogNormal(Float64Array.from(bimodal).sort(), fit.mu, fit.sigma)).toBeGreaterThan(0.15);
+  });
+});
+
+describe('normal CDF', () => {
+  it('agrees with @stdlib to 2e-7 across the range', () => {
+    for (let x = -8; x <= 8; x += 0.01) expect(Math.abs(normalCdf(x) - stdlibNormalCdf(x, 0, 1))).toBeLessThan(2e-7);
+  });
+  it('gives P(ε < 0.6″) = 32.98 % for a log-normal with median 0.70″ and σ 0.35', () => {
+    // seeing-physics.md §9 #20
+    expect(normalCdf((Math.log(0.6) - Math.log(0.7)) / 0.35)).toBeCloseTo(0.3298, 4);
+  });
+});
+
+describe('Mann–Whitney', () => {
+  it('matches SciPy on two small samples with ties', () => {
+    // scipy.stats.mannwhitneyu(a, b, use_continuity=True, alternative="two-sided", method="asymptotic"), SciPy 1.17.1: U = 9.0, p = 0.03166243498948498
+    const result = mannWhitney([0.61, 0.72, 0.55, 0.8, 0.72, 0.66, 0.91, 0.58], [0.75, 0.88, 0.72, 0.95, 1.02, 0.83, 0.79]);
+    expect(result.u).toBe(9);
+    expect(result.pValue).toBeCloseTo(0.03166243498948498, 6);
+    expect(result.z).toBeLessThan(0);
+  });
+  it('matches SciPy on fully separated samples', () => {
+    // same SciPy call on [1, 2, 3] vs [4, 5, 6]: U = 0, p = 0.08085559837005224
+    const result = mannWhitney([1, 2, 3], [4, 5, 6]);
+    expect(result.u).toBe(0);
+    expect(result.pValue).toBeCloseTo(0.08085559837005224, 6);
+  });
+  it('gives p = 1 when every value is equal', () => {
+    expect(mannWhitney([1, 1], [1, 1, 1]).pValue).toBe(1);
+  });
+});
+
+describe('radix argsort', () => {
+  it('orders values exactly like a comparison sort, ties kept in input order', () => {
+    const random = createRandom(8);
+    const values = Float64Array.from({ length: 20000 }, () => (random() < 0.1 ? 0.5 : random() * 3));
+    const order = argsortPositive(values);
+    const expected = Array.from(values.keys()).sort((left, right) => (values[left] ?? 0) - (values[right] ?? 0) || left - right);
+    expect(Array.from(order)).toEqual(expected);
+  });
+});
+
+/** A replicate's pooled median computed the slow, obvious way: copy every drawn night's values and sort. */
+function naiveReplicateMedians(groups: number[][], replicates: number, seed: number): number[] {
+  const random = createRandom(seed);
+  const medians: number[] = [];
+  for (let replicate = 0; replicate < replicates; replicate += 1) {
+    const pooled: number[] = [];
+    const draws = new Array<number>(groups.length).fill(0);
+    for (let draw = 0; draw < groups.length; draw += 1) {
+      const group = Math.floor(random() * groups.length);
+      draws[group] = (draws[group] ?? 0) + 1;
+    }
+    groups.forEach((values, group) => {
+      for (let copy = 0; copy < (draws[group] ?? 0); copy += 1) pooled.push(...values);
+    });
+    medians.push(jStat.percentile(pooled, 0.5));
+  }
+  return medians;
+}
+
+function toGrouped(groups: number[][]): { values: Float64Array; offsets: Int32Array } {
+  const offsets = new Int32Array(groups.length + 1);
+  groups.forEach((values, group) => (offsets[group + 1] = (offsets[group] ?? 0) + values.length));
+  return { values: Float64Array.from(groups.flatMap((values) => [...values].sort((left, right) => left - right))), offsets };
+}
+
+describe('night bootstrap of the median', () => {
+  it('equals the materialised replicate medians exactly, ties included', () => {
+    const random = createRandom(9);
+    for (const [groupCount, maxSize] of [[1, 5], [2, 3], [7, 40], [60, 30], [300, 9]] as const) {
+      // values on a coarse grid so that ties across nights are common
+      const groups = Array.from({ length: groupCount }, () => Array.from({ length: 1 + Math.floor(random() * maxSize) }, () => Math.round(random() * 40) / 20 + 0.05));
+      const fast = bootstrapPooledMedian(toGrouped(groups), { replicates: 60, seed: groupCount });
+      const slow = naiveReplicateMedians(groups, 60, groupCount);
+      slow.forEach((median, index) => expect(fast[index]).toBeCloseTo(median, 12));
+    }
+  });
+  it('is reproducible with a fixed seed and changes with another', () => {
+    const groups = toGrouped(Array.from({ length: 30 }, (_, night) => logNormalSample(50, night)));
+    expect(Array.from(bootstrapPooledMedian(groups, { replicates: 200, seed: 42 }))).toEqual(Array.from(bootstrapPooledMedian(groups, { replicates: 200, seed: 42 })));
+    expect(Array.from(bootstrapPooledMedian(groups, { replicates: 200, seed: 43 }))).not.toEqual(Array.from(bootstrapPooledMedian(groups, { replicates: 200, seed: 42 })));
+  });
+  it('is much wider than a per-sample bootstrap when nights differ strongly', () => {
+    // 40 nights, each with its own level (log-normal scatter 0.3) and 200 samples scattered little around it
+    const random = createRandom(10);
+    const nights = Array.from({ length: 40 }, () => {
+      const level = 0.75 * Math.exp(0.3 * normalDeviate(random));
+      return Array.from({ length: 200 }, () => level * Math.exp(0.05 * normalDeviate(random)));
+    });
+    const width = (medians: Float64Array): number => {
+      const sorted = Float64Array.from(medians).sort();
+      return percentileSorted(sorted, 0.975) - percentileSorted(sorted, 0.025);
+    };
+    const byNight = width(bootstrapPooledMedian(toGrouped(nights), { replicates: 1000, seed: 1 }));
+    // every sample its own block = the ordinary per-sample bootstrap
+    const bySample = width(bootstrapPooledMedian(toGrouped(nights.flat().map((value) => [value])), { replicates: 1000, seed: 1 }));
+    expect(byNight).toBeGreaterThan(4 * bySample);
+  });
+  it('sortWithGroups tags every sorted value with its group', () => {
+    const grouped = toGrouped([[0.3, 0.9], [0.5], [0.1, 0.7]]);
+    const { sorted, groupOf } = sortWithGroups(grouped.values, grouped.offsets);
+    expect(Array.from(sorted)).toEqual([0.1, 0.3, 0.5, 0.7, 0.9]);
+    expect(Array.from(groupOf)).toEqual([2, 0, 1, 2, 0]);
+  });
+});

@@ -23,6 +23,7 @@ export async function createContext(env: Env): Promise<AppContext> {
   const db = await openDatabase(env.dataDir);
   const lucia = createLucia(db.sqlite, { secureCookies: env.NODE_ENV === "production" });
   const samples = new SampleCache(db.sqlite);
+  let closing: Promise<void> | undefined;
   const ingest = new IngestQueue(db, env.dataDir, samples, env.NODE_ENV === "test");
   const context: AppContext = {
     env,
@@ -30,9 +31,10 @@ export async function createContext(env: Env): Promise<AppContext> {
     lucia,
     ingest,
     samples,
-    async close() {
-      await ingest.stop();
-      await db.close();
+    close: () => {
+      // Idempotent: a test may close a context early (a simulated restart) and again in afterAll.
+      closing ??= ingest.stop().then(() => db.close());
+      return closing;
     },
   };
   for (const step of startupSteps) await step(context);

@@ -17,8 +17,10 @@ export const SAME_ORIGIN = { Origin: "http://calmcrest.test", Host: "calmcrest.t
  * A fresh server on a fresh temporary data directory, with the demo users (and, if asked, the demo scenario).
  * Removed after the test file. Never touches ./data.
  */
-export async function createTestServer(options: { seed?: "users" | "full" | "none"; env?: Record<string, string> } = {}) {
-  const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-test-"));
+export async function createTestServer(options: { seed?: "users" | "full" | "none"; env?: Record<string, string>; dataDir?: string } = {}) {
+  // A given dataDir reopens an existing data directory (a restart); its first owner removes it.
+  const ownsDataDir = options.dataDir === undefined;
+  const dataDir = options.dataDir ?? mkdtempSync(join(tmpdir(), "calmcrest-test-"));
   const env = parseEnv({
     NODE_ENV: "test",
     CALMCREST_DATA_DIR: dataDir,
@@ -30,7 +32,7 @@ export async function createTestServer(options: { seed?: "users" | "full" | "non
   const app: Express = createApp(context);
   afterAll(async () => {
     await context.close();
-    rmSync(dataDir, { recursive: true, force: true });
+    if (ownsDataDir) rmSync(dataDir, { recursive: true, force: true });
   });
   return { app, context, dataDir };
 }

@@ -1,5 +1,7 @@
 import { open } from "node:fs/promises";
+import { Readable } from "node:stream";
 import { LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { AppContext } from "../context";
 import type { CampaignRow } from "../access/access.server";
 import { recordAudit } from "../audit/audit.server";
@@ -38,6 +40,24 @@ async function readHead(path: string): Promise<string> {
   }
 }
 
+/** Thrown by the header check's handlers to stop reading once the first data row shows the file is readable. */
+class HeaderChecked extends Error {}
+
+/**
+ * Reads the start of the file through the same streaming reader the ingest uses, stopping at the first data
+ * row: binary files, empty files and mappings that cannot work throw the engine's LogFormatError (with its line).
+ */
+async function checkHeader(head: string, monitor: MonitorSettings, mapping: ColumnMapping | undefined): Promise<void> {
+  const stop = () => {
+    throw new HeaderChecked();
+  };
+  try {
+    await streamLog(Readable.from([head]), { monitor, ...(mapping ? { mapping } : {}) }, { onSample: stop, onReject: stop });
+  } catch (error) {
+    if (!(error instanceof HeaderChecked)) throw error;
+  }
+}
+
 export type AcceptResult = { kind: "queued"; uploadId: number } | { kind: "duplicate"; existing: UploadRow };
 
 /**
@@ -56,13 +76,10 @@ export async function acceptUpload(
     // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
     let mapping: ColumnMapping;
     try {
-      const preview = previewLog(await readHead(file.path), { monitor: monitorOf(campaign), maxRows: 0, ...(input.mapping ? { mapping: input.mapping } : {}) });
-      if (preview.mappingProblems.length > 0) {
-        throw new HttpError(400, "unusable_mapping", `The file cannot be read with this mapping: ${preview.mappingProblems.join(" ")}`, {
-          mapping: preview.mappingProblems,
-        });
-      }
-      mapping = input.mapping ?? preview.proposedMapping;
+      const head = await readHead(file.path);
+      await checkHeader(head, monitorOf(campaign), input.mapping);
+      // Store the mapping actually used: the one sent, or the engine's proposal from the headers.
+      mapping = input.mapping ?? previewLog(head, { monitor: monitorOf(campaign), maxRows: 0 }).proposedMapping;
     } catch (error) {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
       throw error;

@@ -122,7 +122,7 @@ function naiveReplicateMedians(groups: number[][], replicates: number, seed: num
   const medians: number[] = [];
   for (let replicate = 0; replicate < replicates; replicate += 1) {
     const pooled: number[] = [];
-    const draws = new Array<number>(groups.length).fill(0);
+    const draws = Array.from({ length: groups.length }, () => 0);
     for (let draw = 0; draw < groups.length; draw += 1) {
       const group = Math.floor(random() * groups.length);
       draws[group] = (draws[group] ?? 0) + 1;

@@ -1,0 +1,109 @@
+import { describe, expect, it } from 'vitest';
+// @ts-expect-error jstat ships no type declarations; used only as an outside reference in tests
+import jStatModule from 'jstat';
+import { createRandom, normalDeviate } from '../stats/random.js';
+import { compareSeeing } from './compareSeeing.js';
+import { nightLabel } from './nightLabel.js';
+import { summarizeSeeing, type SampleColumns } from './summarizeSeeing.js';
+
+const jStat = (jStatModule as { jStat: { percentile(values: number[], fraction: number): number } }).jStat;
+const HOUR_MS = 3_600_000;
+
+/** An invented campaign: nights with their own level and a wander inside each night. */
+function campaign(seed: number, nights: number, medianArcsec: number, longitudeDeg = 0): SampleColumns {
+  const random = createRandom(seed);
+  const times: number[] = [];
+  const seeing: number[] = [];
+  for (let night = 0; night < nights; night += 1) {
+    const level = medianArcsec * Math.exp(0.25 * normalDeviate(random));
+    // local 20:00 to 04:00 every 5 minutes
+    const eveningMs = Date.UTC(2025, 0, 1 + night, 20) - (longitudeDeg / 15) * HOUR_MS;
+    for (let step = 0; step < 96; step += 1) {
+      times.push(eveningMs + step * 5 * 60_000);
+      seeing.push(level * Math.exp(0.1 * normalDeviate(random)));
+    }
+  }
+  return { timeMs: Float64Array.from(times), seeingArcsec: Float64Array.from(seeing) };
+}
+
+describe('night labels', () => {
+  it('name a night by the local date of its evening', () => {
+    expect(nightLabel(Date.parse('2025-03-02T03:00:00Z'))).toBe('2025-03-01');
+    expect(nightLabel(Date.parse('2025-03-01T12:00:00Z'))).toBe('2025-03-01');
+    expect(nightLabel(Date.parse('2025-03-01T11:59:59Z'))).toBe('2025-02-28');
+    // at 70° W local solar time is UTC − 4 h 40 min: 03:00 UTC is 22:20 local on 1 March
+    expect(nightLabel(Date.parse('2025-03-02T03:00:00Z'), -70)).toBe('2025-03-01');
+    // 16:00 UTC is 11:20 local: still the night that began on 28 February
+    expect(nightLabel(Date.parse('2025-03-01T16:00:00Z'), -70)).toBe('2025-02-28');
+    // at 150° E local time is UTC + 10 h: 01:00 UTC is 11:00 local, before local noon
+    expect(nightLabel(Date.parse('2025-03-02T01:00:00Z'), 150)).toBe('2025-03-01');
+  });
+});
+
+describe('summarizeSeeing', () => {
+  it('gives null for no samples', () => {
+    expect(summarizeSeeing({ timeMs: new Float64Array(0), seeingArcsec: new Float64Array(0) })).toBeNull();
+  });
+  it('reproduces the reference data set: percentiles, log-normal fit, fraction below 0.6″', () => {
+    // seeing-physics.md §9 #21
+    const seeing = Float64Array.from([0.45, 0.52, 0.58, 0.61, 0.66, 0.7, 0.74, 0.81, 0.93, 1.2]);
+    const timeMs = Float64Array.from(seeing, (_, index) => Date.UTC(2025, 0, 1, 22) + index * 60_000);
+    const summary = summarizeSeeing({ timeMs, seeingArcsec: seeing });
+    expect(summary).not.toBeNull();
+    if (summary === null) return;
+    expect([summary.seeing.p10, summary.seeing.p25, summary.seeing.median, summary.seeing.p75, summary.seeing.p90].map((value) => Number(value.toFixed(6)))).toEqual([0.513, 0.5875, 0.68, 0.7925, 0.957]);
+    expect(summary.lognormal.mu).toBeCloseTo(-0.3666, 4);
+    expect(summary.lognormal.sigma).toBeCloseTo(0.2713, 4);
+    expect(summary.fractionBelow['0.6']).toBeCloseTo(0.3, 12);
+    expect(Object.keys(summary.fractionBelow)).toEqual(['0.6', '0.8', '1.0']);
+    expect(summary.nights).toBe(1);
+    // one night: every replicate is the night itself, so the interval collapses on the median
+    expect(summary.seeing.medianCi95[0]).toBeCloseTo(0.68, 12);
+    expect(summary.seeing.medianCi95[1]).toBeCloseTo(0.68, 12);
+  });
+  it('gives r0 percentiles equal to those of the per-sample r0 values (checked with jstat)', () => {
+    const columns = campaign(1, 20, 0.8);
+    const summary = summarizeSeeing(columns);
+    const r0Values = Array.from(columns.seeingArcsec, (seeing) => (0.98 * 500e-9 * (180 * 3600 / Math.PI) * 100) / seeing);
+    expect(summary?.r0.p10).toBeCloseTo(jStat.percentile(r0Values, 0.1), 9);
+    expect(summary?.r0.median).toBeCloseTo(jStat.percentile(r0Values, 0.5), 9);
+    expect(summary?.r0.p90).toBeCloseTo(jStat.percentile(r0Values, 0.9), 9);
+    expect(summary?.seeing.median).toBeCloseTo(jStat.percentile(Array.from(columns.seeingArcsec), 0.5), 12);
+  });
+  it('breaks down by night, month and local hour with the site longitude', () => {
+    const columns = campaign(2, 45, 0.8, -70);
+    const summary = summarizeSeeing(columns, { longitudeDeg: -70, bootstrapReplicates: 200 });
+    expect(summary?.nights).toBe(45);
+    expect(summary?.nightly[0]?.night).toBe('2025-01-01');
+    expect(summary?.nightly.every((night) => night.samples === 96)).toBe(true);
+    expect(summary?.monthly.map((month) => [month.month, month.samples])).toEqual([['2025-01', 31 * 96], ['2025-02', 14 * 96]]);
+    expect(summary?.hourly.map((hour) => hour.hour)).toEqual([20, 21, 22, 23, 0, 1, 2, 3]);
+    expect(summary?.hourly.reduce((sum, hour) => sum + hour.samples, 0)).toBe(45 * 96);
+    const histogramTotal = summary?.histogram.reduce((sum, bin) => sum + bin.count, 0);
+    expect(histogramTotal).toBe(45 * 96);
+    expect(summary?.cdf.at(-1)?.fraction).toBe(1);
+    const [low, high] = summary?.seeing.medianCi95 ?? [0, 0];
+    expect(low).toBeLessThan(summary?.seeing.median ?? 0);
+    expect(high).toBeGreaterThan(summary?.seeing.median ?? 0);
+  });
+  it('is reproducible with the same seed', () => {
+    const columns = campaign(3, 30, 0.7);
+    expect(summarizeSeeing(columns, { seed: 5 })?.seeing.medianCi95).toEqual(summarizeSeeing(columns, { seed: 5 })?.seeing.medianCi95);
+  });
+});
+
+describe('compareSeeing', () => {
+  it('finds a real difference between a 0.65″ and a 0.90″ site', () => {
+    const comparison = compareSeeing(campaign(4, 60, 0.65), campaign(5, 60, 0.9));
+    expect(comparison.medianDifferenceArcsec).toBeLessThan(-0.15);
+    expect(comparison.ci95[1]).toBeLessThan(0);
+    expect(comparison.mannWhitney.pValue).toBeLessThan(0.001);
+    expect(comparison.mannWhitney.nightsA).toBe(60);
+  });
+  it('does not call two draws of the same site different', () => {
+    const comparison = compareSeeing(campaign(6, 60, 0.8), campaign(7, 60, 0.8));
+    expect(comparison.ci95[0]).toBeLessThan(0);
+    expect(comparison.ci95[1]).toBeGreaterThan(0);
+    expect(comparison.mannWhitney.pValue).toBeGreaterThan(0.05);
+  });
+});

@@ -1,0 +1,155 @@
+// Benchmark of the server's ingest and summary paths (issue 4, Performance): a seeded native-format log through
+// the upload API of a real server process, from request to status `done`, with the server's peak memory; then
+// the site summary over the stored samples, cold and warm. Run through bench/run.ts (`npm run bench`).
+import { spawn, type ChildProcess } from "node:child_process";
+import { existsSync, mkdirSync, mkdtempSync, openAsBlob, readFileSync, rmSync, statSync } from "node:fs";
+import { createServer } from "node:net";
+import { tmpdir } from "node:os";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
+
+const root = join(dirname(fileURLToPath(import.meta.url)), "..");
+const serverDir = join(root, "apps/server");
+const PASSWORD = "bench-password-1";
+const SITE = { latitudeDeg: -25.9, longitudeDeg: -68.6, elevationM: 4200 };
+const MONITOR = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: "z-tilt" as const };
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once("error", reject);
+    probe.listen(0, "127.0.0.1", () => {
+      const address = probe.address();
+      const port = typeof address === "object" && address ? address.port : 0;
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+/** The seeded bench log in the native format, generated once per row count and reused. */
+async function benchLog(rows: number): Promise<string> {
+  const directory = join(tmpdir(), "calmcrest-bench");
+  mkdirSync(directory, { recursive: true });
+  const path = join(directory, `ingest-${rows}.csv`);
+  if (existsSync(path) && statSync(path).size > 0) return path;
+  await writeSyntheticLog(path, {
+    seed: 20260401,
+    site: SITE,
+    startDate: "2025-01-01",
+    // About 420 night-time rows a night at 1-minute cadence after weather losses; maxRows stops at `rows`.
+    nights: Math.ceil(rows / 250) + 10,
+    medianSeeingArcsec: 0.8,
+    monitor: MONITOR,
+    badRowEvery: 50_000,
+    maxRows: rows,
+  });
+  return path;
+}
+
+/** Peak resident memory of a process in MB (VmHWM from /proc; Linux only). */
+function peakRssMb(pid: number): number {
+  const status = readFileSync(`/proc/${pid}/status`, "utf8");
+  const match = /VmHWM:\s+(\d+)\s+kB/.exec(status);
+  return match ? Number(match[1]) / 1024 : Number.NaN;
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((left, right) => left - right);
+  const middle = Math.floor(sorted.length / 2);
+  return sorted.length % 2 === 1 ? (sorted[middle] ?? Number.NaN) : ((sorted[middle - 1] ?? 0) + (sorted[middle] ?? 0)) / 2;
+}
+
+async function waitForHealth(base: string, server: ChildProcess, timeoutMs: number): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`);
+    try {
+      const response = await fetch(`${base}/api/health`);
+      if (response.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+  throw new Error("the server did not start in time");
+}
+
+export async function run({ rows }: { rows: number }): Promise<Record<string, number | string>> {
+  const logPath = await benchLog(rows);
+  const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-data-"));
+  const port = await freePort();
+  const base = `http://127.0.0.1:${port}`;
+  // One node process (tsx as a loader, not its CLI wrapper), so its /proc status is the server's own memory.
+  const server = spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+    cwd: serverDir,
+    env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
+  try {
+    await waitForHealth(base, server, 30_000);
+    const origin = { Origin: base };
+    const signIn = await fetch(`${base}/api/auth/sign-in`, {
+      method: "POST",
+      headers: { ...origin, "Content-Type": "application/json" },
+      body: JSON.stringify({ email: "lead@calmcrest.test", password: PASSWORD }),
+    });
+    if (!signIn.ok) throw new Error(`sign-in failed: ${signIn.status}`);
+    const cookie = (signIn.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
+    const headers = { ...origin, Cookie: cookie };
+    const json = async (path: string, body: unknown) => {
+      const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
+      if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
+      return (await response.json()) as { id: number };
+    };
+    const site = await json("/api/sites", { name: "Bench Ridge", latitude: SITE.latitudeDeg, longitude: SITE.longitudeDeg, elevationM: SITE.elevationM });
+    const campaign = await json(`/api/sites/${site.id}/campaigns`, { name: "Bench campaign", monitor: MONITOR });
+
+    const form = new FormData();
+    form.append("file", await openAsBlob(logPath), "bench.csv");
+    const startedMs = performance.now();
+    const posted = await fetch(`${base}/api/campaigns/${campaign.id}/uploads`, { method: "POST", headers, body: form });
+    if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
+    const { upload } = (await posted.json()) as { upload: { id: number } };
+    let status: { status: string; samples: { accepted: number; read: number }; error: string | null };
+    for (;;) {
+      status = (await (await fetch(`${base}/api/uploads/${upload.id}`, { headers })).json()) as typeof status;
+      if (status.status !== "queued" && status.status !== "ingesting") break;
+      await new Promise((resolve) => setTimeout(resolve, 20));
+    }
+    const ingestSeconds = (performance.now() - startedMs) / 1000;
+    if (status.status !== "done") throw new Error(`ingest ended ${status.status}: ${status.error ?? ""}`);
+    const peakMb = peakRssMb(server.pid ?? 0);
+
+    const summaryMs = async () => {
+      const begin = performance.now();
+      const response = await fetch(`${base}/api/sites/${site.id}/summary`, { headers });
+      if (!response.ok) throw new Error(`summary: ${response.status}`);
+      await response.arrayBuffer();
+      return performance.now() - begin;
+    };
+    const coldMs = await summaryMs();
+    const warm: number[] = [];
+    for (let index = 0; index < 5; index += 1) warm.push(await summaryMs());
+
+    return {
+      ingestRows: status.samples.read,
+      ingestSamplesStored: status.samples.accepted,
+      ingestFileMb: Math.round((statSync(logPath).size / 1024 / 1024) * 10) / 10,
+      ingestRequestToDoneS: Math.round(ingestSeconds * 100) / 100,
+      ingestServerPeakRssMb: Math.round(peakMb),
+      siteSummaryColdMs: Math.round(coldMs),
+      siteSummaryWarmMedianMs: Math.round(median(warm)),
+    };
+  } finally {
+    server.kill("SIGTERM");
+    await new Promise((resolve) => server.once("exit", resolve));
+    rmSync(dataDir, { recursive: true, force: true });
+  }
+}
+
+// Run alone: node_modules/.bin/tsx bench/ingest.ts [rows]
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  const rows = Number(process.argv[2] ?? 1_000_000);
+  console.log(await run({ rows }));
+}

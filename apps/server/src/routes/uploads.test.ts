@@ -148,6 +148,21 @@ describe("uploading a log", () => {
   });
 });
 
+describe("changes that would make stored samples wrong", () => {
+  it("refuses to move a site or change a campaign's monitor once uploads exist (409)", async () => {
+    const { site, campaign } = await createSiteAndCampaign(lead, monitor);
+    await waitForUpload(lead, (await postUpload(lead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv"))).body.upload.id);
+    const moved = await lead.patch(`/api/sites/${site.id}`).set(SAME_ORIGIN).send({ latitude: -20 });
+    expect(moved.status).toBe(409);
+    expect(moved.body.error.code).toBe("site_has_samples");
+    const renamed = await lead.patch(`/api/sites/${site.id}`).set(SAME_ORIGIN).send({ name: "Renamed Ridge" });
+    expect(renamed.status).toBe(200);
+    const remonitored = await lead.patch(`/api/campaigns/${campaign.id}`).set(SAME_ORIGIN).send({ monitor: { ...monitor, apertureMm: 50 } });
+    expect(remonitored.status).toBe(409);
+    expect(remonitored.body.error.code).toBe("campaign_has_uploads");
+  });
+});
+
 describe("summaries", () => {
   it("agree with the analyzer's JSON for the same file and site", async () => {
     const { campaign } = await createSiteAndCampaign(lead, monitor);

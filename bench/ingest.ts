@@ -12,7 +12,9 @@ import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
 const PASSWORD = "bench-password-1";
-const SITE = { latitudeDeg: -25.9, longitudeDeg: -68.6, elevationM: 4200 };
+// The invented site and monitor of bench/analyzer.ts, so both benchmarks read the same log the same way.
+const SITE = { latitudeDeg: -27.42, longitudeDeg: -70.15, elevationM: 2650 };
+const SEED = 20_250_301;
 const MONITOR = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: "z-tilt" as const };
 
 async function freePort(): Promise<number> {
@@ -27,23 +29,18 @@ async function freePort(): Promise<number> {
   });
 }
 
-/** The seeded bench log in the native format, generated once per row count and reused. */
+/**
+ * The seeded bench log in the native format: the same file bench/analyzer.ts analyses (same seed, site, monitor
+ * and options, so whichever benchmark runs first writes it and the other reuses it).
+ */
 async function benchLog(rows: number): Promise<string> {
-  const directory = join(tmpdir(), "calmcrest-bench");
-  mkdirSync(directory, { recursive: true });
-  const path = join(directory, `ingest-${rows}.csv`);
+  const outDir = join(root, "bench", "out");
+  mkdirSync(outDir, { recursive: true });
+  const path = join(outDir, `native-${rows}-rows-seed-${SEED}.csv`);
   if (existsSync(path) && statSync(path).size > 0) return path;
-  await writeSyntheticLog(path, {
-    seed: 20260401,
-    site: SITE,
-    startDate: "2025-01-01",
-    // About 420 night-time rows a night at 1-minute cadence after weather losses; maxRows stops at `rows`.
-    nights: Math.ceil(rows / 250) + 10,
-    medianSeeingArcsec: 0.8,
-    monitor: MONITOR,
-    badRowEvery: 50_000,
-    maxRows: rows,
-  });
+  const nights = Math.ceil(rows / 300) + 30;
+  const written = await writeSyntheticLog(path, { seed: SEED, site: SITE, startDate: "2021-01-01", nights, medianSeeingArcsec: 0.75, monitor: MONITOR, badRowEvery: 997, maxRows: rows });
+  if (written.rows !== rows) throw new Error(`the synthetic log has ${written.rows} rows, wanted ${rows}`);
   return path;
 }
 
@@ -75,7 +72,7 @@ async function waitForHealth(base: string, server: ChildProcess, timeoutMs: numb
   throw new Error("the server did not start in time");
 }
 
-export async function run({ rows }: { rows: number }): Promise<Record<string, number | string>> {
+export async function run({ rows }: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
   const logPath = await benchLog(rows);
   const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-data-"));
   const port = await freePort();

@@ -11,6 +11,7 @@ export interface BenchmarkModule {
 
 const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   analyzer: () => import('./analyzer.ts'),
+  ingest: () => import('./ingest.ts'),
 };
 
 function parseFlags(argv: readonly string[]): { rows: number; runs: number; out: string; only: string[] } {

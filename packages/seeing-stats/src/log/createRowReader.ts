@@ -101,10 +101,12 @@ function readNumber(fields: readonly string[], index: number, decimalComma: bool
   if (index < 0) return MISSING;
   const text = fields[index];
   if (text === undefined) return MISSING;
-  const trimmed = text.trim();
-  if (trimmed === '') return MISSING;
-  let value = Number(trimmed);
+  // Number() ignores surrounding white space itself, but reads an empty or blank field as 0: check only then.
+  let value = Number(text);
+  if (value === 0 && text.trim() === '') return MISSING;
   if (Number.isNaN(value)) {
+    const trimmed = text.trim();
+    if (trimmed === '') return MISSING;
     if (decimalComma && trimmed.includes(',')) value = Number(trimmed.replace(',', '.'));
     if (Number.isNaN(value) && /^[+-]?(nan|inf|infinity)$/i.test(trimmed)) {
       lastFieldWasNonFinite = true;

@@ -68,5 +68,18 @@ export function parseUtcTime(raw: string): number {
       return Number.NaN;
     }
   }
-  return Date.UTC(year, month - 1, day, hour, minute) + milliseconds - offsetMinutes * 60_000;
+  return daysFromCivil(year, month, day) * 86_400_000 + (hour * 60 + minute - offsetMinutes) * 60_000 + milliseconds;
+}
+
+/**
+ * Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant, "chrono-compatible low-level date
+ * algorithms", days_from_civil): integer arithmetic, several times cheaper than Date.UTC in the row loop.
+ */
+function daysFromCivil(year: number, month: number, day: number): number {
+  const shiftedYear = month <= 2 ? year - 1 : year;
+  const era = Math.floor(shiftedYear / 400);
+  const yearOfEra = shiftedYear - era * 400;
+  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
+  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
+  return era * 146_097 + dayOfEra - 719_468;
 }

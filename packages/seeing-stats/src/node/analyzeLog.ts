@@ -171,7 +171,7 @@ async function openLog(path: string): Promise<NodeJS.ReadableStream> {
       hint: 'Check the path and that the file is readable.',
     });
   }
-  return createReadStream(path, { highWaterMark: 1 << 20 });
+  return createReadStream(path, { highWaterMark: 128 * 1024 });
 }
 
 function emptySummary(): SeeingSummary {

@@ -13,11 +13,11 @@ export interface GroupedValues {
  * Block bootstrap of the pooled median (Efron 1979; whole blocks are resampled because values within a block,
  * here a night, are correlated, as in Künsch 1989): each replicate draws as many groups as there are, with
  * replacement, and takes the type-7 median of the values of all drawn groups, each counted as often as its group
- * was drawn. Exact, without materialising the replicate. The globally sorted values, each tagged with its group,
- * listed with every value repeated by its group's draw count, are the sorted replicate; so the k-th smallest is
- * the first global position where the running weighted count reaches k + 1. The running count at one position is
- * found by binary searches in the drawn groups; from a start near the overall median the search gallops to a
- * bracket and then walks it, adding each position's weight.
+ * was drawn. Exact, without materialising the replicate: the globally sorted values, each tagged with its group
+ * and repeated by its group's draw count, are the sorted replicate, so its k-th smallest value sits at the first
+ * global position where the running weighted count reaches k + 1. Per-group counts are kept at grid positions
+ * every `cell` values; a binary search over the grid (one weighted sum over the drawn groups per step) finds the
+ * cell, and a walk through it, adding each position's weight, finds the position.
  * Needs at least one group with values. Returns the replicate medians in draw order.
  */
 export function bootstrapPooledMedian(
@@ -32,32 +32,33 @@ export function bootstrapPooledMedian(
     throw new SeeingInputError(`replicates must be a positive whole number, got ${String(options.replicates)}`);
   }
   const { sorted, groupOf } = options.sortedWithGroups ?? sortWithGroups(values, offsets);
+
+  // Grid of cumulative per-group counts: gridCounts[g * groupCount + j] = values of group j at positions < g * cell.
+  // The cell grows with the number of groups so the grid stays within about 8 million entries.
+  const cell = Math.max(256, Math.ceil((total * groupCount) / 8_000_000));
+  const gridPoints = Math.ceil(total / cell) + 1;
+  const gridCounts = new Int32Array(gridPoints * groupCount);
+  const running = new Int32Array(groupCount);
+  for (let point = 1; point < gridPoints; point += 1) {
+    const end = Math.min(total, point * cell);
+    for (let position = (point - 1) * cell; position < end; position += 1) {
+      const group = groupOf[position] ?? 0;
+      running[group] = (running[group] ?? 0) + 1;
+    }
+    gridCounts.set(running, point * groupCount);
+  }
+
   const random = createRandom(options.seed);
   const drawCounts = new Int32Array(groupCount);
   const activeGroups = new Int32Array(groupCount);
   const medians = new Float64Array(options.replicates);
-  let activeCount = 0;
-
-  /** Σ over drawn groups of draw count × (values ≤ threshold): the running weighted count up to the last copy of threshold. */
-  const countAtMost = (threshold: number): number => {
-    let count = 0;
-    for (let slot = 0; slot < activeCount; slot += 1) {
-      const group = activeGroups[slot] ?? 0;
-      const start = offsets[group] ?? 0;
-      count += (drawCounts[group] ?? 0) * (upperBound(values, start, offsets[group + 1] ?? 0, threshold) - start);
-    }
-    return count;
-  };
-  /** Last global position holding the same value as position (ties are adjacent). */
-  const lastOfTies = (position: number): number => upperBound(sorted, position, total, sorted[position] ?? 0) - 1;
-
   for (let replicate = 0; replicate < options.replicates; replicate += 1) {
     drawCounts.fill(0);
     for (let draw = 0; draw < groupCount; draw += 1) {
       const group = Math.floor(random() * groupCount);
       drawCounts[group] = (drawCounts[group] ?? 0) + 1;
     }
-    activeCount = 0;
+    let activeCount = 0;
     let pooledSize = 0;
     for (let group = 0; group < groupCount; group += 1) {
       const weight = drawCounts[group] ?? 0;
@@ -67,60 +68,39 @@ export function bootstrapPooledMedian(
         pooledSize += weight * ((offsets[group + 1] ?? 0) - (offsets[group] ?? 0));
       }
     }
+    const weightedCountBefore = (point: number): number => {
+      const base = point * groupCount;
+      let count = 0;
+      for (let slot = 0; slot < activeCount; slot += 1) {
+        const group = activeGroups[slot] ?? 0;
+        count += (drawCounts[group] ?? 0) * (gridCounts[base + group] ?? 0);
+      }
+      return count;
+    };
     const position = (pooledSize - 1) / 2;
     const rank = Math.floor(position); // type-7 median: order statistics rank and rank + 1 (0-based), interpolated
     const target = rank + 1;
 
-    // Find a start position whose running count is below target, near the answer.
-    const step = Math.max(64, activeCount * 8);
-    let start = -1; // position before the walk; its running count is known
-    let startCount = 0;
-    let probe = lastOfTies(Math.min(total - 1, Math.max(0, Math.floor((total - 1) / 2))));
-    let probeCount = countAtMost(sorted[probe] ?? 0);
-    let stride = step;
-    if (probeCount < target) {
-      for (;;) {
-        start = probe;
-        startCount = probeCount;
-        const next = Math.min(total - 1, probe + stride);
-        if (next === probe) break;
-        probe = lastOfTies(next);
-        probeCount = countAtMost(sorted[probe] ?? 0);
-        if (probeCount >= target) break;
-        stride *= 2;
-      }
-    } else {
-      for (;;) {
-        const next = probe - stride;
-        if (next < 0) {
-          start = -1;
-          startCount = 0;
-          break;
-        }
-        probe = lastOfTies(next);
-        probeCount = countAtMost(sorted[probe] ?? 0);
-        if (probeCount < target) {
-          start = probe;
-          startCount = probeCount;
-          break;
-        }
-        stride *= 2;
-      }
+    // Largest grid point whose weighted count of earlier positions is still below target.
+    let low = 0;
+    let high = gridPoints - 1;
+    while (low < high) {
+      const middle = (low + high + 1) >>> 1;
+      if (weightedCountBefore(middle) < target) low = middle;
+      else high = middle - 1;
     }
-
-    // Walk from start, adding each position's weight, to the rank-th and (rank + 1)-th pooled values.
-    let running = startCount;
-    let cursor = start;
-    while (running < target) {
+    let count = weightedCountBefore(low);
+    let cursor = low * cell - 1;
+    while (count < target) {
       cursor += 1;
-      running += drawCounts[groupOf[cursor] ?? 0] ?? 0;
+      count += drawCounts[groupOf[cursor] ?? 0] ?? 0;
     }
     const lowValue = sorted[cursor] ?? Number.NaN;
     let highValue = lowValue;
-    if (position > rank && running < target + 1) {
-      while (running < target + 1) {
+    if (position > rank && count < target + 1) {
+      while (count < target + 1) {
         cursor += 1;
-        running += drawCounts[groupOf[cursor] ?? 0] ?? 0;
+        count += drawCounts[groupOf[cursor] ?? 0] ?? 0;
       }
       highValue = sorted[cursor] ?? Number.NaN;
     }
@@ -143,16 +123,4 @@ export function sortWithGroups(values: Float64Array, offsets: Int32Array): { sor
     groupOf[position] = groupOfIndex[index] ?? 0;
   }
   return { sorted, groupOf };
-}
-
-/** First index in sorted[start, end) whose value is greater than threshold. */
-export function upperBound(sorted: Float64Array, start: number, end: number, threshold: number): number {
-  let low = start;
-  let high = end;
-  while (low < high) {
-    const middle = (low + high) >>> 1;
-    if ((sorted[middle] ?? 0) <= threshold) low = middle + 1;
-    else high = middle;
-  }
-  return low;
 }

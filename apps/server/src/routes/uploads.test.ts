@@ -148,6 +148,25 @@ describe("uploading a log", () => {
   });
 });
 
+describe("the ingest queue", () => {
+  it("ingests one upload at a time, in the order they arrived", async () => {
+    const { campaign } = await createSiteAndCampaign(lead, monitor);
+    const files = ["native-arcsec2.csv", "r0-cm.csv", "wizard-fwhm-airmass.csv"];
+    const ids: number[] = [];
+    for (const file of files) ids.push((await postUpload(lead, campaign.id, join(DATA_SAMPLES, file))).body.upload.id as number);
+    const statuses = [];
+    for (const id of ids) statuses.push(await waitForUpload(lead, id));
+    expect(statuses.map((status) => status.status)).toEqual(["done", "done", "done"]);
+    for (let index = 1; index < statuses.length; index += 1) {
+      const previous = statuses[index - 1];
+      const current = statuses[index];
+      // Each ingest started only after the one before it had finished.
+      expect(Date.parse(current?.startedAt ?? "")).toBeGreaterThanOrEqual(Date.parse(previous?.finishedAt ?? ""));
+    }
+    expect(statuses.every((status) => status.progress === 1)).toBe(true);
+  });
+});
+
 describe("changes that would make stored samples wrong", () => {
   it("refuses to move a site or change a campaign's monitor once uploads exist (409)", async () => {
     const { site, campaign } = await createSiteAndCampaign(lead, monitor);

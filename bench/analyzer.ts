@@ -1,5 +1,6 @@
 // Benchmark: the command-line analyzer on a seeded synthetic log in the native format.
 import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { writeSyntheticLog } from '../packages/seeing-stats/src/node/index.js'; // root scripts have no package of their own
@@ -21,10 +22,7 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     const written = await writeSyntheticLog(logPath, { seed: SEED, site, startDate: '2021-01-01', nights, medianSeeingArcsec: 0.75, monitor, badRowEvery: 997, maxRows: options.rows });
     if (written.rows !== options.rows) throw new Error(`the synthetic log has ${written.rows} rows, wanted ${options.rows}`);
   }
-  const args = [
-    '--import',
-    'tsx',
-    join(root, 'apps', 'analyzer', 'src', 'main.ts'),
+  const analyzerArgs = [
     logPath,
     '--json',
     '--aperture-mm',
@@ -36,13 +34,51 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     '--site-lon',
     String(site.longitudeDeg),
   ];
+  // Two ways to start the same code: through tsx as `npm run analyze` does, and as one esbuild bundle, which
+  // saves tsx's start-up and on-the-fly compiling (esbuild comes with tsx).
+  const bundlePath = join(outDir, 'analyzer.bundle.mjs');
+  const esbuild = createRequire(createRequire(import.meta.url).resolve('tsx'))('esbuild') as {
+    buildSync(options: Record<string, unknown>): unknown;
+  };
+  esbuild.buildSync({
+    entryPoints: [join(root, 'apps', 'analyzer', 'src', 'main.ts')],
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    outfile: bundlePath,
+    logLevel: 'warning',
+    // papaparse is CommonJS and asks for require(); give the bundle one
+    banner: { js: "import { createRequire as createRequireForBundle } from 'node:module'; const require = createRequireForBundle(import.meta.url);" },
+  });
+  const viaTsx = await measure(['--import', 'tsx', join(root, 'apps', 'analyzer', 'src', 'main.ts'), ...analyzerArgs], runs);
+  const bundled = await measure([bundlePath, ...analyzerArgs], runs);
+  if (bundled.medianSeeingArcsec !== viaTsx.medianSeeingArcsec) throw new Error('the bundled analyzer disagrees with the tsx one');
+  return {
+    rows: options.rows,
+    fileMb: Number((statSync(logPath).size / 1e6).toFixed(1)),
+    runs,
+    medianWallMs: viaTsx.medianWallMs,
+    minWallMs: viaTsx.minWallMs,
+    maxWallMs: viaTsx.maxWallMs,
+    peakRssMb: viaTsx.peakRssMb,
+    bundledMedianWallMs: bundled.medianWallMs,
+    bundledPeakRssMb: bundled.peakRssMb,
+    acceptedSamples: viaTsx.acceptedSamples,
+    rejectedRows: viaTsx.rejectedRows,
+    medianSeeingArcsec: viaTsx.medianSeeingArcsec,
+    command: 'node --import tsx apps/analyzer/src/main.ts <log> --json --aperture-mm 60 --baseline-mm 200 --site-lat -27.42 --site-lon -70.15 (bundled: node bench/out/analyzer.bundle.mjs …)',
+  };
+}
+
+async function measure(nodeArgs: string[], runs: number): Promise<{ medianWallMs: number; minWallMs: number; maxWallMs: number; peakRssMb: number; acceptedSamples: number; rejectedRows: number; medianSeeingArcsec: number }> {
   const wallMs: number[] = [];
   const peakRssMb: number[] = [];
   let accepted = 0;
   let rejected = 0;
   let medianSeeing = Number.NaN;
   for (let attempt = 0; attempt < runs; attempt += 1) {
-    const result = await runMeasured(args, root);
+    const result = await runMeasured(nodeArgs, root);
     if (result.exitCode !== 0) throw new Error(`the analyzer exited with ${String(result.exitCode)}: ${result.stderr.slice(0, 500)}`);
     const report = JSON.parse(result.stdout) as { samples: { accepted: number; rejected: number }; seeing: { median: number } };
     accepted = report.samples.accepted;
@@ -52,16 +88,12 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     peakRssMb.push(result.peakRssMb);
   }
   return {
-    rows: options.rows,
-    fileMb: Number((statSync(logPath).size / 1e6).toFixed(1)),
-    runs,
     medianWallMs: Math.round(median(wallMs)),
     minWallMs: Math.round(Math.min(...wallMs)),
     maxWallMs: Math.round(Math.max(...wallMs)),
     peakRssMb: Math.round(Math.max(...peakRssMb)),
     acceptedSamples: accepted,
     rejectedRows: rejected,
-    medianSeeingArcsec: Number(medianSeeing.toFixed(4)),
-    command: 'node --import tsx apps/analyzer/src/main.ts <log> --json --aperture-mm 60 --baseline-mm 200 --site-lat -27.42 --site-lon -70.15',
+    medianSeeingArcsec: Number(medianSeeing.toFixed(6)),
   };
 }

@@ -46,6 +46,12 @@ function fail(message: string, hint: string): number {
   return EXIT_UNUSABLE;
 }
 
+// A reader that stops early (`… | head`) closes the pipe: that is not an error worth a stack trace.
+process.stdout.on('error', (error: NodeJS.ErrnoException) => {
+  if (error.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+  throw error;
+});
+
 main(process.argv.slice(2)).then(
   (code) => {
     process.exitCode = code;

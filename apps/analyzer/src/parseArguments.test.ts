@@ -1,0 +1,46 @@
+import { describe, expect, it } from 'vitest';
+import { parseArguments, UsageError } from './parseArguments.ts';
+
+describe('analyzer arguments', () => {
+  it('read the monitor, site, filters, mapping and output flags', () => {
+    const parsed = parseArguments([
+      'log.csv',
+      '--aperture-mm', '60',
+      '--baseline-mm=200',
+      '--wavelength-nm', '650',
+      '--response', 'g-tilt',
+      '--map', 'seeing_arcsec=FWHM [arcsec]',
+      '--map', 'time_utc=Timestamp (UTC)',
+      '--site-lat', '-27.42',
+      '--site-lon', '-70.15',
+      '--sun-max-deg', '-12',
+      '--max-zenith-deg', '50',
+      '--min-flux', '1000',
+      '--thresholds', '0.5,0.7',
+      '--json',
+    ]);
+    expect(parsed.file).toBe('log.csv');
+    expect(parsed.json).toBe(true);
+    expect(parsed.options.monitor).toEqual({ apertureMm: 60, baselineMm: 200, wavelengthNm: 650, response: 'g-tilt' });
+    expect(parsed.options.mapping).toEqual({ seeing_arcsec: 'FWHM [arcsec]', time_utc: 'Timestamp (UTC)' });
+    expect(parsed.options.site).toEqual({ latitudeDeg: -27.42, longitudeDeg: -70.15 });
+    expect(parsed.options.filters).toEqual({ sunMaxDeg: -12, maxZenithDeg: 50, minFlux: 1000 });
+    expect(parsed.options.summary).toEqual({ thresholdsArcsec: [0.5, 0.7] });
+  });
+  it('default to 500 nm, Z-tilt and no site', () => {
+    const parsed = parseArguments(['log.csv']);
+    expect(parsed.options.monitor).toEqual({ wavelengthNm: 500, response: 'z-tilt' });
+    expect(parsed.options.site).toBeUndefined();
+    expect(parsed.options.mapping).toBeUndefined();
+  });
+  it('refuse what they cannot use, saying what is wrong', () => {
+    expect(() => parseArguments(['log.csv', '--pixel-scale'])).toThrow(new UsageError('Unknown flag --pixel-scale. Run with --help for the list of flags.'));
+    expect(() => parseArguments(['log.csv', '--aperture-mm'])).toThrow(/--aperture-mm needs a number/);
+    expect(() => parseArguments(['log.csv', '--response', 'centroid'])).toThrow(/z-tilt, g-tilt, sarazin-roddier/);
+    expect(() => parseArguments(['log.csv', '--map', 'fwhm=FWHM'])).toThrow(/Calmcrest field name/);
+    expect(() => parseArguments(['a.csv', 'b.csv'])).toThrow(/one log file/);
+    expect(() => parseArguments(['log.csv', '--site-lon', '10'])).toThrow(/both --site-lat and --site-lon/);
+    expect(() => parseArguments(['log.csv', '--thresholds', '0.6,x'])).toThrow(/--thresholds/);
+    expect(() => parseArguments(['log.csv', '--replicates', '2.5'])).toThrow(/--replicates/);
+  });
+});

@@ -1,0 +1,128 @@
+// The command-line analyzer on every sample log (counts documented in data-samples/README.md) and on unusable input.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { repoRoot } from './support/browser.ts';
+
+interface Run {
+  status: number | null;
+  stdout: string;
+  stderr: string;
+}
+
+function analyze(...args: string[]): Run {
+  const result = spawnSync(join(repoRoot, 'node_modules/.bin/tsx'), [join(repoRoot, 'apps/analyzer/src/main.ts'), ...args], { cwd: repoRoot, encoding: 'utf8' });
+  return { status: result.status, stdout: result.stdout, stderr: result.stderr };
+}
+
+interface Samples {
+  read: number;
+  accepted: number;
+  rejected: number;
+  rejectedByReason: Record<string, number>;
+}
+
+function analyzeJson(...args: string[]): { samples: Samples; seeing: { median: number; medianCi95: [number, number]; unit: string; wavelengthNm: number; atZenith: boolean }; r0: { median: number }; nights: number; monthly: unknown[]; hourly: unknown[]; fractionBelow: Record<string, number>; lognormal: { ks: number } } {
+  const run = analyze(...args, '--json');
+  expect(run.status, run.stderr).toBe(0);
+  return JSON.parse(run.stdout) as ReturnType<typeof analyzeJson>;
+}
+
+const sample = (name: string): string => join(repoRoot, 'data-samples', name);
+
+describe('analyzer on the sample logs', () => {
+  it('counts every damaged row of native-arcsec2.csv under its reason, with all filters on', () => {
+    const report = analyzeJson(sample('native-arcsec2.csv'), '--aperture-mm', '60', '--baseline-mm', '200', '--site-lat', '-27.42', '--site-lon', '-70.15', '--min-flux', '1000');
+    expect(report.samples).toMatchObject({ read: 595, accepted: 585, rejected: 10 });
+    expect(report.samples.rejectedByReason).toEqual({ unreadable_time: 2, missing_value: 1, non_physical: 3, zenith_limit: 1, duplicate_time: 1, sun_above_limit: 1, low_flux: 1 });
+    expect(report.seeing).toMatchObject({ unit: 'arcsec', wavelengthNm: 500, atZenith: true });
+    expect(report.nights).toBe(3);
+    const [low, high] = report.seeing.medianCi95;
+    expect(low).toBeLessThanOrEqual(report.seeing.median);
+    expect(high).toBeGreaterThanOrEqual(report.seeing.median);
+    expect(Object.keys(report.fractionBelow)).toEqual(['0.6', '0.8', '1.0']);
+  });
+  it('counts native-arcsec2.csv without the site and flux filters', () => {
+    const report = analyzeJson(sample('native-arcsec2.csv'), '--aperture-mm', '60', '--baseline-mm', '200');
+    expect(report.samples).toMatchObject({ read: 595, accepted: 587, rejected: 8 });
+    expect(report.samples.rejectedByReason).toEqual({ unreadable_time: 2, missing_value: 1, non_physical: 3, zenith_limit: 1, duplicate_time: 1 });
+  });
+  it('reads the tab-separated CRLF pixel² log at 550 nm', () => {
+    const report = analyzeJson(sample('native-px2.tsv'), '--aperture-mm', '50', '--baseline-mm', '180', '--pixel-scale-arcsec', '0.65', '--wavelength-nm', '550');
+    expect(report.samples).toMatchObject({ read: 323, accepted: 323, rejected: 0 });
+    expect(report.nights).toBe(2);
+  });
+  it('maps the semicolon export by its own headers', () => {
+    const report = analyzeJson(sample('wizard-fwhm-airmass.csv'));
+    expect(report.samples).toMatchObject({ read: 400, accepted: 397, rejected: 3 });
+    expect(report.samples.rejectedByReason).toEqual({ non_physical: 1, missing_value: 1, zenith_limit: 1 });
+  });
+  it('reads the r0 log past its comment and blank line', () => {
+    const report = analyzeJson(sample('r0-cm.csv'));
+    expect(report.samples).toMatchObject({ read: 300, accepted: 299, rejected: 1 });
+    expect(report.samples.rejectedByReason).toEqual({ non_physical: 1 });
+    // the r0 median of the report is the r0 of the median seeing (0.98 λ / ε at 500 nm)
+    expect(report.r0.median).toBeCloseTo((0.98 * 500e-9 * 206264.806 * 100) / report.seeing.median, 3);
+  });
+  it('lists rejected rows with their line numbers in the readable output', () => {
+    const run = analyze(sample('native-arcsec2.csv'), '--aperture-mm', '60', '--baseline-mm', '200');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toMatch(/Rows read 595: accepted 587, rejected 8/);
+    expect(run.stdout).toMatch(/line {6}44 {2}missing_value/);
+    expect(run.stdout).toMatch(/line {6}51 {2}duplicate_time/);
+    expect(run.stdout).toMatch(/Seeing at zenith, 500 nm/);
+    expect(run.stdout).toMatch(/median 0\.\d\d″/);
+  });
+  it('with --json prints exactly one JSON document through the npm script', () => {
+    const result = spawnSync('npm', ['run', '--silent', 'analyze', '--', sample('r0-cm.csv'), '--json'], { cwd: repoRoot, encoding: 'utf8' });
+    expect(result.status, result.stderr).toBe(0);
+    expect(() => JSON.parse(result.stdout) as unknown).not.toThrow();
+    expect(result.stdout.trim().split('\n')).toHaveLength(1);
+  });
+});
+
+describe('analyzer on unusable input', () => {
+  const cases: [string, RegExp][] = [
+    ['malformed-binary.bin', /not a text log/],
+    ['malformed-no-time.csv', /No column holds time_utc/],
+    ['malformed-empty.csv', /file is empty/],
+    ['does-not-exist.csv', /Cannot open/],
+  ];
+  for (const [name, message] of cases) {
+    it(`refuses ${name} with one message, a fix and exit code 2`, () => {
+      const run = analyze(sample(name), '--json');
+      expect(run.status).toBe(2);
+      expect(run.stdout).toBe('');
+      expect(run.stderr).toMatch(message);
+      expect(run.stderr).toMatch(/How to fix: /);
+    });
+  }
+  it('explains that variances need the monitor geometry', () => {
+    const run = analyze(sample('native-arcsec2.csv'));
+    expect(run.status).toBe(2);
+    expect(run.stderr).toMatch(/--aperture-mm D --baseline-mm B/);
+  });
+  it('refuses unknown flags and bad values with exit code 2', () => {
+    expect(analyze(sample('r0-cm.csv'), '--frobnicate').stderr).toMatch(/Unknown flag --frobnicate/);
+    const badNumber = analyze(sample('r0-cm.csv'), '--wavelength-nm', 'blue');
+    expect(badNumber.status).toBe(2);
+    expect(badNumber.stderr).toMatch(/--wavelength-nm needs a number/);
+    const negative = analyze(sample('r0-cm.csv'), '--wavelength-nm', '-500');
+    expect(negative.status).toBe(2);
+    expect(negative.stderr).toMatch(/wavelengthNm must be a positive number of nanometres, got -500/);
+    expect(analyze(sample('r0-cm.csv'), '--site-lat', '-27').stderr).toMatch(/both --site-lat and --site-lon/);
+    expect(analyze(sample('r0-cm.csv'), '--max-zenith-deg', '95').status).toBe(2);
+  });
+  it('exits 1 with counts when a readable file has no acceptable row', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'calmcrest-analyzer-'));
+    const path = join(folder, 'all-bad.csv');
+    writeFileSync(path, 'time_utc,seeing_arcsec,zenith_deg\nnot-a-time,0.8,10\n2025-01-01T00:00:00Z,-1,10\n');
+    const run = analyze(path, '--json');
+    expect(run.status).toBe(1);
+    const report = JSON.parse(run.stdout) as { samples: Samples; seeing: { median: number | null } };
+    expect(report.samples.rejectedByReason).toEqual({ unreadable_time: 1, non_physical: 1 });
+    expect(report.seeing.median).toBeNull();
+  });
+});

@@ -1,0 +1,30 @@
+// Runs the whole bench at 10 000 rows so it cannot rot. It checks that results are produced and sane, never speed.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { repoRoot } from './support/browser.ts';
+
+describe('bench smoke run', () => {
+  it('runs every benchmark on 10 000 rows and writes sane results with the machine', () => {
+    const out = join(mkdtempSync(join(tmpdir(), 'calmcrest-bench-')), 'results.json');
+    const run = spawnSync(join(repoRoot, 'node_modules/.bin/tsx'), [join(repoRoot, 'bench/run.ts'), '--rows', '10000', '--runs', '1', '--out', out], { cwd: repoRoot, encoding: 'utf8' });
+    expect(run.status, run.stderr).toBe(0);
+    const results = JSON.parse(readFileSync(out, 'utf8')) as { rows: number; machine: { cpu: string; cores: number; node: string }; benchmarks: Record<string, Record<string, number | string>> };
+    expect(results.rows).toBe(10000);
+    expect(results.machine.cores).toBeGreaterThan(0);
+    expect(results.machine.node).toBe(process.version);
+    const analyzer = results.benchmarks.analyzer ?? {};
+    expect(analyzer.rows).toBe(10000);
+    // the seeded log has one damaged row in every 997, all of them rejected
+    expect(analyzer.acceptedSamples).toBe(10000 - Math.floor(10000 / 997));
+    expect(analyzer.rejectedRows).toBe(Math.floor(10000 / 997));
+    expect(Number(analyzer.medianWallMs)).toBeGreaterThan(0);
+    expect(Number(analyzer.peakRssMb)).toBeGreaterThan(10);
+    expect(Number(analyzer.bundledMedianWallMs)).toBeGreaterThan(0);
+    expect(Number(analyzer.medianSeeingArcsec)).toBeGreaterThan(0.3);
+    expect(Number(analyzer.medianSeeingArcsec)).toBeLessThan(2);
+    for (const [name, figures] of Object.entries(results.benchmarks)) expect(Object.keys(figures).length, name).toBeGreaterThan(0);
+  }, 180_000);
+});

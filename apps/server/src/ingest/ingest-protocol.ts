@@ -13,6 +13,8 @@ export interface IngestJob {
   site: SiteLocation;
   /** Test-only: throw after this many stored samples, to prove a failed ingest leaves nothing behind. */
   failAfterSamples?: number;
+  /** Test-only: hold the open transaction this long after that many samples, to test writers meanwhile. */
+  pauseAfterSamples?: { samples: number; ms: number };
 }
 
 export type ToWorker = { type: "job"; job: IngestJob } | { type: "close" };

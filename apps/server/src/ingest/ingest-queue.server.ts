@@ -25,9 +25,12 @@ export class IngestQueue {
   private worker: Worker | null = null;
   private stopped = false;
   private busy = false;
+  /** Main-thread writes in progress through withWriteSlot; the next ingest waits for them. */
+  private writers = 0;
+  private writeSlotWaiters: (() => void)[] = [];
   private idleWaiters: (() => void)[] = [];
   /** Test-only knobs (ignored outside NODE_ENV=test). */
-  readonly testHooks: { failAfterSamples?: number } = {};
+  readonly testHooks: { failAfterSamples?: number; pauseAfterSamples?: { samples: number; ms: number } } = {};
 
   constructor(
     private readonly db: AppDatabase,
@@ -43,6 +46,23 @@ export class IngestQueue {
     this.waiting.push(uploadId);
     this.progressByUpload.set(uploadId, 0);
     void this.pump();
+  }
+
+  /**
+   * Runs a main-thread write when no ingest holds SQLite's write lock. better-sqlite3 is synchronous, so a write
+   * that met the ingest's lock would wait in SQLite's busy handler and freeze the whole event loop (progress polls
+   * included) until the ingest commits; waiting here instead keeps the server answering. The next ingest starts
+   * only after these writes.
+   */
+  async withWriteSlot<T>(write: () => Promise<T>): Promise<T> {
+    while (this.busy) await new Promise<void>((resolve) => this.writeSlotWaiters.push(resolve));
+    this.writers += 1;
+    try {
+      return await write();
+    } finally {
+      this.writers -= 1;
+      if (this.writers === 0) void this.pump();
+    }
   }
 
   /** 0..1 for a queued or running upload; undefined when it is not in the queue. */
@@ -119,7 +139,7 @@ export class IngestQueue {
 
   private async pump(): Promise<void> {
     // `busy` is set before the first await, so two enqueues in a row cannot start two ingests.
-    if (this.busy) return;
+    if (this.busy || this.writers > 0) return;
     const uploadId = this.stopped ? undefined : this.waiting.shift();
     if (uploadId === undefined) {
       for (const resolve of this.idleWaiters.splice(0)) resolve();
@@ -144,7 +164,9 @@ export class IngestQueue {
       this.busy = false;
       this.progressByUpload.delete(uploadId);
     }
-    void this.pump();
+    // Writers that waited for this ingest go first (their continuations run before setImmediate fires).
+    for (const resolve of this.writeSlotWaiters.splice(0)) resolve();
+    setImmediate(() => void this.pump());
   }
 
   private async jobFor(uploadId: number): Promise<IngestJob | null> {
@@ -172,6 +194,7 @@ export class IngestQueue {
       site: { latitudeDeg: site.latitude, longitudeDeg: site.longitude, elevationM: site.elevation_m },
     };
     if (this.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;
+    if (this.allowTestHooks && this.testHooks.pauseAfterSamples !== undefined) job.pauseAfterSamples = this.testHooks.pauseAfterSamples;
     return job;
   }
 }

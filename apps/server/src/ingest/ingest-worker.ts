@@ -85,6 +85,10 @@ async function ingest(job: IngestJob): Promise<void> {
           if (job.failAfterSamples !== undefined && accepted >= job.failAfterSamples) {
             throw new Error(`Test failure injected after ${accepted} samples.`);
           }
+          if (job.pauseAfterSamples !== undefined && accepted === job.pauseAfterSamples.samples) {
+            // A synchronous sleep inside the open transaction, like a slow disk would cause.
+            Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, job.pauseAfterSamples.ms);
+          }
           const changes = insertSample.run(
             campaignId,
             sample.timeMs,

@@ -167,6 +167,43 @@ describe("the ingest queue", () => {
   });
 });
 
+describe("writes while an ingest holds the write lock", () => {
+  it("keep the server answering: a second upload waits for the running ingest instead of freezing the event loop", async () => {
+    const { campaign } = await createSiteAndCampaign(lead, monitor);
+    context.ingest.testHooks.pauseAfterSamples = { samples: 50, ms: 1500 };
+    const first = (await postUpload(lead, campaign.id, nativeLog)).body.upload.id as number;
+    context.ingest.testHooks.pauseAfterSamples = undefined;
+    // Wait until the worker holds the write lock: a probe connection that does not wait gets SQLITE_BUSY.
+    const probe = new Database(context.db.file);
+    probe.pragma("busy_timeout = 0");
+    for (;;) {
+      try {
+        probe.exec("BEGIN IMMEDIATE");
+        probe.exec("ROLLBACK");
+      } catch (error) {
+        if (error instanceof Error && "code" in error && error.code === "SQLITE_BUSY") break;
+        throw error;
+      }
+      await new Promise((resolve) => setTimeout(resolve, 10));
+    }
+    probe.close();
+    const secondStartedMs = Date.now();
+    const second = postUpload(lead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv")).then((response) => ({ response, ms: Date.now() - secondStartedMs }));
+    await new Promise((resolve) => setTimeout(resolve, 100));
+    const pollStartedMs = Date.now();
+    const poll = await lead.get(`/api/uploads/${first}`);
+    const pollMs = Date.now() - pollStartedMs;
+    expect(poll.body.status).toBe("ingesting");
+    // The poll answered during the held transaction, long before it ends.
+    expect(pollMs).toBeLessThan(500);
+    const { response, ms } = await second;
+    expect(response.status).toBe(202);
+    expect(ms).toBeGreaterThan(pollMs);
+    expect((await waitForUpload(lead, first)).status).toBe("done");
+    expect((await waitForUpload(lead, response.body.upload.id)).status).toBe("done");
+  });
+});
+
 describe("changes that would make stored samples wrong", () => {
   it("refuses to move a site or change a campaign's monitor once uploads exist (409)", async () => {
     const { site, campaign } = await createSiteAndCampaign(lead, monitor);

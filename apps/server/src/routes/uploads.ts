@@ -224,8 +224,10 @@ export function uploadRoutes(context: AppContext): Router {
     await access(rawFilePath(env.dataDir, row.sha256)).catch(() => {
       throw new HttpError(409, "raw_file_missing", "The stored raw file of this upload is missing from the data directory, so it cannot be retried. Upload the file again.");
     });
-    await knex("upload").where({ id: row.id }).update({ status: "queued", error: null, finished_at: null });
-    await recordAudit(knex, { userId: user.id, action: "upload.retry", targetType: "upload", targetId: row.id, details: { previousStatus: row.status, previousError: row.error } });
+    await ingest.withWriteSlot(async () => {
+      await knex("upload").where({ id: row.id }).update({ status: "queued", error: null, finished_at: null });
+      await recordAudit(knex, { userId: user.id, action: "upload.retry", targetType: "upload", targetId: row.id, details: { previousStatus: row.status, previousError: row.error } });
+    });
     ingest.enqueue(row.id);
     const accepted: UploadAccepted = { upload: { id: row.id, status: "queued" } };
     res.status(202).json(accepted);

@@ -91,28 +91,31 @@ export async function acceptUpload(
       return { kind: "duplicate", existing };
     }
     await storeRawFile(context.env.dataDir, file);
-    const [inserted] = await knex("upload")
-      .insert({
-        campaign_id: campaign.id,
-        file_name: input.fileName,
-        size_bytes: file.size,
-        sha256: file.sha256,
-        uploaded_by: input.userId,
-        uploaded_at: new Date().toISOString(),
-        mapping: JSON.stringify(mapping),
-        status: "queued",
-      })
-      .returning<{ id: number }[]>("id");
-    if (!inserted) throw new HttpError(500, "server_error", "The upload could not be recorded. Try again.");
-    await recordAudit(knex, {
-      userId: input.userId,
-      action: "upload.create",
-      targetType: "upload",
-      targetId: inserted.id,
-      details: { campaignId: campaign.id, fileName: input.fileName, sizeBytes: file.size, sha256: file.sha256 },
+    const uploadId = await context.ingest.withWriteSlot(async () => {
+      const [inserted] = await knex("upload")
+        .insert({
+          campaign_id: campaign.id,
+          file_name: input.fileName,
+          size_bytes: file.size,
+          sha256: file.sha256,
+          uploaded_by: input.userId,
+          uploaded_at: new Date().toISOString(),
+          mapping: JSON.stringify(mapping),
+          status: "queued",
+        })
+        .returning<{ id: number }[]>("id");
+      if (!inserted) throw new HttpError(500, "server_error", "The upload could not be recorded. Try again.");
+      await recordAudit(knex, {
+        userId: input.userId,
+        action: "upload.create",
+        targetType: "upload",
+        targetId: inserted.id,
+        details: { campaignId: campaign.id, fileName: input.fileName, sizeBytes: file.size, sha256: file.sha256 },
+      });
+      return inserted.id;
     });
-    context.ingest.enqueue(inserted.id);
-    return { kind: "queued", uploadId: inserted.id };
+    context.ingest.enqueue(uploadId);
+    return { kind: "queued", uploadId };
   } catch (error) {
     // storeRawFile moved the file away if it got that far; otherwise drop the temporary copy.
     await discardTemporary(file);

@@ -1,5 +1,5 @@
 import { useEffect, useMemo } from "react";
-import { CircleMarker, GeoJSON, MapContainer, TileLayer, Tooltip, useMap } from "react-leaflet";
+import { CircleMarker, GeoJSON, MapContainer, ScaleControl, TileLayer, Tooltip, useMap } from "react-leaflet";
 import { latLngBounds } from "leaflet";
 import type { SiteListItem } from "@calmcrest/contracts";
 import { countryOutlines } from "../lib/basemap";
@@ -17,7 +17,7 @@ function FitToSites({ sites }: { sites: SiteListItem[] }) {
     if (sites.length === 0) return;
     const bounds = latLngBounds(sites.map((site) => [site.latitude, site.longitude] as [number, number]));
     // Candidate sites are often a few kilometres apart: cap the zoom so coastlines and borders give context.
-    map.fitBounds(bounds.pad(0.4), { maxZoom: 8 });
+    map.fitBounds(bounds.pad(0.3), { maxZoom: 9 });
   }, [map, sites]);
   return null;
 }
@@ -57,6 +57,7 @@ export function SiteMap({
         <GeoJSON data={outlines} interactive={false} style={{ color: "#8a9a9f", weight: 1, fillColor: "#f3f1e8", fillOpacity: 1 }} />
       ) : null}
       <FitToSites sites={sites} />
+      <ScaleControl position="bottomright" imperial={false} />
       {sites.map((site) => {
         const highlighted = highlightedSiteId === site.id;
         const median = site.summary?.median;
@@ -65,10 +66,12 @@ export function SiteMap({
             key={site.id}
             center={[site.latitude, site.longitude]}
             radius={highlighted ? 14 : 11}
+            // Leaflet reads the class only when the path is created, so it is a prop here rather than a path option.
+            className={median === undefined ? "site-marker site-marker-empty" : "site-marker"}
             pathOptions={
               median === undefined
-                ? { color: "#1c2733", weight: 2.5, dashArray: "4 3", fill: true, fillColor: "#ffffff", fillOpacity: 0.0, className: "site-marker site-marker-empty" }
-                : { color: "#1c2733", weight: highlighted ? 3 : 1.5, fillColor: seeingColour(median), fillOpacity: 1, className: "site-marker" }
+                ? { color: "#1c2733", weight: 2.5, dashArray: "4 3", fill: true, fillColor: "#ffffff", fillOpacity: 0.0 }
+                : { color: "#1c2733", weight: highlighted ? 3 : 1.5, fillColor: seeingColour(median), fillOpacity: 1 }
             }
             eventHandlers={{
               click: () => onOpen(site.id),

@@ -5,7 +5,7 @@ function Figure({ label, value, detail }: { label: string; value: string; detail
   return (
     <div className="rounded-lg border border-line bg-panel px-4 py-3">
       <dt className="text-sm text-ink-soft">{label}</dt>
-      <dd className="num mt-1 text-left text-2xl font-semibold tracking-tight">{value}</dd>
+      <dd className="mt-1 text-2xl font-semibold tracking-tight tabular-nums">{value}</dd>
       {detail ? <dd className="mt-0.5 text-sm text-ink-soft">{detail}</dd> : null}
     </div>
   );
@@ -15,6 +15,9 @@ function Figure({ label, value, detail }: { label: string; value: string; detail
 export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
   const { samples } = summary;
   const reasons = Object.entries(samples.rejectedByReason).filter(([, count]) => (count ?? 0) > 0);
+  // Seeing measured 2 m and 20 m above a ridge differs a lot: say so when a site pools monitors at different heights.
+  const heights = [...new Set(summary.campaigns.map((campaign) => campaign.heightAboveGroundM))];
+  const wavelengths = [...new Set(summary.campaigns.map((campaign) => campaign.wavelengthNm))];
   return (
     <section aria-labelledby="figures-heading" className="space-y-3">
       <h2 id="figures-heading" className="text-lg font-semibold">
@@ -44,6 +47,13 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
           </span>
         ))}
         {reasons.length > 0 ? "." : ""}
+        {heights.length > 1 ? (
+          <span className="mt-2 block rounded-md bg-warn-pale px-3 py-2 text-warn" role="note">
+            These figures pool {summary.campaigns.length} campaigns with monitors at different heights above the ground (
+            {heights.map((height) => (height === null ? "not recorded" : `${height} m`)).join(", ")}); a lower monitor sees more ground-layer turbulence. Open each campaign for its own figures.
+          </span>
+        ) : null}
+        {wavelengths.length > 1 ? ` Campaigns measured at ${wavelengths.join(" and ")} nm; all figures are scaled to 500 nm.` : null}
         {summary.includesIngestRejections ? " Rows rejected while reading the files are included." : " Rows rejected while reading the files are not included when a date window is set (they have no usable time)."}
       </p>
     </section>

@@ -5,7 +5,8 @@
  * are our own).
  */
 export const SEEING_SCALE_MIN_ARCSEC = 0.4;
-export const SEEING_SCALE_MAX_ARCSEC = 1.6;
+// Candidate sites mostly fall between 0.5″ and 1.2″; a range much wider than that would wash out their differences.
+export const SEEING_SCALE_MAX_ARCSEC = 1.4;
 
 const STOPS: readonly { at: number; rgb: readonly [number, number, number] }[] = [
   { at: 0, rgb: [22, 38, 96] },
@@ -53,4 +54,4 @@ export function contrastRatio(first: string, second: string): number {
 }
 
 /** Tick values for the legend, in arcseconds. */
-export const SEEING_LEGEND_TICKS_ARCSEC = [0.4, 0.6, 0.8, 1.0, 1.2, 1.4, 1.6] as const;
+export const SEEING_LEGEND_TICKS_ARCSEC = [0.4, 0.6, 0.8, 1.0, 1.2, 1.4] as const;

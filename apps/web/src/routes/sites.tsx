@@ -22,7 +22,7 @@ const columns = [
           className="inline-block h-3 w-3 shrink-0 rounded-full border border-ink"
           style={cell.row.original.summary ? { background: seeingColour(cell.row.original.summary.median) } : { borderStyle: "dashed" }}
         />
-        <Link to={`/sites/${cell.row.original.id}`} className="font-semibold text-accent underline-offset-2 hover:underline">
+        <Link to={`/sites/${cell.row.original.id}`} className="whitespace-nowrap font-semibold text-accent underline-offset-2 hover:underline">
           {cell.getValue()}
         </Link>
       </span>
@@ -63,7 +63,7 @@ export function SitesPage() {
             : "Survey leads and administrators add candidate sites; each site then gets a campaign per monitor deployment, and field engineers upload its logs."}
         </Notice>
       ) : (
-        <div className="grid gap-6 xl:grid-cols-[minmax(0,5fr)_minmax(0,6fr)]">
+        <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1.3fr)]">
           <section aria-labelledby="map-heading" className="space-y-3">
             <h2 id="map-heading" className="sr-only">
               Map of sites

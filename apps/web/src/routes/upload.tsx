@@ -235,26 +235,32 @@ export function UploadPage() {
           <label htmlFor="campaign" className="block text-sm font-semibold">
             Campaign the logs belong to
           </label>
-          <select
-            id="campaign"
-            disabled={pending || running}
-            className="mt-1 w-full max-w-xl rounded-md border border-line bg-panel px-3 py-2"
-            aria-invalid={formState.errors.campaignId ? true : undefined}
-            {...register("campaignId", {
-              onChange: (event: React.ChangeEvent<HTMLSelectElement>) => {
-                const next = new URLSearchParams(searchParams);
-                next.set("campaign", event.target.value);
-                setSearchParams(next, { replace: true });
-              },
-            })}
-          >
-            <option value="">{pending ? "Loading campaigns…" : "Choose a campaign"}</option>
-            {campaigns.map((item) => (
-              <option key={item.id} value={String(item.id)}>
-                {item.siteName} — {item.name}
-              </option>
-            ))}
-          </select>
+          {pending ? (
+            <p role="status" className="mt-1 text-sm text-ink-soft">
+              Loading your campaigns…
+            </p>
+          ) : (
+            <select
+              id="campaign"
+              disabled={running}
+              className="mt-1 w-full max-w-xl rounded-md border border-line bg-panel px-3 py-2"
+              aria-invalid={formState.errors.campaignId ? true : undefined}
+              {...register("campaignId", {
+                onChange: (event: React.ChangeEvent<HTMLSelectElement>) => {
+                  const next = new URLSearchParams(searchParams);
+                  next.set("campaign", event.target.value);
+                  setSearchParams(next, { replace: true });
+                },
+              })}
+            >
+              <option value="">Choose a campaign</option>
+              {campaigns.map((item) => (
+                <option key={item.id} value={String(item.id)}>
+                  {item.siteName} — {item.name}
+                </option>
+              ))}
+            </select>
+          )}
           {formState.errors.campaignId ? <p className="mt-1 text-sm text-bad">{formState.errors.campaignId.message}</p> : null}
           {selectedCampaign ? (
             <p className="mt-2 text-sm text-ink-soft">

@@ -30,7 +30,7 @@ export function NightSeriesChart({ night, samples, picker }: { night: string; sa
         <ResponsiveContainer width="100%" height="100%">
           <LineChart data={sorted} margin={{ ...margin, bottom: 8 }}>
             <CartesianGrid stroke={CHART_COLOURS.grid} />
-            <XAxis dataKey="timeMs" type="category" tick={AXIS_TICK} tickFormatter={clock} minTickGap={28} height={36} label={{ value: "Time (UTC)", position: "insideBottom", offset: 0, style: AXIS_LABEL_STYLE }} />
+            <XAxis dataKey="timeMs" type="category" tick={AXIS_TICK} tickFormatter={clock} minTickGap={28} height={44} label={{ value: "Time (UTC)", position: "insideBottom", offset: 6, style: AXIS_LABEL_STYLE }} />
             <YAxis
               tick={AXIS_TICK}
               width={56}

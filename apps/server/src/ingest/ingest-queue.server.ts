@@ -1,4 +1,5 @@
 import { Worker } from "node:worker_threads";
+import type { RequestHandler } from "express";
 import type { ColumnMapping, MonitorSettings } from "@calmcrest/seeing-stats";
 import type { AppDatabase } from "../db/database.server";
 import type { CampaignRow, SiteRow } from "../access/access.server";
@@ -55,14 +56,25 @@ export class IngestQueue {
    * only after these writes.
    */
   async withWriteSlot<T>(write: () => Promise<T>): Promise<T> {
-    while (this.busy) await new Promise<void>((resolve) => this.writeSlotWaiters.push(resolve));
-    this.writers += 1;
+    const release = await this.acquireWriteSlot();
     try {
       return await write();
     } finally {
+      release();
+    }
+  }
+
+  /** The same as withWriteSlot for code that cannot wrap its writes in one function; call the returned release once. */
+  async acquireWriteSlot(): Promise<() => void> {
+    while (this.busy) await new Promise<void>((resolve) => this.writeSlotWaiters.push(resolve));
+    this.writers += 1;
+    let released = false;
+    return () => {
+      if (released) return;
+      released = true;
       this.writers -= 1;
       if (this.writers === 0) void this.pump();
-    }
+    };
   }
 
   /** 0..1 for a queued or running upload; undefined when it is not in the queue. */
@@ -212,4 +224,20 @@ export async function recoverUploads(db: AppDatabase, queue: IngestQueue): Promi
   const queued = await db.knex("upload").where({ status: "queued" }).orderBy("id").select<{ id: number }[]>("id");
   for (const row of queued) queue.enqueue(row.id);
   return { interrupted, requeued: queued.length };
+}
+
+const READ_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/**
+ * Holds a write slot (see IngestQueue.withWriteSlot) for the whole of a state-changing JSON request, so its
+ * writes never wait inside SQLite for an ingest. Not for file uploads: receiving a large file while holding the
+ * slot would hold up the next ingest; the upload route takes the slot only for its own inserts.
+ */
+export function writeSlot(queue: IngestQueue): RequestHandler {
+  return async (req, res, next) => {
+    if (READ_METHODS.has(req.method) || /\/uploads(\/|$)/.test(req.path)) return next();
+    const release = await queue.acquireWriteSlot();
+    res.on("close", release);
+    next();
+  };
 }

@@ -18,6 +18,7 @@ import { campaignFor, FIELD_ROLES, roleAllows, routeId, siteFor, type CampaignRo
 import { recordAudit } from "../audit/audit.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { currentUser, requireRole, requireUser } from "../http/session";
+import { writeSlot } from "../ingest/ingest-queue.server";
 import { ingestRejections } from "../summaries/ingest-rejections.server";
 import { sampleSeries } from "../summaries/sample-series.server";
 import { buildSummary, resolveQuery } from "../summaries/summarize.server";
@@ -28,7 +29,7 @@ export function campaignRoutes(context: AppContext): Router {
   const knex = db.knex;
   const router = Router();
   // Committee members read published reports only (403); everyone else is checked per campaign.
-  router.use("/campaigns", requireUser, requireRole(...FIELD_ROLES));
+  router.use("/campaigns", requireUser, requireRole(...FIELD_ROLES), writeSlot(context.ingest));
 
   async function campaignDetail(user: User, campaign: CampaignRow): Promise<CampaignDetail> {
     const site = await knex("site").where({ id: campaign.site_id }).first<SiteRow>();

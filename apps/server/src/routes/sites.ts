@@ -6,6 +6,7 @@ import { FIELD_ROLES, routeId, siteFor, visibleCampaignIds, type CampaignRow, ty
 import { recordAudit } from "../audit/audit.server";
 import { HttpError, parseOr400 } from "../http/errors";
 import { currentUser, requireRole, requireUser } from "../http/session";
+import { writeSlot } from "../ingest/ingest-queue.server";
 import { buildSummary, resolveQuery, siteBrief } from "../summaries/summarize.server";
 import { ingestRejections } from "../summaries/ingest-rejections.server";
 import { sampleSeries } from "../summaries/sample-series.server";
@@ -16,7 +17,7 @@ export function siteRoutes(context: AppContext): Router {
   const knex = db.knex;
   const router = Router();
   // Committee members read published reports only (403); everyone else is checked per item below.
-  router.use("/sites", requireUser, requireRole(...FIELD_ROLES));
+  router.use("/sites", requireUser, requireRole(...FIELD_ROLES), writeSlot(context.ingest));
 
   function listItem(site: SiteRow, campaignIds: number[]): SiteListItem {
     return {

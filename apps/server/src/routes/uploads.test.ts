@@ -168,7 +168,7 @@ describe("the ingest queue", () => {
 });
 
 describe("writes while an ingest holds the write lock", () => {
-  it("keep the server answering: a second upload waits for the running ingest instead of freezing the event loop", async () => {
+  it("keep the server answering: a second upload and an exclusion wait for the running ingest instead of freezing the event loop", async () => {
     const { campaign } = await createSiteAndCampaign(lead, monitor);
     context.ingest.testHooks.pauseAfterSamples = { samples: 50, ms: 1500 };
     const first = (await postUpload(lead, campaign.id, nativeLog)).body.upload.id as number;
@@ -189,6 +189,7 @@ describe("writes while an ingest holds the write lock", () => {
     probe.close();
     const secondStartedMs = Date.now();
     const second = postUpload(lead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv")).then((response) => ({ response, ms: Date.now() - secondStartedMs }));
+    const exclusion = lead.post(`/api/campaigns/${campaign.id}/exclusions`).set(SAME_ORIGIN).send({ from: "2020-01-01", to: "2020-01-02", reason: "during ingest" }).then((response) => response);
     await new Promise((resolve) => setTimeout(resolve, 100));
     const pollStartedMs = Date.now();
     const poll = await lead.get(`/api/uploads/${first}`);
@@ -198,6 +199,7 @@ describe("writes while an ingest holds the write lock", () => {
     expect(pollMs).toBeLessThan(500);
     const { response, ms } = await second;
     expect(response.status).toBe(202);
+    expect((await exclusion).status).toBe(201);
     expect(ms).toBeGreaterThan(pollMs);
     expect((await waitForUpload(lead, first)).status).toBe("done");
     expect((await waitForUpload(lead, response.body.upload.id)).status).toBe("done");

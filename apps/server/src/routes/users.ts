@@ -7,6 +7,7 @@ import { hashPassword } from "../auth/passwords.server";
 import { recordAudit } from "../audit/audit.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { currentUser, requireRole, requireUser } from "../http/session";
+import { writeSlot } from "../ingest/ingest-queue.server";
 
 interface UserRow {
   id: string;
@@ -20,7 +21,7 @@ export function userRoutes(context: AppContext): Router {
   const { db } = context;
   const knex = db.knex;
   const router = Router();
-  router.use("/users", requireUser, requireRole("admin"));
+  router.use("/users", requireUser, requireRole("admin"), writeSlot(context.ingest));
 
   async function listItems(where?: { id: string }): Promise<UserListItem[]> {
     const query = knex("user").orderBy("name").select<UserRow[]>("id", "email", "name", "role", "created_at");

@@ -12,6 +12,8 @@ import { SitePage, siteLoader } from "./routes/sites.$siteId";
 import { CampaignPage, campaignLoader } from "./routes/campaigns.$campaignId";
 import { sitesQuery } from "./api/sites";
 import { UploadPage } from "./routes/upload";
+import { PeoplePage } from "./routes/admin.people";
+import { usersQuery } from "./api/users";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
 
@@ -38,6 +40,15 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         return null;
       },
       element: <UploadPage />,
+    },
+    {
+      path: "admin/people",
+      loader: async (args) => {
+        await roleLoader(queryClient, ["admin"])(args);
+        await Promise.all([queryClient.ensureQueryData(usersQuery), queryClient.ensureQueryData(sitesQuery)]);
+        return null;
+      },
+      element: <PeoplePage />,
     },
     { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
   ];

@@ -3,7 +3,7 @@ import { coverageByMonth } from "../lib/coverage";
 /** A row of month cells; the filled height shows the share of nights observed, an empty cell is a month with no data. */
 export function CoverageStrip({ nights, fromMonth, toMonth, label }: { nights: readonly string[]; fromMonth?: string; toMonth?: string; label: string }) {
   const months = coverageByMonth(nights, fromMonth, toMonth);
-  if (months.length === 0) return <p className="text-sm text-ink-soft">No observed nights yet.</p>;
+  if (months.length === 0) return <p className="text-sm text-ink-soft">No observed nights in this period.</p>;
   const observed = months.reduce((total, month) => total + month.observedNights, 0);
   const gaps = months.filter((month) => month.observedNights === 0).length;
   return (

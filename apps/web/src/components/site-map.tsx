@@ -107,7 +107,7 @@ export function SeeingLegend() {
     return `linear-gradient(to right, ${colours.join(", ")})`;
   }, []);
   return (
-    <figure className="flex flex-wrap items-end gap-x-8 gap-y-3 text-sm" aria-label="Map colour key">
+    <figure className="flex flex-wrap items-end gap-x-8 gap-y-3 px-3 text-sm" aria-label="Map colour key">
       <div>
         <figcaption className="mb-1 font-semibold">Median seeing at zenith, 500 nm (arcsec)</figcaption>
         <div className="h-3 w-64 rounded-sm border border-ink/30" style={{ background: gradient }} />

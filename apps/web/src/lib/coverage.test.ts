@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { coverageByMonth } from "./coverage";
+import { coverageByMonth, coverageRange } from "./coverage";
 
 describe("coverage by month", () => {
   it("counts observed nights per month and keeps empty months as gaps", () => {
@@ -20,5 +20,15 @@ describe("coverage by month", () => {
 
   it("is empty without nights or range", () => {
     expect(coverageByMonth([])).toEqual([]);
+  });
+});
+
+describe("coverage range of a campaign card", () => {
+  it("cuts the date window to the campaign's own data, so months before it started are not shown as gaps", () => {
+    const campaign = { firstSampleAt: "2025-08-01T01:00:00Z", lastSampleAt: "2026-01-28T05:00:00Z" };
+    expect(coverageRange(campaign, { from: "2025-06-01", to: "2025-09-30" })).toEqual({ fromMonth: "2025-08", toMonth: "2025-09" });
+    expect(coverageRange(campaign, {})).toEqual({ fromMonth: "2025-08", toMonth: "2026-01" });
+    // A window that misses the campaign gives an empty range (from after to), drawn as "no observed nights".
+    expect(coverageByMonth([], ...Object.values(coverageRange(campaign, { from: "2025-01-01", to: "2025-03-31" })))).toEqual([]);
   });
 });

@@ -34,3 +34,14 @@ export function coverageByMonth(nights: readonly string[], fromMonth?: string, t
   }
   return result;
 }
+
+/** Months to draw: the campaign's own data span, cut to the date window (months outside its span are not gaps). */
+export function coverageRange(campaign: { firstSampleAt: string | null; lastSampleAt: string | null }, filters: { from?: string; to?: string }): { fromMonth?: string; toMonth?: string } {
+  const first = campaign.firstSampleAt?.slice(0, 7);
+  const last = campaign.lastSampleAt?.slice(0, 7);
+  const windowFrom = filters.from?.slice(0, 7);
+  const windowTo = filters.to?.slice(0, 7);
+  const fromMonth = first && windowFrom ? (first > windowFrom ? first : windowFrom) : (first ?? windowFrom);
+  const toMonth = last && windowTo ? (last < windowTo ? last : windowTo) : (last ?? windowTo);
+  return { ...(fromMonth ? { fromMonth } : {}), ...(toMonth ? { toMonth } : {}) };
+}

@@ -6,6 +6,7 @@ import { meQuery } from "../api/auth";
 import { campaignSummaryQuery } from "../api/campaigns";
 import { siteQuery, siteSummaryQuery } from "../api/sites";
 import { CoverageStrip } from "../components/coverage-strip";
+import { coverageRange } from "../lib/coverage";
 import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { MonitorSettings } from "../components/monitor-settings";
 import { Notice, Page } from "../components/page";
@@ -61,12 +62,7 @@ function CampaignCard({ campaign, filters }: { campaign: CampaignListItem; filte
           ) : summary.isError ? (
             <p className="text-sm text-bad">Coverage could not be loaded: {summary.error.message}</p>
           ) : (
-            <CoverageStrip
-              nights={nights}
-              fromMonth={(filters.from ?? campaign.firstSampleAt ?? undefined)?.slice(0, 7)}
-              toMonth={(filters.to ?? campaign.lastSampleAt ?? undefined)?.slice(0, 7)}
-              label={`Observed nights per month, ${campaign.name}`}
-            />
+            <CoverageStrip nights={nights} {...coverageRange(campaign, filters)} label={`Observed nights per month, ${campaign.name}`} />
           )}
         </div>
       </div>

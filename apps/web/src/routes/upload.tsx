@@ -1,5 +1,5 @@
 import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from "react";
-import { keepPreviousData, useQueries, useQuery, useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
+import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { Link, useSearchParams } from "react-router-dom";
@@ -8,7 +8,7 @@ import { columnMappingSchema, type CampaignDetail, type ColumnMappingInput } fro
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { campaignQuery, saveMapping } from "../api/campaigns";
 import { ApiError } from "../api/client";
-import { siteQuery, sitesQuery } from "../api/sites";
+import { useVisibleCampaigns } from "../api/visible-campaigns";
 import { previewUpload, sendUpload } from "../api/uploads";
 import { Notice, Page } from "../components/page";
 import { FileProgress, type FileSend } from "../components/upload/file-progress";
@@ -38,13 +38,6 @@ function Step({ number, title, children, done }: { number: number; title: string
   );
 }
 
-function useUploadableCampaigns() {
-  const { data: sites } = useSuspenseQuery(sitesQuery);
-  const details = useQueries({ queries: sites.map((site) => siteQuery(site.id)) });
-  const pending = details.some((detail) => detail.isPending);
-  const campaigns = details.flatMap((detail) => (detail.data ? detail.data.campaigns.map((campaign) => ({ ...campaign, siteName: detail.data.name })) : []));
-  return { campaigns, pending, sites };
-}
 
 function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file: File; mapping: ColumnMappingInput }) {
   const preview = useQuery({
@@ -112,7 +105,7 @@ function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file:
 export function UploadPage() {
   const [searchParams, setSearchParams] = useSearchParams();
   const queryClient = useQueryClient();
-  const { campaigns, pending, sites } = useUploadableCampaigns();
+  const { campaigns, pending, sites } = useVisibleCampaigns();
   const { control, register, setValue, handleSubmit, formState } = useForm<WizardValues>({
     resolver: zodResolver(wizardSchema),
     defaultValues: { campaignId: searchParams.get("campaign") ?? "", mapping: {}, keepMapping: true },

@@ -1,3 +1,4 @@
+import type { TelescopePrediction } from '@calmcrest/seeing-stats';
 import type { AnalyzerReport } from '@calmcrest/seeing-stats/node';
 
 const arcsec = (value: number): string => (Number.isFinite(value) ? `${value.toFixed(2)}″` : '–');
@@ -5,7 +6,7 @@ const centimetres = (value: number): string => (Number.isFinite(value) ? `${valu
 const percent = (fraction: number): string => `${(fraction * 100).toFixed(1)} %`;
 
 /** The readable summary a field engineer reads before uploading: counts, statistics with units, rejected rows. */
-export function formatReport(report: AnalyzerReport, fileName: string): string {
+export function formatReport(report: AnalyzerReport, fileName: string, telescope: TelescopePrediction | null = null): string {
   const lines: string[] = [];
   const { samples } = report;
   lines.push(`Calmcrest log check: ${fileName}`);
@@ -31,10 +32,18 @@ export function formatReport(report: AnalyzerReport, fileName: string): string {
     const { seeing, r0, lognormal } = report;
     lines.push('Seeing at zenith, 500 nm (FWHM)');
     lines.push(`  mean ${arcsec(seeing.mean)}   median ${arcsec(seeing.median)}  (95 % interval ${arcsec(seeing.medianCi95[0])} – ${arcsec(seeing.medianCi95[1])}, bootstrap over nights)`);
+    if (report.nights < 5) {
+      lines.push(`  (only ${report.nights} night${report.nights === 1 ? '' : 's'}: an interval from resampling nights cannot show night-to-night variation yet)`);
+    }
     lines.push(`  p10 ${arcsec(seeing.p10)}   p25 ${arcsec(seeing.p25)}   p75 ${arcsec(seeing.p75)}   p90 ${arcsec(seeing.p90)}`);
     lines.push(`Fried parameter r0 at zenith, 500 nm`);
     lines.push(`  p10 ${centimetres(r0.p10)}   p25 ${centimetres(r0.p25)}   median ${centimetres(r0.median)}   p75 ${centimetres(r0.p75)}   p90 ${centimetres(r0.p90)}`);
     lines.push(`Log-normal fit: median ${arcsec(lognormal.median)}, σ(ln) ${lognormal.sigma.toFixed(3)}, KS distance ${lognormal.ks.toFixed(3)}`);
+    if (telescope !== null) {
+      const size = telescope.telescopeDiameterM === null ? 'a large telescope' : `a telescope of ${telescope.telescopeDiameterM} m diameter`;
+      lines.push(`Predicted long-exposure FWHM in ${size} at ${telescope.wavelengthNm} nm, zenith, outer scale ${telescope.outerScaleM} m:`);
+      lines.push(`  p10 ${arcsec(telescope.p10)}   p25 ${arcsec(telescope.p25)}   median ${arcsec(telescope.median)}   p75 ${arcsec(telescope.p75)}   p90 ${arcsec(telescope.p90)}`);
+    }
     lines.push(`Time below: ${Object.entries(report.fractionBelow).map(([threshold, fraction]) => `${threshold}″ ${percent(fraction)}`).join('   ')}`);
     lines.push('');
     lines.push('By month (night dates)        samples   median     p25     p75');

@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // Calmcrest's command-line log check: field engineers run it before uploading, with the same engine the server uses.
 import { basename } from 'node:path';
-import { LogFormatError, SeeingInputError } from '@calmcrest/seeing-stats';
+import { LogFormatError, predictTelescopeFwhm, SeeingInputError, type TelescopePrediction } from '@calmcrest/seeing-stats';
 import { analyzeLog } from '@calmcrest/seeing-stats/node';
 import { formatReport } from './formatReport.ts';
 import { parseArguments, USAGE, UsageError } from './parseArguments.ts';
@@ -24,8 +24,10 @@ async function main(argv: readonly string[]): Promise<number> {
   if (parsed.file === null) return fail('No log file given.', 'Usage: npm run --silent analyze -- <file> [flags]; --help lists the flags.');
   try {
     const report = await analyzeLog(parsed.file, parsed.options);
-    if (parsed.json) process.stdout.write(`${JSON.stringify(report)}\n`);
-    else process.stdout.write(formatReport(report, basename(parsed.file)));
+    const telescope: TelescopePrediction | null =
+      parsed.telescope !== null && report.samples.accepted > 0 ? predictTelescopeFwhm(report.seeing, parsed.telescope) : null;
+    if (parsed.json) process.stdout.write(`${JSON.stringify(telescope === null ? report : { ...report, telescope })}\n`);
+    else process.stdout.write(formatReport(report, basename(parsed.file), telescope));
     if (report.samples.accepted === 0) {
       if (parsed.json) process.stderr.write('No sample was accepted; see rejectedByReason and rejectedRows.\n');
       return EXIT_NO_SAMPLES;

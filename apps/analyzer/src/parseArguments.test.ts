@@ -26,6 +26,11 @@ describe('analyzer arguments', () => {
     expect(parsed.options.site).toEqual({ latitudeDeg: -27.42, longitudeDeg: -70.15 });
     expect(parsed.options.filters).toEqual({ sunMaxDeg: -12, maxZenithDeg: 50, minFlux: 1000 });
     expect(parsed.options.summary).toEqual({ thresholdsArcsec: [0.5, 0.7] });
+    expect(parsed.telescope).toBeNull();
+  });
+  it('ask for a telescope prediction with any of its flags', () => {
+    expect(parseArguments(['log.csv', '--outer-scale-m', '30']).telescope).toEqual({ wavelengthNm: 500, outerScaleM: 30 });
+    expect(parseArguments(['log.csv', '--telescope-wavelength-nm', '2200', '--telescope-diameter-m', '8']).telescope).toEqual({ wavelengthNm: 2200, telescopeDiameterM: 8 });
   });
   it('default to 500 nm, Z-tilt and no site', () => {
     const parsed = parseArguments(['log.csv']);

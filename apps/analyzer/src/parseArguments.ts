@@ -13,6 +13,8 @@ export interface AnalyzerArguments {
   json: boolean;
   help: boolean;
   options: AnalyzeOptions;
+  /** Set when a planned telescope's FWHM is asked for (--telescope-wavelength-nm or --outer-scale-m). */
+  telescope: { outerScaleM?: number; wavelengthNm: number; telescopeDiameterM?: number } | null;
 }
 
 export const USAGE = `Usage: npm run --silent analyze -- <file> [flags]
@@ -38,6 +40,10 @@ Statistics
   --thresholds A,B,C         seeing thresholds for the "fraction below" lines (default 0.6,0.8,1.0)
   --replicates N             night-bootstrap replicates (default 1000)
   --seed N                   bootstrap seed (default 1)
+Planned telescope (optional)
+  --telescope-wavelength-nm L  predict its long-exposure FWHM at this wavelength (default 500 when --outer-scale-m is given)
+  --outer-scale-m L0           von Kármán outer scale (default 25)
+  --telescope-diameter-m D     apply the diameter-dependent (Kolb) factor
 Output
   --json                     print exactly one JSON document on stdout
   --help                     this text
@@ -58,6 +64,9 @@ const NUMBER_FLAGS = new Set([
   '--min-flux',
   '--replicates',
   '--seed',
+  '--telescope-wavelength-nm',
+  '--outer-scale-m',
+  '--telescope-diameter-m',
 ]);
 
 function readNumberFlag(flag: string, text: string | undefined): number {
@@ -152,5 +161,16 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       ...(numbers.has('--seed') ? { seed: numbers.get('--seed') } : {}),
     },
   };
-  return { file, json, help, options };
+  const telescopeWavelength = numbers.get('--telescope-wavelength-nm');
+  const outerScale = numbers.get('--outer-scale-m');
+  const telescopeDiameter = numbers.get('--telescope-diameter-m');
+  const telescope =
+    telescopeWavelength !== undefined || outerScale !== undefined || telescopeDiameter !== undefined
+      ? {
+          wavelengthNm: telescopeWavelength ?? 500,
+          ...(outerScale !== undefined ? { outerScaleM: outerScale } : {}),
+          ...(telescopeDiameter !== undefined ? { telescopeDiameterM: telescopeDiameter } : {}),
+        }
+      : null;
+  return { file, json, help, options, telescope };
 }

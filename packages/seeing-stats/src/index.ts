@@ -51,4 +51,5 @@ export { previewLog, isCommentOrBlank, type LogPreview } from './log/previewLog.
 // Summaries: one site, two sites compared, nights.
 export { summarizeSeeing, thresholdKey, DEFAULT_THRESHOLDS_ARCSEC, type SampleColumns, type SummaryOptions, type SeeingSummary } from './summary/summarizeSeeing.js';
 export { compareSeeing, type SiteComparison } from './summary/compareSeeing.js';
+export { predictTelescopeFwhm, type TelescopePrediction } from './summary/predictTelescopeFwhm.js';
 export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './summary/nightLabel.js';

@@ -4,6 +4,7 @@ import jStatModule from 'jstat';
 import { createRandom, normalDeviate } from '../stats/random.js';
 import { compareSeeing } from './compareSeeing.js';
 import { nightLabel } from './nightLabel.js';
+import { predictTelescopeFwhm } from './predictTelescopeFwhm.js';
 import { summarizeSeeing, type SampleColumns } from './summarizeSeeing.js';
 
 const jStat = (jStatModule as { jStat: { percentile(values: number[], fraction: number): number } }).jStat;
@@ -105,5 +106,16 @@ describe('compareSeeing', () => {
     expect(comparison.ci95[0]).toBeLessThan(0);
     expect(comparison.ci95[1]).toBeGreaterThan(0);
     expect(comparison.mannWhitney.pValue).toBeGreaterThan(0.05);
+  });
+});
+
+describe('predictTelescopeFwhm', () => {
+  it('maps a median seeing of 1.011″ (r0 = 10 cm) with L0 = 20 m to 0.8266″ at 500 nm', () => {
+    // Tokovinin 2002 eq. 19; seeing-physics.md §9 #13
+    const seeingArcsec = (0.98 * 500e-9 * (180 * 3600 / Math.PI)) / 0.1;
+    const seeing = { unit: 'arcsec', wavelengthNm: 500, atZenith: true, mean: seeingArcsec, p10: seeingArcsec, p25: seeingArcsec, median: seeingArcsec, p75: seeingArcsec, p90: seeingArcsec, medianCi95: [seeingArcsec, seeingArcsec] } as const;
+    const prediction = predictTelescopeFwhm({ ...seeing, medianCi95: [seeingArcsec, seeingArcsec] }, { outerScaleM: 20, wavelengthNm: 500 });
+    expect(prediction.median).toBeCloseTo(0.8266, 3);
+    expect(predictTelescopeFwhm({ ...seeing, medianCi95: [seeingArcsec, seeingArcsec] }, { wavelengthNm: 500 }).outerScaleM).toBe(25);
   });
 });

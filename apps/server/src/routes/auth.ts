@@ -4,9 +4,12 @@ import type { AppContext } from "../context";
 import { verifyPassword } from "../auth/passwords.server";
 import { HttpError, parseOr400 } from "../http/errors";
 import { currentUser, requireUser } from "../http/session";
+import { writeSlot } from "../ingest/ingest-queue.server";
 
-export function authRoutes({ db, lucia }: AppContext): Router {
+export function authRoutes({ db, lucia, ingest }: AppContext): Router {
   const router = Router();
+  // Sign-in and sign-out write sessions: wait for a running ingest to release SQLite's write lock (see writeSlot).
+  router.use("/auth", writeSlot(ingest));
 
   router.post("/auth/sign-in", async (req, res) => {
     const input = parseOr400(signInSchema, req.body, "The sign-in form");

@@ -14,6 +14,7 @@ function Figure({ label, value, detail }: { label: string; value: string; detail
 /** The headline figures of a summary, and what was counted out and why. */
 export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
   const { samples } = summary;
+  if (samples.read === 0 && summary.empty) return null;
   const reasons = Object.entries(samples.rejectedByReason).filter(([, count]) => (count ?? 0) > 0);
   // Seeing measured 2 m and 20 m above a ridge differs a lot: say so when a site pools monitors at different heights.
   const heights = [...new Set(summary.campaigns.map((campaign) => campaign.heightAboveGroundM))];

@@ -70,9 +70,13 @@ function MembershipCell({ user, onProblem }: { user: UserListItem; onProblem: (m
       onProblem(messageOf(error, failure));
     }
   };
+  // Only field engineers' access depends on membership; say what the other roles see instead of offering controls.
+  if (user.role !== "engineer" && user.campaigns.length === 0) {
+    return <p className="text-ink-soft">{user.role === "committee" ? "Published reports only, no campaign data" : "Every campaign (by role)"}</p>;
+  }
   return (
     <div className="space-y-1">
-      {user.campaigns.length === 0 ? <p className="text-ink-soft">{user.role === "engineer" ? "No campaigns: sees no sites yet." : "None"}</p> : null}
+      {user.campaigns.length === 0 ? <p className="text-ink-soft">No campaigns yet: sees no sites until added to one.</p> : null}
       <ul className="space-y-1">
         {user.campaigns.map((campaign) => (
           <li key={campaign.id} className="flex items-center justify-between gap-2">

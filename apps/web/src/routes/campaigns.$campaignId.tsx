@@ -163,7 +163,7 @@ export function CampaignPage() {
           <div className={`space-y-8 ${summary.isPlaceholderData ? "opacity-60" : ""}`} aria-busy={summary.isPlaceholderData}>
             <SummaryFigures summary={summary.data} />
             {summary.data.empty ? (
-              <Notice tone="warn" title="No sample passes these settings.">
+              <Notice tone={summary.data.samples.read === 0 ? "info" : "warn"} title={summary.data.samples.read === 0 ? "No seeing data yet." : "No sample passes these settings."}>
                 {summary.data.samples.read === 0 ? "Nothing has been uploaded to this campaign yet." : "Widen the date window or relax the limits above."}
               </Notice>
             ) : (

@@ -9,6 +9,7 @@ import { CoverageStrip } from "../components/coverage-strip";
 import { coverageRange } from "../lib/coverage";
 import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { MonitorSettings } from "../components/monitor-settings";
+import { NewCampaignForm } from "../components/new-site-forms";
 import { Notice, Page } from "../components/page";
 import { SeeingCharts } from "../components/seeing-charts";
 import { SummaryFigures } from "../components/summary-figures";
@@ -106,7 +107,7 @@ export function SitePage() {
           <div className={`space-y-8 transition-opacity ${summary.isPlaceholderData ? "opacity-60" : ""}`} aria-busy={summary.isPlaceholderData}>
             <SummaryFigures summary={summary.data} />
             {summary.data.empty ? (
-              <Notice tone="warn" title="No sample passes these settings.">
+              <Notice tone={summary.data.samples.read === 0 ? "info" : "warn"} title={summary.data.samples.read === 0 ? "No seeing data yet." : "No sample passes these settings."}>
                 {summary.data.samples.read === 0
                   ? me?.role === "engineer"
                     ? "No logs have been uploaded for your campaigns here yet. Upload your monitor's logs under Upload logs."
@@ -133,6 +134,7 @@ export function SitePage() {
               ))}
             </div>
           )}
+          {me?.role === "lead" || me?.role === "admin" ? <NewCampaignForm siteId={siteId} /> : null}
         </section>
       </div>
     </Page>

@@ -10,6 +10,7 @@ import { Notice, Page } from "../components/page";
 import { SeeingLegend, SiteMap, type MapTiles } from "../components/site-map";
 import { formatArcsec, formatNumber } from "../lib/format";
 import { seeingColour } from "../lib/colour-scale";
+import { NewSiteForm } from "../components/new-site-forms";
 
 const column = createColumnHelper<SiteListItem>();
 const columns = [
@@ -90,6 +91,11 @@ export function SitesPage() {
           </section>
         </div>
       )}
+      {me?.role === "lead" || me?.role === "admin" ? (
+        <div className="mt-6">
+          <NewSiteForm />
+        </div>
+      ) : null}
     </Page>
   );
 }

@@ -17,4 +17,9 @@ describe("navigation by role", () => {
     expect(mayUse("admin", "/admin/people")).toBe(true);
     expect(mayUse("lead", "/admin/people")).toBe(false);
   });
+
+  it("lets the field roles follow a sign-in link back to a campaign page, but not committee members", () => {
+    expect(mayUse("engineer", "/campaigns/4")).toBe(true);
+    expect(mayUse("committee", "/campaigns/4")).toBe(false);
+  });
 });

@@ -19,5 +19,8 @@ export const navFor = (role: Role) => NAV_ITEMS.filter((item) => item.roles.incl
 /** Where a role lands after sign-in. */
 export const homeFor = (role: Role) => navFor(role)[0]?.to ?? "/reports";
 
+/** Pages reached from a top-level screen rather than the navigation (a campaign is opened from its site). */
+const OTHER_SCREENS: readonly { to: string; roles: readonly Role[] }[] = [{ to: "/campaigns", roles: ["admin", "lead", "engineer"] }];
+
 export const mayUse = (role: Role, path: string) =>
-  NAV_ITEMS.some((item) => (path === item.to || path.startsWith(`${item.to}/`)) && item.roles.includes(role));
+  [...NAV_ITEMS, ...OTHER_SCREENS].some((item) => (path === item.to || path.startsWith(`${item.to}/`)) && item.roles.includes(role));

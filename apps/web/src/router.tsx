@@ -54,6 +54,15 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
   ];
 }
 
+/** Shown while the first page's data loads (before the app shell can draw). */
+function LoadingPage() {
+  return (
+    <p role="status" className="p-6 text-ink-soft">
+      Loading Calmcrest…
+    </p>
+  );
+}
+
 export function createRouter(queryClient: QueryClient) {
   return createBrowserRouter([
     {
@@ -63,12 +72,14 @@ export function createRouter(queryClient: QueryClient) {
         return me ? redirect(homeFor(me.role)) : null;
       },
       element: <SignInPage />,
+      hydrateFallbackElement: <LoadingPage />,
     },
     {
       path: "/",
       loader: ({ request }) => requireMe(queryClient, request),
       element: <AppLayout />,
       errorElement: <RouteError />,
+      hydrateFallbackElement: <LoadingPage />,
       children: [
         {
           errorElement: <RouteError />,

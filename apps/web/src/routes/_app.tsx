@@ -1,5 +1,5 @@
 import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
-import { NavLink, Outlet, useNavigate } from "react-router-dom";
+import { NavLink, Outlet, useNavigate, useNavigation } from "react-router-dom";
 import { ROLE_LABELS } from "@calmcrest/contracts";
 import { meQuery, signOut } from "../api/auth";
 import { Logo } from "../components/logo";
@@ -10,6 +10,7 @@ export function AppLayout() {
   const { data: me } = useSuspenseQuery(meQuery);
   const queryClient = useQueryClient();
   const navigate = useNavigate();
+  const navigation = useNavigation();
   if (!me) return null; // the loader redirects signed-out visitors before this renders
 
   const onSignOut = async () => {
@@ -56,6 +57,12 @@ export function AppLayout() {
           </div>
         </div>
       </header>
+      {/* Page loaders fetch before a page shows; this bar says something is on its way. */}
+      <div aria-live="polite" className="h-1 bg-night">
+        {navigation.state === "loading" ? (
+          <div role="progressbar" aria-label="Loading the page" className="h-1 w-1/3 animate-pulse bg-accent-pale" />
+        ) : null}
+      </div>
       <main id="main" className="flex-1">
         <Outlet />
       </main>

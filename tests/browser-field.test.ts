@@ -174,6 +174,17 @@ describe("field and analysis screens in a browser", () => {
     await page.waitForSelector(".recharts-surface");
     await shots(page, "field-campaign-engineer");
 
+    // An exclusion window takes its samples out of every figure, and removing it brings them back.
+    // 00:30 ≤ t < 01:00 at the file's 2-minute cadence holds 15 accepted rows (lines 2–16).
+    await page.getByLabel("From (UTC)").fill("2025-05-02T00:30");
+    await page.getByLabel("To (UTC)").fill("2025-05-02T01:00");
+    await page.getByLabel("Reason").fill("Monitor refocused after the trip");
+    await page.getByRole("button", { name: "Exclude window" }).click();
+    await expect.poll(() => page.getByTestId("sample-accounting").textContent(), { timeout: 30_000 }).toMatch(/^382 of 400 samples used.*15 in an excluded window/);
+    await page.getByRole("region", { name: "Excluded time windows" }).screenshot({ path: join(repoRoot, "tests/screenshots/field-exclusions-engineer.png") });
+    await page.getByRole("button", { name: "Remove" }).click();
+    await expect.poll(() => page.getByTestId("sample-accounting").textContent(), { timeout: 30_000 }).toMatch(/^397 of 400 samples used/);
+
     // The saved mapping makes the next upload one click: the wizard fills it in by itself.
     await page.goto(`${server.url}/upload?campaign=${campaign.id}`);
     await page.locator('input[type="file"]').setInputFiles(join(repoRoot, "data-samples/wizard-fwhm-airmass.csv"));

@@ -74,7 +74,7 @@ export function Exclusions({ campaign }: { campaign: CampaignDetail }) {
         </ul>
       )}
       {campaign.can.exclude ? (
-        <form onSubmit={onSubmit} noValidate className="grid gap-3 rounded-lg border border-line bg-panel p-3 md:grid-cols-[1fr_1fr_2fr_auto] md:items-start">
+        <form onSubmit={onSubmit} noValidate className="grid gap-3 rounded-lg border border-line bg-panel p-3 sm:grid-cols-2 lg:grid-cols-[1fr_1fr_2fr_auto] lg:items-start">
           {(
             [
               ["from", "From (UTC)", "datetime-local"],
@@ -102,7 +102,7 @@ export function Exclusions({ campaign }: { campaign: CampaignDetail }) {
               ) : null}
             </div>
           ))}
-          <button type="submit" disabled={formState.isSubmitting} className="self-end rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60 md:mb-0.5">
+          <button type="submit" disabled={formState.isSubmitting} className="self-end justify-self-start rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60 lg:mt-6">
             Exclude window
           </button>
         </form>

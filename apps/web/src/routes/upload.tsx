@@ -258,7 +258,7 @@ export function UploadPage() {
           {selectedCampaign ? (
             <p className="mt-2 text-sm text-ink-soft">
               Monitor: {selectedCampaign.monitor.apertureMm} mm subapertures, {selectedCampaign.monitor.baselineMm} mm baseline, {selectedCampaign.monitor.wavelengthNm} nm,{" "}
-              {selectedCampaign.monitor.heightAboveGroundM === null ? "height not recorded" : `${selectedCampaign.monitor.heightAboveGroundM} m above ground`}; {formatNumber(selectedCampaign.uploadCount)} uploads so far.
+              {selectedCampaign.monitor.heightAboveGroundM === null ? "height not recorded" : `${selectedCampaign.monitor.heightAboveGroundM} m above ground`}; uploads so far: {formatNumber(selectedCampaign.uploadCount)}.
             </p>
           ) : campaign.isError ? (
             <p className="mt-2 text-sm text-bad">{campaign.error.message}</p>
@@ -311,7 +311,7 @@ export function UploadPage() {
           ) : null}
         </Step>
 
-        {head && selectedCampaign ? (
+        {head && selectedCampaign && sends === null ? (
           <Step number={3} title="Columns and units" done={problems.length === 0}>
             <p className="mb-3 text-sm text-ink-soft">
               {mappingSource === "saved"
@@ -333,7 +333,7 @@ export function UploadPage() {
           </Step>
         ) : null}
 
-        {head && selectedCampaign && problems.length === 0 && files[0] ? (
+        {head && selectedCampaign && problems.length === 0 && files[0] && sends === null ? (
           <Step number={4} title="How the server reads the first rows">
             <PreviewTable campaignId={selectedCampaign.id} file={files[0]} mapping={mapping} />
           </Step>
@@ -346,10 +346,16 @@ export function UploadPage() {
         ) : null}
 
         <div className="flex flex-wrap items-center gap-3">
-          <button type="submit" disabled={!ready || running} className="rounded-md bg-accent px-5 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-50">
-            {files.length > 1 ? `Upload ${files.length} files` : "Upload"}
-          </button>
-          {!ready && !running ? <span className="text-sm text-ink-soft">Choose a campaign and files, and complete the mapping, to upload.</span> : null}
+          {sends === null ? (
+            <>
+              <button type="submit" disabled={!ready} className="rounded-md bg-accent px-5 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-50">
+                {files.length > 1 ? `Upload ${files.length} files` : "Upload"}
+              </button>
+              {!ready ? <span className="text-sm text-ink-soft">Choose a campaign and files, and complete the mapping, to upload.</span> : null}
+            </>
+          ) : (
+            <span className="text-sm text-ink-soft">{running ? "Sending…" : "Sent. Choose more files above to upload another batch."}</span>
+          )}
         </div>
       </form>
 

@@ -15,6 +15,7 @@ import { FileProgress, type FileSend } from "../components/upload/file-progress"
 import { MappingEditor, mappingProblems } from "../components/upload/mapping-editor";
 import { HEAD_BYTES, mappingFitsHeaders, readLogHead, unitsOfMapping, type LogHead } from "../lib/log-head";
 import { formatArcsec, formatBytes, formatNumber } from "../lib/format";
+import { readText } from "../lib/read-text";
 
 /** The wizard's form: the campaign, the mapping (the shared schema the server also checks) and whether to keep it. */
 const wizardSchema = z.object({
@@ -137,7 +138,7 @@ export function UploadPage() {
     const first = chosen[0];
     if (!first) return;
     try {
-      const heads = await Promise.all(chosen.map(async (file) => readLogHead(await file.slice(0, HEAD_BYTES).text())));
+      const heads = await Promise.all(chosen.map(async (file) => readLogHead(await readText(file.slice(0, HEAD_BYTES)))));
       const firstHead = heads[0];
       if (!firstHead) return;
       // One mapping is used for every file of a batch, so all files must share the first file's columns.

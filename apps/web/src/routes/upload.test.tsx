@@ -1,0 +1,93 @@
+import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
+import { cleanup, fireEvent, render, screen, waitFor } from "@testing-library/react";
+import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
+import { createMemoryRouter, RouterProvider } from "react-router-dom";
+import type { CampaignDetail, SiteDetail, SiteListItem, UploadPreview } from "@calmcrest/contracts";
+import { UploadPage } from "./upload";
+
+// Invented fixtures shaped by the contract types: one site with one campaign that has a saved mapping.
+const monitor = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, pixelScaleArcsec: null, exposureMs: null, heightAboveGroundM: 3, response: "z-tilt", responseName: "Tokovinin 2002, Z-tilt" } as const;
+const campaignItem = { id: 7, siteId: 3, name: "Test mast", status: "running", startDate: null, endDate: null, monitor, sampleCount: 0, uploadCount: 0, firstSampleAt: null, lastSampleAt: null } as const;
+const site: SiteListItem = { id: 3, name: "Pumice Knoll", latitude: -24, longitude: -67, elevationM: 4000, notes: "", campaignCount: 1, summary: null };
+const siteDetail: SiteDetail = { ...site, createdAt: "", updatedAt: "", campaigns: [campaignItem] };
+let savedMapping: CampaignDetail["savedMapping"] = null;
+const campaign = (): CampaignDetail => ({
+  ...campaignItem,
+  siteName: site.name,
+  site: { id: 3, name: site.name, latitude: -24, longitude: -67, elevationM: 4000 },
+  notes: "",
+  createdAt: "",
+  updatedAt: "",
+  uploads: [],
+  exclusions: [],
+  members: [],
+  savedMapping,
+  can: { upload: true, exclude: true, manageMembers: false, edit: false },
+});
+const preview: UploadPreview = { delimiter: ";", headers: [], proposedMapping: {}, mappingProblems: [], mappingUsed: {}, rows: [] };
+
+const answers: Record<string, () => unknown> = {
+  "/api/sites": () => [site],
+  "/api/sites/3": () => siteDetail,
+  "/api/campaigns/7": campaign,
+  "/api/campaigns/7/uploads/preview": () => preview,
+};
+
+beforeEach(() => {
+  savedMapping = null;
+  vi.stubGlobal(
+    "fetch",
+    vi.fn(async (url: string) => {
+      const answer = answers[url];
+      return new Response(JSON.stringify(answer ? answer() : { error: { code: "not_found", message: "no fixture" } }), { status: answer ? 200 : 404 });
+    }),
+  );
+});
+
+afterEach(() => {
+  cleanup();
+  vi.unstubAllGlobals();
+});
+
+function renderWizard(url: string) {
+  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+  queryClient.setQueryData(["sites", "list"], [site]);
+  const router = createMemoryRouter([{ path: "/upload", element: <UploadPage /> }], { initialEntries: [url] });
+  render(
+    <QueryClientProvider client={queryClient}>
+      <RouterProvider router={router} />
+    </QueryClientProvider>,
+  );
+}
+
+const foreignLog = () => new File(["Timestamp (UTC);FWHM [arcsec];Airmass;Notes\n2026-03-01 23:00:00;0.81;1.12;ok\n"], "trip.csv", { type: "text/csv" });
+
+describe("upload wizard", () => {
+  it("preselects the campaign from the address and proposes a mapping from the file's headers", async () => {
+    renderWizard("/upload?campaign=7");
+    await waitFor(() => expect((screen.getByLabelText("Campaign the logs belong to") as HTMLSelectElement).value).toBe("7"));
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
+    await waitFor(() => expect((screen.getByLabelText(/Time of the sample/) as HTMLSelectElement).value).toBe("Timestamp (UTC)"));
+    expect(screen.getByText(/Proposed from the column names of trip.csv/)).toBeTruthy();
+    expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(false);
+  });
+
+  it("fills in the campaign's saved mapping when it fits the file", async () => {
+    savedMapping = { mapping: { time_utc: "Timestamp (UTC)", seeing_arcsec: "FWHM [arcsec]", zenith_deg: "Airmass" } };
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
+    await screen.findByText(/mapping saved for this campaign fits/);
+    // The saved mapping, not the proposal: the pointing column is read as a zenith angle.
+    expect((screen.getByLabelText(/Zenith angle of the star/) as HTMLSelectElement).value).toBe("Airmass");
+  });
+
+  it("keeps the upload button off until the mapping can be read", async () => {
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [new File(["When;Value\n1;2\n"], "odd.csv")] } });
+    await screen.findByRole("alert", { name: "Mapping problems" });
+    expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(true);
+  });
+});

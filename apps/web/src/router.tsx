@@ -7,13 +7,9 @@ import { AppLayout } from "./routes/_app";
 import { ReportsPage } from "./routes/reports";
 import { RouteError } from "./routes/route-error";
 import { SignInPage } from "./routes/sign-in";
-import { SitesPage } from "./routes/sites";
-import { SitePage, siteLoader } from "./routes/sites.$siteId";
-import { CampaignPage, campaignLoader } from "./routes/campaigns.$campaignId";
 import { sitesQuery } from "./api/sites";
-import { UploadPage } from "./routes/upload";
-import { PeoplePage } from "./routes/admin.people";
 import { usersQuery } from "./api/users";
+import { campaignLoader, siteLoader } from "./route-loaders";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
 
@@ -28,10 +24,11 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         await queryClient.ensureQueryData(sitesQuery);
         return null;
       },
-      element: <SitesPage />,
+      // Page code is split per screen (the map and chart libraries are large); loaders stay in the main bundle.
+      lazy: async () => ({ Component: (await import("./routes/sites")).SitesPage }),
     },
-    { path: "sites/:siteId", loader: siteLoader(queryClient), element: <SitePage /> },
-    { path: "campaigns/:campaignId", loader: campaignLoader(queryClient), element: <CampaignPage /> },
+    { path: "sites/:siteId", loader: siteLoader(queryClient), lazy: async () => ({ Component: (await import("./routes/sites.$siteId")).SitePage }) },
+    { path: "campaigns/:campaignId", loader: campaignLoader(queryClient), lazy: async () => ({ Component: (await import("./routes/campaigns.$campaignId")).CampaignPage }) },
     {
       path: "upload",
       loader: async (args) => {
@@ -39,7 +36,7 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         await queryClient.ensureQueryData(sitesQuery);
         return null;
       },
-      element: <UploadPage />,
+      lazy: async () => ({ Component: (await import("./routes/upload")).UploadPage }),
     },
     {
       path: "admin/people",
@@ -48,7 +45,7 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         await Promise.all([queryClient.ensureQueryData(usersQuery), queryClient.ensureQueryData(sitesQuery)]);
         return null;
       },
-      element: <PeoplePage />,
+      lazy: async () => ({ Component: (await import("./routes/admin.people")).PeoplePage }),
     },
     { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
   ];

@@ -1,7 +1,6 @@
-import type { QueryClient } from "@tanstack/react-query";
 import { keepPreviousData, useQuery, useSuspenseQuery } from "@tanstack/react-query";
 import { createColumnHelper } from "@tanstack/react-table";
-import { Link, useParams, type LoaderFunctionArgs } from "react-router-dom";
+import { Link, useParams } from "react-router-dom";
 import type { UploadListItem } from "@calmcrest/contracts";
 import { campaignQuery, campaignSummaryQuery } from "../api/campaigns";
 import { ApiError } from "../api/client";
@@ -12,21 +11,8 @@ import { MonitorSettings } from "../components/monitor-settings";
 import { Notice, Page } from "../components/page";
 import { SeeingCharts } from "../components/seeing-charts";
 import { SummaryFigures } from "../components/summary-figures";
-import { filtersFromParams } from "../lib/filter-params";
 import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber, reasonLabel } from "../lib/format";
-import { roleLoader } from "../route-guards";
-import { idParam } from "./sites.$siteId";
-
-export function campaignLoader(queryClient: QueryClient) {
-  const guard = roleLoader(queryClient, ["admin", "lead", "engineer"]);
-  return async (args: LoaderFunctionArgs) => {
-    await guard(args);
-    const campaignId = idParam(args.params.campaignId);
-    await queryClient.ensureQueryData(campaignQuery(campaignId));
-    void queryClient.prefetchQuery(campaignSummaryQuery(campaignId, filtersFromParams(new URL(args.request.url).searchParams).filters));
-    return null;
-  };
-}
+import { idParam } from "../route-loaders";
 
 const STATUS_STYLES: Record<string, string> = {
   done: "bg-accent-pale text-accent-strong",

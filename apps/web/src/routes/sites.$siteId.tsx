@@ -1,6 +1,5 @@
-import type { QueryClient } from "@tanstack/react-query";
 import { keepPreviousData, useQuery, useSuspenseQuery } from "@tanstack/react-query";
-import { Link, useParams, type LoaderFunctionArgs } from "react-router-dom";
+import { Link, useParams } from "react-router-dom";
 import type { CampaignListItem, SummaryQuery } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
 import { campaignSummaryQuery } from "../api/campaigns";
@@ -14,29 +13,9 @@ import { Notice, Page } from "../components/page";
 import { SeeingCharts } from "../components/seeing-charts";
 import { SummaryFigures } from "../components/summary-figures";
 import { ApiError } from "../api/client";
-import { filtersFromParams } from "../lib/filter-params";
 import { formatDateUtc, formatNumber } from "../lib/format";
-import { roleLoader } from "../route-guards";
+import { idParam } from "../route-loaders";
 
-/** Route ids are positive integers; anything else is a page that does not exist. */
-export function idParam(value: string | undefined): number {
-  const id = Number(value);
-  if (!Number.isInteger(id) || id <= 0) throw new Response("Not found", { status: 404 });
-  return id;
-}
-
-export function siteLoader(queryClient: QueryClient) {
-  const guard = roleLoader(queryClient, ["admin", "lead", "engineer"]);
-  return async (args: LoaderFunctionArgs) => {
-    await guard(args);
-    const siteId = idParam(args.params.siteId);
-    const { filters } = filtersFromParams(new URL(args.request.url).searchParams);
-    await queryClient.ensureQueryData(siteQuery(siteId));
-    // Start the summary now but do not hold the page for it: the figures show their own loading state.
-    void queryClient.prefetchQuery(siteSummaryQuery(siteId, filters));
-    return null;
-  };
-}
 
 function CampaignCard({ campaign, filters }: { campaign: CampaignListItem; filters: SummaryQuery }) {
   const summary = useQuery({ ...campaignSummaryQuery(campaign.id, filters), placeholderData: keepPreviousData });

@@ -7,6 +7,8 @@ export const campaignQuery = (campaignId: number) =>
   queryOptions({
     queryKey: ["campaigns", "detail", campaignId],
     queryFn: () => api<CampaignDetail>(`/campaigns/${campaignId}`),
+    // While an upload is waiting or being read, keep the page current without a reload.
+    refetchInterval: (query) => (query.state.data?.uploads.some((upload) => upload.status === "queued" || upload.status === "ingesting") ? 1500 : false),
   });
 
 export const campaignSummaryQuery = (campaignId: number, filters: SummaryQuery) =>
@@ -14,6 +16,9 @@ export const campaignSummaryQuery = (campaignId: number, filters: SummaryQuery) 
     queryKey: ["campaigns", "detail", campaignId, "summary", filters],
     queryFn: () => api<SummaryResponse>(`/campaigns/${campaignId}/summary${summaryQueryString(filters)}`),
   });
+
+/** Re-reads a failed or interrupted upload from its stored raw file (202 once queued). */
+export const retryUpload = (uploadId: number) => api<unknown>(`/uploads/${uploadId}/retry`, { method: "POST" });
 
 export const addExclusion = (campaignId: number, input: CreateExclusionInput) =>
   api<Exclusion>(`/campaigns/${campaignId}/exclusions`, { body: input });

@@ -1,8 +1,9 @@
-import { keepPreviousData, useQuery, useSuspenseQuery } from "@tanstack/react-query";
+import { useEffect, useRef, useState } from "react";
+import { keepPreviousData, useQuery, useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
 import { createColumnHelper } from "@tanstack/react-table";
 import { Link, useParams } from "react-router-dom";
 import type { UploadListItem } from "@calmcrest/contracts";
-import { campaignQuery, campaignSummaryQuery } from "../api/campaigns";
+import { campaignQuery, campaignSummaryQuery, retryUpload } from "../api/campaigns";
 import { ApiError } from "../api/client";
 import { DataTable } from "../components/data-table";
 import { Exclusions } from "../components/exclusions";
@@ -26,6 +27,34 @@ export function UploadStatusBadge({ status }: { status: string }) {
   return <span className={`rounded-full px-2 py-0.5 text-xs font-semibold ${STATUS_STYLES[status] ?? "bg-paper"}`}>{status}</span>;
 }
 
+/** Shown on failed or interrupted uploads to those who may upload: the server reads the stored file again. */
+function RetryButton({ upload }: { upload: UploadListItem }) {
+  const queryClient = useQueryClient();
+  const { data: campaign } = useSuspenseQuery(campaignQuery(upload.campaignId));
+  const [problem, setProblem] = useState<string | null>(null);
+  if (!campaign.can.upload) return null;
+  return (
+    <span className="mt-1 block">
+      <button
+        type="button"
+        onClick={async () => {
+          setProblem(null);
+          try {
+            await retryUpload(upload.id);
+            await queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", upload.campaignId] });
+          } catch (error) {
+            setProblem(error instanceof ApiError ? error.message : "The retry could not be started.");
+          }
+        }}
+        className="rounded border border-line px-2 py-0.5 text-xs font-semibold hover:bg-accent-pale"
+      >
+        Read it again
+      </button>
+      {problem ? <span className="mt-1 block max-w-64 text-xs text-bad">{problem}</span> : null}
+    </span>
+  );
+}
+
 const column = createColumnHelper<UploadListItem>();
 const uploadColumns = [
   column.accessor("fileName", {
@@ -45,6 +74,7 @@ const uploadColumns = [
       <span>
         <UploadStatusBadge status={cell.getValue()} />
         {cell.row.original.error ? <span className="mt-1 block max-w-64 text-xs text-bad">{cell.row.original.error}</span> : null}
+        {cell.getValue() === "failed" || cell.getValue() === "interrupted" ? <RetryButton upload={cell.row.original} /> : null}
       </span>
     ),
   }),
@@ -80,6 +110,17 @@ export function CampaignPage() {
   const { data: campaign } = useSuspenseQuery(campaignQuery(campaignId));
   const { filters } = useFilterParams();
   const summary = useQuery({ ...campaignSummaryQuery(campaignId, filters), placeholderData: keepPreviousData });
+  const queryClient = useQueryClient();
+  // When an upload on this page finishes reading (after a retry, say), the figures and charts are recomputed.
+  const finishedUploads = campaign.uploads.filter((upload) => upload.status === "done").length;
+  const seenFinished = useRef(finishedUploads);
+  useEffect(() => {
+    if (seenFinished.current === finishedUploads) return;
+    seenFinished.current = finishedUploads;
+    void queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaignId, "summary"] });
+    void queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaignId, "samples"] });
+    void queryClient.invalidateQueries({ queryKey: ["sites"] });
+  }, [finishedUploads, campaignId, queryClient]);
 
   return (
     <Page

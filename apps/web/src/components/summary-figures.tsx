@@ -50,8 +50,8 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
         {reasons.length > 0 ? "." : ""}
         {heights.length > 1 ? (
           <span className="mt-2 block rounded-md bg-warn-pale px-3 py-2 text-warn" role="note">
-            These figures pool {summary.campaigns.length} campaigns with monitors at different heights above the ground (
-            {heights.map((height) => (height === null ? "not recorded" : `${height} m`)).join(", ")}); a lower monitor sees more ground-layer turbulence. Open each campaign for its own figures.
+            The campaigns of this site have monitors at different heights above the ground (
+            {heights.map((height) => (height === null ? "not recorded" : `${height} m`)).join(", ")}), and these figures pool them; a lower monitor sees more ground-layer turbulence. Open each campaign for its own figures.
           </span>
         ) : null}
         {wavelengths.length > 1 ? ` Campaigns measured at ${wavelengths.join(" and ")} nm; all figures are scaled to 500 nm.` : null}

@@ -22,7 +22,7 @@ export function NightSeriesChart({ night, samples, picker }: { night: string; sa
     <ChartFrame
       title={`Seeing through the night of ${night}`}
       actions={picker}
-      caption="Every accepted sample of the chosen night, in time order (UTC). Drag the ends of the slider under the chart to zoom into part of the night; short spikes are often passing cloud or a gust, a slow rise a changing ground layer."
+      caption="Every accepted sample of the chosen night, in time order (UTC). Drag the ends of the slider under the chart (or Tab to one and use the arrow keys) to zoom into part of the night; short spikes are often passing cloud or a gust, a slow rise a changing ground layer."
     >
       {sorted.length === 0 ? (
         <p className="flex h-full items-center justify-center text-ink-soft">No accepted samples in this night with the current filters.</p>
@@ -43,7 +43,7 @@ export function NightSeriesChart({ night, samples, picker }: { night: string; sa
               labelFormatter={(value) => (typeof value === "number" ? `${clock(value)} UTC` : String(value))}
             />
             <Line dataKey="seeingArcsec" stroke={CHART_COLOURS.data} dot={false} strokeWidth={1.5} isAnimationActive={false} />
-            <Brush dataKey="timeMs" height={22} travellerWidth={10} stroke={CHART_COLOURS.data} tickFormatter={clock} />
+            <Brush dataKey="timeMs" height={22} travellerWidth={10} stroke={CHART_COLOURS.data} tickFormatter={clock} ariaLabel="Start or end of the part of the night shown" />
           </LineChart>
         </ResponsiveContainer>
       )}

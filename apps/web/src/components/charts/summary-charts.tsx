@@ -140,7 +140,7 @@ export function MonthlyBoxChart({ summary }: { summary: SeeingStatistics }) {
       caption={
         <>
           For each month: the box holds the middle half of the samples (25th to 75th percentile), the thick line is the median,
-          the whiskers reach the 10th and 90th percentiles. {best ? `The best median month is ${best.month} (${formatArcsec(best.median)}).` : ""}
+          the whiskers reach the 10th and 90th percentiles. A night counts in the month of the evening it begins. {best ? `The best median month is ${best.month} (${formatArcsec(best.median)}).` : ""}
         </>
       }
     >

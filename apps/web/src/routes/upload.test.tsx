@@ -90,4 +90,13 @@ describe("upload wizard", () => {
     await screen.findByRole("alert", { name: "Mapping problems" });
     expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(true);
   });
+
+  it("refuses a batch whose files have different columns, since one mapping serves them all", async () => {
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    const other = new File(["time_utc,seeing_arcsec,zenith_deg\n2026-03-02T01:00:00Z,0.7,20\n"], "native.csv");
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog(), other] } });
+    await screen.findByText(/native.csv has different columns from trip.csv/);
+    expect((screen.getByRole("button", { name: "Upload 2 files" }) as HTMLButtonElement).disabled).toBe(true);
+  });
 });

@@ -7,7 +7,7 @@ import { AppLayout } from "./routes/_app";
 import { ReportsPage } from "./routes/reports";
 import { RouteError } from "./routes/route-error";
 import { SignInPage } from "./routes/sign-in";
-import { sitesQuery } from "./api/sites";
+import { configQuery, sitesQuery } from "./api/sites";
 import { usersQuery } from "./api/users";
 import { campaignLoader, siteLoader } from "./route-loaders";
 
@@ -21,7 +21,7 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
       path: "sites",
       loader: async (args) => {
         await fieldGuard(args);
-        await queryClient.ensureQueryData(sitesQuery);
+        await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
         return null;
       },
       // Page code is split per screen (the map and chart libraries are large); loaders stay in the main bundle.

@@ -7,3 +7,4 @@ export * from "./uploads";
 export * from "./summaries";
 export * from "./users";
 export * from "./samples";
+export * from "./config";

@@ -144,3 +144,20 @@ describe("seeding", () => {
     ]);
   });
 });
+
+describe("/api/config", () => {
+  it("reports no online map tiles unless the deployment configures them", async () => {
+    const response = await request(app).get("/api/config");
+    expect(response.status).toBe(200);
+    expect(response.body).toEqual({ mapTiles: null });
+  });
+
+  it("hands out the configured tile server", async () => {
+    const { app: tiledApp } = await createTestServer({
+      seed: "none",
+      env: { CALMCREST_TILE_URL: "https://tiles.example.org/{z}/{x}/{y}.png", CALMCREST_TILE_ATTRIBUTION: "Example tiles" },
+    });
+    const response = await request(tiledApp).get("/api/config");
+    expect(response.body).toEqual({ mapTiles: { url: "https://tiles.example.org/{z}/{x}/{y}.png", attribution: "Example tiles" } });
+  });
+});

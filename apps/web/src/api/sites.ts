@@ -1,7 +1,14 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { CreateCampaignInput, CreateSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
+import type { AppConfig, CreateCampaignInput, CreateSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
 import { api } from "./client";
 import { summaryQueryString } from "../lib/filter-params";
+
+/** Deployment settings (online map tiles or none). */
+export const configQuery = queryOptions({
+  queryKey: ["config"],
+  queryFn: () => api<AppConfig>("/config"),
+  staleTime: Infinity,
+});
 
 export const sitesQuery = queryOptions({
   queryKey: ["sites", "list"],

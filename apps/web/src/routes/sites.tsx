@@ -4,7 +4,7 @@ import { Link, useNavigate } from "react-router-dom";
 import { createColumnHelper } from "@tanstack/react-table";
 import type { SiteListItem } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
-import { sitesQuery } from "../api/sites";
+import { configQuery, sitesQuery } from "../api/sites";
 import { DataTable } from "../components/data-table";
 import { Notice, Page } from "../components/page";
 import { SeeingLegend, SiteMap, type MapTiles } from "../components/site-map";
@@ -47,9 +47,9 @@ export function SitesPage() {
   const { data: me } = useSuspenseQuery(meQuery);
   const navigate = useNavigate();
   const [hoveredSiteId, setHoveredSiteId] = useState<number | null>(null);
-  // The server has no route that hands out its tile setting (CALMCREST_TILE_URL) yet, so the map stays on the shipped
-  // outlines and asks nothing: SiteMap takes `tiles` as soon as such a route exists.
-  const tiles: MapTiles | null = null;
+  // Online tiles only where the deployment configured a tile server (CALMCREST_TILE_URL); otherwise the shipped outlines.
+  const { data: config } = useSuspenseQuery(configQuery);
+  const tiles: MapTiles | null = config.mapTiles;
   const withData = useMemo(() => sites.filter((site) => site.summary).length, [sites]);
 
   return (

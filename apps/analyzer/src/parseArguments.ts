@@ -109,7 +109,7 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       const field = split > 0 ? value.slice(0, split).trim() : '';
       const header = split > 0 ? value.slice(split + 1) : '';
       if (!isLogField(field) || header === '') {
-        throw new UsageError(`--map needs field=Header with a Calmcrest field name (time_utc, seeing_arcsec, airmass, …; see docs/log-format.md), got "${value}".`);
+        throw new UsageError(`--map needs field=Header with a Calmcrest field name (time_utc, seeing_arcsec, airmass, …; see the README, "Log format"), got "${value}".`);
       }
       mapping[field] = header;
     } else if (flag === '--thresholds') {

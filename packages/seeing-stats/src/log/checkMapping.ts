@@ -12,7 +12,7 @@ export function checkMapping(mapping: ColumnMapping, headers: readonly string[])
   for (const [field, header] of Object.entries(mapping)) {
     if (header === undefined) continue;
     if (!isLogField(field)) {
-      problems.push(`"${field}" is not a Calmcrest log field; use one of the names in docs/log-format.md.`);
+      problems.push(`"${field}" is not a Calmcrest log field; use one of the names in the README, "Log format".`);
       continue;
     }
     if (!headerSet.has(header)) {

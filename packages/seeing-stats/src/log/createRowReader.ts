@@ -147,7 +147,7 @@ export function createRowReader(options: {
   if (problems.length > 0) {
     throw new LogFormatError(`The columns cannot be read: ${problems[0] ?? ''}`, {
       line: 1,
-      hint: `${problems.slice(1).join(' ')} Map columns with --map field=Header (fields: docs/log-format.md).`.trim(),
+      hint: `${problems.slice(1).join(' ')} Map columns with --map field=Header (fields: README, "Log format").`.trim(),
     });
   }
   const measure = chooseMeasure(mapping, monitor);

@@ -1,4 +1,4 @@
-/** Field names of Calmcrest's native log format (docs/log-format.md). */
+/** Field names of Calmcrest's native log format (README, "Log format"). */
 export type LogField =
   | 'time_utc'
   | 'var_long_arcsec2'

@@ -63,7 +63,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
         if (problems.length > 0) {
           throw new LogFormatError(`Line ${line} (the header line) does not give the columns Calmcrest needs: ${problems[0] ?? ''}`, {
             line,
-            hint: `${problems.slice(1).join(' ')} Headers found: ${headers.map((header) => `"${header}"`).join(', ')}. Rename the columns to the native names (docs/log-format.md) or map them with --map field=Header.`.trim(),
+            hint: `${problems.slice(1).join(' ')} Headers found: ${headers.map((header) => `"${header}"`).join(', ')}. Rename the columns to the native names (README, "Log format") or map them with --map field=Header.`.trim(),
           });
         }
         readRow = createRowReader({ headers, mapping, monitor: options.monitor, site: options.site, delimiter });
@@ -106,7 +106,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
   if (headers === null) {
     throw new LogFormatError('The file is empty: it has no header line and no rows.', {
       line: null,
-      hint: 'Export the log again; a Calmcrest log starts with a line of column names such as time_utc,seeing_arcsec,zenith_deg (docs/log-format.md).',
+      hint: 'Export the log again; a Calmcrest log starts with a line of column names such as time_utc,seeing_arcsec,zenith_deg (README, "Log format").',
     });
   }
   return { headers, delimiter, mapping, rowsRead };

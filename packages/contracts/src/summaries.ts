@@ -2,6 +2,7 @@ import { z } from "zod";
 import { isoInstantSchema } from "./campaigns";
 import type { ResponseSetName } from "./campaigns";
 import type { SampleCounts } from "./uploads";
+import type { SeeingSummary } from "@calmcrest/seeing-stats";
 
 const optionalNumber = (name: string, unit: string) =>
   z.preprocess(
@@ -23,35 +24,8 @@ export const summaryQuerySchema = z.object({
 });
 export type SummaryQuery = z.infer<typeof summaryQuerySchema>;
 
-/** Statistics of accepted samples, at zenith and 500 nm: the seeing engine's SeeingSummary. */
-export interface SeeingStatistics {
-  seeing: {
-    unit: "arcsec";
-    wavelengthNm: 500;
-    atZenith: true;
-    mean: number;
-    p10: number;
-    p25: number;
-    median: number;
-    p75: number;
-    p90: number;
-    /** 95% bootstrap interval of the median, resampling whole nights. */
-    medianCi95: [number, number];
-  };
-  r0: { unit: "cm"; p10: number; p25: number; median: number; p75: number; p90: number };
-  lognormal: { mu: number; sigma: number; median: number; ks: number };
-  /** Keys like "0.6", "0.8", "1.0" (arcsec). */
-  fractionBelow: Record<string, number>;
-  nights: number;
-  monthly: { month: string; samples: number; median: number; p10: number; p25: number; p75: number; p90: number }[];
-  /** Local solar hour 0..23. */
-  hourly: { hour: number; samples: number; median: number }[];
-  nightly: { night: string; samples: number; median: number }[];
-  /** Log-spaced bins with the fitted log-normal density for comparison. */
-  histogram: { lowArcsec: number; highArcsec: number; count: number; density: number; lognormalDensity: number }[];
-  cdf: { seeingArcsec: number; fraction: number }[];
-  method: { seeingConstant: 0.98; percentile: string; bootstrap: string; [key: string]: unknown };
-}
+/** Statistics of accepted samples, at zenith and 500 nm: exactly the seeing engine's SeeingSummary (one definition). */
+export type SeeingStatistics = SeeingSummary;
 
 /** Header of every summary answer: what was summarised and with which settings. */
 export interface SummaryScope {

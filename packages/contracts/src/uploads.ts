@@ -1,4 +1,5 @@
 import type { ColumnMappingInput } from "./campaigns";
+import type { LogSample } from "@calmcrest/seeing-stats";
 
 export const UPLOAD_STATUSES = ["queued", "ingesting", "done", "failed", "interrupted"] as const;
 export type UploadStatusName = (typeof UPLOAD_STATUSES)[number];
@@ -70,28 +71,9 @@ export interface UploadDuplicateBody {
   upload: UploadListItem;
 }
 
-/** A sample as the seeing engine reads it (zenith, 500 nm), shown in the upload preview. */
-export interface PreviewSample {
-  timeMs: number;
-  seeingArcsec: number;
-  r0Cm: number;
-  zenithDeg: number;
-  seeingLongArcsec: number | null;
-  seeingTransArcsec: number | null;
-  anisotropic: boolean;
-  sunAltDeg: number | null;
-  flux: number | null;
-  scintIndex: number | null;
-  tau0Ms: number | null;
-  theta0Arcsec: number | null;
-  windMs: number | null;
-  rhPct: number | null;
-}
+/** A sample as the seeing engine reads it (zenith, 500 nm), shown in the upload preview: the engine's LogSample. */
+export type PreviewSample = LogSample;
 
-/**
- * `POST /api/campaigns/:id/uploads/preview` (multipart `file` with the first rows, optional `mapping` JSON).
- * Nothing is stored. `rows` are the first 20 data rows as read with the mapping (the proposed one if none was sent).
- */
 export interface UploadPreview {
   delimiter: string;
   headers: string[];

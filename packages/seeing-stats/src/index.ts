@@ -35,8 +35,11 @@ export { createSunAltitude, type SiteLocation } from './log/sunAltitude.js';
 export {
   createRowReader,
   chooseMeasure,
+  interlacedFields,
   validateMonitor,
   DEFAULT_ANISOTROPY_RATIO_LIMIT,
+  EXPOSURE_CORRECTION_METHOD,
+  type ExposureCorrection,
   type MonitorSettings,
   type LogSample,
   type RowResult,

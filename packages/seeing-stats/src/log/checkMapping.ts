@@ -3,7 +3,8 @@ import { LOG_FIELD_INFO, isLogField, type ColumnMapping } from './logFields.js';
 /**
  * Problems with a mapping that a person can act on, in plain words; [] when the mapping can be read.
  * Checks: every mapped header exists, no header serves two fields, a time column, one complete measure
- * (both variances, or seeing, or r0), and a pointing (zenith angle or airmass).
+ * (both variances, or seeing, or r0), a pointing (zenith angle or airmass), and variances at twice the exposure
+ * time only as a full pair beside the base-exposure pair of the same unit.
  */
 export function checkMapping(mapping: ColumnMapping, headers: readonly string[]): string[] {
   const problems: string[] = [];
@@ -34,6 +35,19 @@ export function checkMapping(mapping: ColumnMapping, headers: readonly string[])
   }
   if (hasLongPixel !== hasTransPixel) {
     problems.push('Only one of var_long_px2 and var_trans_px2 is mapped; seeing from variances needs both axes.');
+  }
+  // The variances at twice the exposure time are optional, but a half-mapped pair would silently switch the
+  // exposure-time correction off, so it is reported like a half-mapped main pair.
+  for (const unit of ['arcsec2', 'px2'] as const) {
+    const long2x = mapping[`var_long_2x_${unit}`] !== undefined;
+    const trans2x = mapping[`var_trans_2x_${unit}`] !== undefined;
+    if (long2x !== trans2x) {
+      problems.push(`Only one of var_long_2x_${unit} and var_trans_2x_${unit} is mapped; the exposure-time correction needs both axes at twice the exposure time.`);
+    }
+    const main = unit === 'arcsec2' ? hasLongArcsec && hasTransArcsec : hasLongPixel && hasTransPixel;
+    if ((long2x || trans2x) && !main) {
+      problems.push(`var_…_2x_${unit} (variances at twice the exposure time) are mapped without var_long_${unit} and var_trans_${unit}; map the variances at the base exposure time in the same unit too.`);
+    }
   }
   const hasMeasure = (hasLongArcsec && hasTransArcsec) || (hasLongPixel && hasTransPixel) || mapping.seeing_arcsec !== undefined || mapping.r0_cm !== undefined;
   if (!hasMeasure) {

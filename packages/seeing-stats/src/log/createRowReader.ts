@@ -1,5 +1,6 @@
 import { LogFormatError, SeeingInputError, requirePositive } from '../errors.js';
 import { ARCSEC_PER_RADIAN, DEG_TO_RAD, REFERENCE_WAVELENGTH_NM, SEEING_CONSTANT } from '../physics/constants.js';
+import { exposureTimeCorrection } from '../physics/exposureTimeCorrection.js';
 import { responseCoefficients, type ResponseSet } from '../physics/responseCoefficients.js';
 import { checkMapping } from './checkMapping.js';
 import type { ColumnMapping, LogField } from './logFields.js';
@@ -36,6 +37,12 @@ export interface LogSample {
   seeingLongArcsec: number | null;
   seeingTransArcsec: number | null;
   anisotropic: boolean;
+  /**
+   * Exposure-time correction from interlaced exposures (variances at τ and 2τ mapped): 'applied' when the sample
+   * was extrapolated to zero exposure, 'not_applied_noisy' when on some axis the 2τ variance exceeded the τ one
+   * (noise-dominated pair, kept uncorrected), null when the log gives no variances at twice the exposure time.
+   */
+  exposureCorrection: ExposureCorrection | null;
   sunAltDeg: number | null;
   flux: number | null;
   scintIndex: number | null;
@@ -45,7 +52,13 @@ export interface LogSample {
   rhPct: number | null;
 }
 
+export type ExposureCorrection = 'applied' | 'not_applied_noisy';
+
 export type RowResult = { ok: true; sample: LogSample } | { ok: false; reason: RowRejectReason; message: string };
+
+/** The modified-exponential rule the row reader applies, named in outputs. */
+export const EXPOSURE_CORRECTION_METHOD =
+  'ε0 = ε(τ)^1.75 ε(2τ)^(-0.75) per axis from interlaced exposures (Tokovinin 2002 modified exponential; exponents from memory); samples with ε(2τ) > ε(τ) on an axis are kept uncorrected as noise-dominated';
 
 /** Which input a reader turns into seeing; variances win when the monitor geometry is known. */
 export type MeasureSource = 'variance_arcsec2' | 'variance_px2' | 'seeing' | 'r0';
@@ -86,6 +99,16 @@ export function chooseMeasure(mapping: ColumnMapping, monitor: MonitorSettings):
   throw new LogFormatError('The log has no usable seeing measure.', {
     hint: 'Map both variances, or seeing_arcsec, or r0_cm (analyzer: --map field=Header).',
   });
+}
+
+/**
+ * The fields holding the variances at twice the exposure time that a reader with this measure uses, or null:
+ * only both axes in the unit of the variances being read.
+ */
+export function interlacedFields(mapping: ColumnMapping, measure: MeasureSource): [LogField, LogField] | null {
+  if (measure !== 'variance_arcsec2' && measure !== 'variance_px2') return null;
+  const fields: [LogField, LogField] = measure === 'variance_px2' ? ['var_long_2x_px2', 'var_trans_2x_px2'] : ['var_long_2x_arcsec2', 'var_trans_2x_arcsec2'];
+  return mapping[fields[0]] !== undefined && mapping[fields[1]] !== undefined ? fields : null;
 }
 
 function columnIndex(headers: readonly string[], mapping: ColumnMapping, field: LogField): number {
@@ -131,6 +154,8 @@ function optionalNumber(fields: readonly string[], index: number, decimalComma: 
  * non_physical (variance/seeing/r0 ≤ 0, NaN/inf, zenith outside [0°, 90°), airmass < 1).
  * Variances → r0 per axis with the chosen response coefficients (Tokovinin 2002 / Sarazin & Roddier 1990),
  * r0 ∝ λ^(6/5) (cos z)^(3/5) to the reference, ε = 0.98 λ/r0 per axis, sample seeing = their mean.
+ * With variances at twice the exposure time (var_…_2x_…, same unit) each axis is extrapolated to zero exposure
+ * (exposureTimeCorrection, Tokovinin 2002) before the axes are averaged, except on noise-dominated pairs.
  * Sun altitude is attached when a site is given. Throws LogFormatError when the mapping cannot work,
  * SeeingInputError for bad settings. `delimiter` ';' or tab lets "0,85" be read as 0.85.
  */
@@ -159,6 +184,9 @@ export function createRowReader(options: {
   const r0Index = columnIndex(headers, mapping, 'r0_cm');
   const longIndex = columnIndex(headers, mapping, measure === 'variance_px2' ? 'var_long_px2' : 'var_long_arcsec2');
   const transIndex = columnIndex(headers, mapping, measure === 'variance_px2' ? 'var_trans_px2' : 'var_trans_arcsec2');
+  const interlaced = interlacedFields(mapping, measure);
+  const long2xIndex = interlaced === null ? -1 : columnIndex(headers, mapping, interlaced[0]);
+  const trans2xIndex = interlaced === null ? -1 : columnIndex(headers, mapping, interlaced[1]);
   const fluxIndex = columnIndex(headers, mapping, 'flux');
   const scintIndex = columnIndex(headers, mapping, 'scint_index');
   const tau0Index = columnIndex(headers, mapping, 'tau0_ms');
@@ -213,6 +241,7 @@ export function createRowReader(options: {
     let seeingLongArcsec: number | null = null;
     let seeingTransArcsec: number | null = null;
     let anisotropic = false;
+    let exposureCorrection: ExposureCorrection | null = null;
     if (measure === 'variance_arcsec2' || measure === 'variance_px2') {
       const varianceLong = readNumber(fields, longIndex, decimalComma);
       if (Number.isNaN(varianceLong)) return missingOrNonFinite(measureName.replace('…', 'long'));
@@ -223,6 +252,30 @@ export function createRowReader(options: {
       }
       seeingLongArcsec = longFactor * (varianceLong * varianceToArcsec2 * cosZenith) ** (3 / 5);
       seeingTransArcsec = transFactor * (varianceTrans * varianceToArcsec2 * cosZenith) ** (3 / 5);
+      if (interlaced !== null) {
+        const varianceLong2x = readNumber(fields, long2xIndex, decimalComma);
+        if (Number.isNaN(varianceLong2x)) return missingOrNonFinite(interlaced[0]);
+        const varianceTrans2x = readNumber(fields, trans2xIndex, decimalComma);
+        if (Number.isNaN(varianceTrans2x)) return missingOrNonFinite(interlaced[1]);
+        if (!(varianceLong2x > 0) || !(varianceTrans2x > 0)) {
+          return nonPhysical(`variances at twice the exposure time must be > 0, got ${varianceLong2x} and ${varianceTrans2x}`);
+        }
+        // Reduced to zenith and 500 nm like the base exposure: both carry the same factor c (airmass, wavelength,
+        // response, plate scale), and (c ε1)^1.75 (c ε2)^(-0.75) = c^(1.75-0.75) ε1^1.75 ε2^(-0.75) = c · rule(ε1, ε2)
+        // since the exponents sum to 1, so correcting after the reduction equals correcting the raw seeing.
+        const seeingLong2xArcsec = longFactor * (varianceLong2x * varianceToArcsec2 * cosZenith) ** (3 / 5);
+        const seeingTrans2xArcsec = transFactor * (varianceTrans2x * varianceToArcsec2 * cosZenith) ** (3 / 5);
+        // A longer exposure cannot show more motion: a pair with ε(2τ) > ε(τ) on either axis is noise-dominated
+        // and the whole sample stays uncorrected (seeing-physics.md §3.1, "flag them rather than extrapolate").
+        // Compared on the seeing values the rule receives, so its own refusal can never fire here.
+        if (seeingLong2xArcsec > seeingLongArcsec || seeingTrans2xArcsec > seeingTransArcsec) {
+          exposureCorrection = 'not_applied_noisy';
+        } else {
+          seeingLongArcsec = exposureTimeCorrection(seeingLongArcsec, seeingLong2xArcsec);
+          seeingTransArcsec = exposureTimeCorrection(seeingTransArcsec, seeingTrans2xArcsec);
+          exposureCorrection = 'applied';
+        }
+      }
       seeingArcsec = (seeingLongArcsec + seeingTransArcsec) / 2;
       const ratio = seeingLongArcsec > seeingTransArcsec ? seeingLongArcsec / seeingTransArcsec : seeingTransArcsec / seeingLongArcsec;
       anisotropic = ratio > anisotropyLimit;
@@ -250,6 +303,7 @@ export function createRowReader(options: {
         seeingLongArcsec,
         seeingTransArcsec,
         anisotropic,
+        exposureCorrection,
         sunAltDeg: sunAltitude === null ? null : sunAltitude(timeMs),
         flux: optionalNumber(fields, fluxIndex, decimalComma),
         scintIndex: optionalNumber(fields, scintIndex, decimalComma),

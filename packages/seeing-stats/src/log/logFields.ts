@@ -5,6 +5,10 @@ export type LogField =
   | 'var_trans_arcsec2'
   | 'var_long_px2'
   | 'var_trans_px2'
+  | 'var_long_2x_arcsec2'
+  | 'var_trans_2x_arcsec2'
+  | 'var_long_2x_px2'
+  | 'var_trans_2x_px2'
   | 'seeing_arcsec'
   | 'r0_cm'
   | 'zenith_deg'
@@ -22,6 +26,10 @@ export const LOG_FIELDS: readonly LogField[] = [
   'var_trans_arcsec2',
   'var_long_px2',
   'var_trans_px2',
+  'var_long_2x_arcsec2',
+  'var_trans_2x_arcsec2',
+  'var_long_2x_px2',
+  'var_trans_2x_px2',
   'seeing_arcsec',
   'r0_cm',
   'zenith_deg',
@@ -43,6 +51,11 @@ export const LOG_FIELD_INFO: Record<LogField, { label: string; unit: string; req
   var_trans_arcsec2: { label: 'Transverse differential image-motion variance', unit: 'arcsec²', required: 'one-measure' },
   var_long_px2: { label: 'Longitudinal differential image-motion variance', unit: 'pixel²', required: 'one-measure' },
   var_trans_px2: { label: 'Transverse differential image-motion variance', unit: 'pixel²', required: 'one-measure' },
+  // Monitors that interlace two exposure times log the variances of the longer one too (exposure-time correction).
+  var_long_2x_arcsec2: { label: 'Longitudinal variance at twice the exposure time', unit: 'arcsec²', required: 'optional' },
+  var_trans_2x_arcsec2: { label: 'Transverse variance at twice the exposure time', unit: 'arcsec²', required: 'optional' },
+  var_long_2x_px2: { label: 'Longitudinal variance at twice the exposure time', unit: 'pixel²', required: 'optional' },
+  var_trans_2x_px2: { label: 'Transverse variance at twice the exposure time', unit: 'pixel²', required: 'optional' },
   seeing_arcsec: { label: 'Seeing FWHM as the monitor computed it', unit: 'arcsec', required: 'one-measure' },
   r0_cm: { label: 'Fried parameter r0 as the monitor computed it', unit: 'cm', required: 'one-measure' },
   zenith_deg: { label: 'Zenith angle of the star', unit: 'deg', required: 'one-pointing' },

@@ -3,7 +3,7 @@ import { stat } from 'node:fs/promises';
 import { LogFormatError, SeeingInputError, requireRange } from '../errors.js';
 import type { ColumnMapping } from '../log/logFields.js';
 import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filterReason.js';
-import type { FilterRejectReason, MonitorSettings, RejectReason } from '../log/createRowReader.js';
+import { chooseMeasure, EXPOSURE_CORRECTION_METHOD, interlacedFields, type ExposureCorrection, type FilterRejectReason, type MonitorSettings, type RejectReason } from '../log/createRowReader.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
 import { RESPONSE_SET_NAMES } from '../physics/responseCoefficients.js';
 import { summarizeSeeing, type SeeingSummary, type SummaryOptions } from '../summary/summarizeSeeing.js';
@@ -26,12 +26,17 @@ export interface AnalyzerReport extends SeeingSummary {
     rejectedByReason: Record<string, number>;
     /** Accepted samples whose longitudinal and transverse estimates disagree by more than the set ratio (kept, flagged). */
     anisotropic: number;
+    /** Accepted samples extrapolated to zero exposure from interlaced exposures (0 without 2x variance columns). */
+    exposureCorrected: number;
+    /** Accepted samples left uncorrected because ε(2τ) > ε(τ) on an axis (noise-dominated pair). */
+    exposureNotCorrectedNoisy: number;
     firstTimeUtc: string | null;
     lastTimeUtc: string | null;
   };
   /** The first 100 rejected rows in line order. */
   rejectedRows: { line: number; reason: RejectReason; message: string }[];
   monitor: MonitorSettings & { responseName: string };
+  method: SeeingSummary['method'] & { exposureCorrection: string };
   filters: FilterSettings & { nightFilter: boolean };
   file: { headers: string[]; delimiter: string; mapping: ColumnMapping };
 }
@@ -39,6 +44,8 @@ export interface AnalyzerReport extends SeeingSummary {
 const MAX_LISTED_REJECTIONS = 100;
 const FILTER_CODES: readonly FilterRejectReason[] = ['zenith_limit', 'sun_above_limit', 'low_flux'];
 const DUPLICATE_CODE = 255;
+/** GrowableColumns.exposure codes: index 0 = no interlaced columns. */
+const EXPOSURE_CODES: readonly (ExposureCorrection | null)[] = [null, 'applied', 'not_applied_noisy'];
 
 /**
  * Analyses one log end to end: streams it (file path or readable stream), rejects unreadable, empty and
@@ -57,6 +64,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
   const rejectedByReason: Record<string, number> = {};
   const listed: { line: number; reason: RejectReason; message: string }[] = [];
   let anisotropic = 0;
+  const exposureCounts = [0, 0, 0];
   const countReject = (line: number, reason: RejectReason, message: string): void => {
     rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
     if (listed.length < MAX_LISTED_REJECTIONS) listed.push({ line, reason, message });
@@ -69,7 +77,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
       const reason = filterReason(sample, filters);
       if (sample.timeMs <= previousTimeMs) timesAscending = false;
       previousTimeMs = sample.timeMs;
-      kept.push(sample.timeMs, sample.seeingArcsec, line, reason === null ? 0 : FILTER_CODES.indexOf(reason) + 1, sample.anisotropic);
+      kept.push(sample.timeMs, sample.seeingArcsec, line, reason === null ? 0 : FILTER_CODES.indexOf(reason) + 1, sample.anisotropic, EXPOSURE_CODES.indexOf(sample.exposureCorrection));
     },
     onReject(line, reason, message) {
       countReject(line, reason, message);
@@ -88,6 +96,8 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
       kept.timeMs[accepted] = kept.timeMs[index] ?? 0;
       kept.seeingArcsec[accepted] = kept.seeingArcsec[index] ?? 0;
       anisotropic += kept.anisotropic[index] ?? 0;
+      const exposureCode = kept.exposure[index] ?? 0;
+      exposureCounts[exposureCode] = (exposureCounts[exposureCode] ?? 0) + 1;
       accepted += 1;
       continue;
     }
@@ -117,15 +127,25 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
       rejected,
       rejectedByReason,
       anisotropic,
+      exposureCorrected: exposureCounts[1] ?? 0,
+      exposureNotCorrectedNoisy: exposureCounts[2] ?? 0,
       firstTimeUtc: accepted > 0 ? new Date(firstTimeMs).toISOString() : null,
       lastTimeUtc: accepted > 0 ? new Date(lastTimeMs).toISOString() : null,
     },
     ...summary,
+    method: { ...summary.method, exposureCorrection: exposureMethod(file.mapping, options.monitor) },
     rejectedRows,
     monitor: { ...options.monitor, responseName: RESPONSE_SET_NAMES[options.monitor.response] },
     filters: { ...filters, nightFilter: options.site !== undefined },
     file,
   };
+}
+
+/** Names the exposure-time rule when the reader used interlaced exposures, and says why not otherwise. */
+function exposureMethod(mapping: ColumnMapping, monitor: MonitorSettings): string {
+  // streamLog has already built a reader with this mapping, so chooseMeasure cannot throw here.
+  if (interlacedFields(mapping, chooseMeasure(mapping, monitor)) !== null) return EXPOSURE_CORRECTION_METHOD;
+  return 'not applied: the seeing is not read from variances with both var_…_2x_… columns (variances at twice the exposure time)';
 }
 
 /** Marks every readable row whose time already appeared on an earlier readable row (status → duplicate). */

@@ -7,15 +7,18 @@ export class GrowableColumns {
   status = new Uint8Array(1024);
   /** 1 when the sample's two axis estimates disagree beyond the set ratio. */
   anisotropic = new Uint8Array(1024);
+  /** Exposure-time correction of the sample: one of EXPOSURE_CODES. */
+  exposure = new Uint8Array(1024);
   length = 0;
 
-  push(timeMs: number, seeingArcsec: number, line: number, status: number, anisotropic: boolean): void {
+  push(timeMs: number, seeingArcsec: number, line: number, status: number, anisotropic: boolean, exposure: number): void {
     if (this.length === this.timeMs.length) this.grow();
     this.timeMs[this.length] = timeMs;
     this.seeingArcsec[this.length] = seeingArcsec;
     this.line[this.length] = line;
     this.status[this.length] = status;
     this.anisotropic[this.length] = anisotropic ? 1 : 0;
+    this.exposure[this.length] = exposure;
     this.length += 1;
   }
 
@@ -36,5 +39,8 @@ export class GrowableColumns {
     const anisotropic = new Uint8Array(capacity);
     anisotropic.set(this.anisotropic);
     this.anisotropic = anisotropic;
+    const exposure = new Uint8Array(capacity);
+    exposure.set(this.exposure);
+    this.exposure = exposure;
   }
 }

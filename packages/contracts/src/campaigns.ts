@@ -1,3 +1,4 @@
+import { LOG_FIELDS } from "@calmcrest/seeing-stats";
 import { z } from "zod";
 import type { UploadListItem } from "./uploads";
 
@@ -13,29 +14,12 @@ export const RESPONSE_SET_LABELS: Record<ResponseSetName, string> = {
 export const CAMPAIGN_STATUSES = ["planned", "running", "finished"] as const;
 export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];
 
-/** Field names of Calmcrest's native log format (same list as the seeing engine's LOG_FIELDS). */
-export const LOG_FIELD_NAMES = [
-  "time_utc",
-  "var_long_arcsec2",
-  "var_trans_arcsec2",
-  "var_long_px2",
-  "var_trans_px2",
-  "seeing_arcsec",
-  "r0_cm",
-  "zenith_deg",
-  "airmass",
-  "flux",
-  "scint_index",
-  "tau0_ms",
-  "theta0_arcsec",
-  "wind_ms",
-  "rh_pct",
-] as const;
-export type LogFieldName = (typeof LOG_FIELD_NAMES)[number];
-
-/** Field name -> header text as written in the file (like the analyzer's `--map field=Header`). */
+/**
+ * Field name -> header text as written in the file (like the analyzer's `--map field=Header`). The field names
+ * are the engine's LOG_FIELDS, so the server accepts exactly the fields the row reader knows.
+ */
 export const columnMappingSchema = z.partialRecord(
-  z.enum(LOG_FIELD_NAMES, { error: "Unknown field name; use one of the native log fields (time_utc, seeing_arcsec, ...)." }),
+  z.enum(LOG_FIELDS, { error: "Unknown field name; use one of the native log fields (time_utc, seeing_arcsec, ...)." }),
   z.string().min(1, "A mapped header cannot be empty."),
 );
 export type ColumnMappingInput = z.infer<typeof columnMappingSchema>;

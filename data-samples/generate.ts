@@ -96,7 +96,41 @@ async function syntheticLines(options: { seed: number; nights: number; cadenceSe
   console.log('r0-cm.csv 300 rows');
 }
 
-// 5. Files that cannot be read at all.
+// 5. Native format with interlaced exposures: variances at τ = 5 ms and at 2τ = 10 ms, in arcsec².
+{
+  const lines = await syntheticLines({ seed: 16, nights: 1, cadenceSeconds: 120, apertureMm: 60, baselineMm: 200, wavelengthNm: 500, startDate: '2025-09-14' });
+  const header = lines.findIndex((line) => line.startsWith('time_utc'));
+  const random = createRandom(16);
+  // The synthetic variances stand for the 5 ms exposure. The 10 ms one follows ln ε(τ) = ln ε0 + c τ^p with
+  // p = log2(7/3), the law the 1.75/−0.75 rule inverts exactly: ε(2τ)/ε(τ) = exp((2^p − 1) c τ^p) = exp(4/3 · c τ^p),
+  // and variances scale as ε^(5/3). c τ^p is drawn per row between −0.06 and −0.01 (a few per cent of smoothing).
+  const doubleVariance = (variance: number, shrink: number): string => (variance * Math.exp(((4 / 3) * shrink * 5) / 3)).toPrecision(6);
+  // Rows (counted from the first data row) whose pair is noise-dominated: the 10 ms variance above the 5 ms one.
+  const noisyAxes = new Map<number, 'long' | 'trans' | 'both'>([
+    [25, 'trans'],
+    [80, 'long'],
+    [140, 'both'],
+    [200, 'trans'],
+  ]);
+  const body = lines.slice(header + 1).map((line, index) => {
+    const [time, long, trans, zenith, flux] = line.split(',');
+    const shrinkLong = -0.01 - 0.05 * random();
+    const shrinkTrans = -0.01 - 0.05 * random();
+    const noisy = noisyAxes.get(index);
+    const long2x = noisy === 'long' || noisy === 'both' ? (Number(long) * 1.12).toPrecision(6) : doubleVariance(Number(long), shrinkLong);
+    const trans2x = noisy === 'trans' || noisy === 'both' ? (Number(trans) * 1.09).toPrecision(6) : doubleVariance(Number(trans), shrinkTrans);
+    return [time, long, trans, long2x, trans2x, zenith, flux].join(',');
+  });
+  // Damaged 2τ cells: an empty one (missing_value) and a zero (non_physical).
+  body[60] = (body[60] ?? '').replace(/^([^,]*,[^,]*,[^,]*,[^,]*,)[^,]*/, '$1');
+  body[120] = (body[120] ?? '').replace(/^([^,]*,[^,]*,[^,]*,)[^,]*/, '$10');
+  const comments = [...lines.slice(0, header), '# interlaced exposures: 5 ms and 10 ms frames alternate; the _2x_ columns are the 10 ms variances'];
+  const out = [...comments, 'time_utc,var_long_arcsec2,var_trans_arcsec2,var_long_2x_arcsec2,var_trans_2x_arcsec2,zenith_deg,flux', ...body];
+  writeFileSync(join(here, 'native-interlaced.csv'), `${out.join('\n')}\n`);
+  console.log('native-interlaced.csv', body.length, 'rows,', noisyAxes.size, 'noise-dominated, 2 damaged 2x cells, header on line', comments.length + 1);
+}
+
+// 6. Files that cannot be read at all.
 {
   const random = createRandom(15);
   const bytes = new Uint8Array(2048);

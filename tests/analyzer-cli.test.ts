@@ -1,6 +1,6 @@
 // The command-line analyzer on every sample log (counts documented in data-samples/README.md) and on unusable input.
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -22,9 +22,11 @@ interface Samples {
   accepted: number;
   rejected: number;
   rejectedByReason: Record<string, number>;
+  exposureCorrected: number;
+  exposureNotCorrectedNoisy: number;
 }
 
-function analyzeJson(...args: string[]): { samples: Samples; seeing: { median: number; medianCi95: [number, number]; unit: string; wavelengthNm: number; atZenith: boolean }; r0: { median: number }; nights: number; monthly: unknown[]; hourly: unknown[]; fractionBelow: Record<string, number>; lognormal: { ks: number } } {
+function analyzeJson(...args: string[]): { samples: Samples; method: Record<string, string | number>; seeing: { median: number; medianCi95: [number, number]; unit: string; wavelengthNm: number; atZenith: boolean }; r0: { median: number }; nights: number; monthly: unknown[]; hourly: unknown[]; fractionBelow: Record<string, number>; lognormal: { ks: number } } {
   const run = analyze(...args, '--json');
   expect(run.status, run.stderr).toBe(0);
   return JSON.parse(run.stdout) as ReturnType<typeof analyzeJson>;
@@ -65,6 +67,31 @@ describe('analyzer on the sample logs', () => {
     expect(report.samples.rejectedByReason).toEqual({ non_physical: 1 });
     // the r0 median of the report is the r0 of the median seeing (0.98 λ / ε at 500 nm)
     expect(report.r0.median).toBeCloseTo((0.98 * 500e-9 * 206264.806 * 100) / report.seeing.median, 3);
+  });
+  it('extrapolates native-interlaced.csv to zero exposure except the noise-dominated pairs', () => {
+    const report = analyzeJson(sample('native-interlaced.csv'), '--aperture-mm', '60', '--baseline-mm', '200', '--site-lat', '-27.42', '--site-lon', '-70.15');
+    expect(report.samples).toMatchObject({ read: 282, accepted: 280, rejected: 2, exposureCorrected: 276, exposureNotCorrectedNoisy: 4 });
+    expect(report.samples.rejectedByReason).toEqual({ missing_value: 1, non_physical: 1 });
+    expect(report.method.exposureCorrection).toMatch(/ε\(τ\)\^1\.75 ε\(2τ\)\^\(-0\.75\).*Tokovinin 2002/);
+    // The same rows without the 2τ columns: nothing corrected, the two rows with damaged 2τ cells now readable,
+    // and a lower median, since a finite exposure smooths the image motion (seeing-physics.md §3.1).
+    const folder = mkdtempSync(join(tmpdir(), 'calmcrest-analyzer-'));
+    const singleExposure = join(folder, 'single-exposure.csv');
+    const text = readFileSync(sample('native-interlaced.csv'), 'utf8');
+    writeFileSync(singleExposure, text.split('\n').map((line) => (line.startsWith('#') ? line : line.split(',').filter((_, column) => column !== 3 && column !== 4).join(','))).join('\n'));
+    const uncorrected = analyzeJson(singleExposure, '--aperture-mm', '60', '--baseline-mm', '200', '--site-lat', '-27.42', '--site-lon', '-70.15');
+    expect(uncorrected.samples).toMatchObject({ read: 282, accepted: 282, exposureCorrected: 0, exposureNotCorrectedNoisy: 0 });
+    expect(uncorrected.method.exposureCorrection).toMatch(/^not applied/);
+    expect(report.seeing.median).toBeGreaterThan(uncorrected.seeing.median * 1.01);
+  });
+  it('says in the readable output how many samples were extrapolated and how many left uncorrected', () => {
+    const run = analyze(sample('native-interlaced.csv'), '--aperture-mm', '60', '--baseline-mm', '200');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toMatch(/276 accepted samples extrapolated to zero exposure/);
+    expect(run.stdout).toMatch(/4 accepted samples left uncorrected as noise-dominated/);
+    expect(run.stdout).toMatch(/line {6}65 {2}missing_value {4}var_trans_2x_arcsec2 is empty/);
+    // a log without interlaced exposures gets no such line
+    expect(analyze(sample('r0-cm.csv')).stdout).not.toMatch(/Exposure time/);
   });
   it('lists rejected rows with their line numbers in the readable output', () => {
     const run = analyze(sample('native-arcsec2.csv'), '--aperture-mm', '60', '--baseline-mm', '200');

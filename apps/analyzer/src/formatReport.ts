@@ -24,10 +24,8 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
   for (const [reason, count] of reasons) lines.push(`  ${reason.padEnd(16)} ${String(count).padStart(8)}`);
   if (samples.anisotropic > 0) lines.push(`  (${samples.anisotropic} accepted samples flagged anisotropic: their two axes disagree)`);
   if (samples.exposureCorrected + samples.exposureNotCorrectedNoisy > 0) {
-    lines.push(
-      `Exposure time: ${samples.exposureCorrected} accepted samples extrapolated to zero exposure from the τ and 2τ variances (ε(τ)^1.75 ε(2τ)^-0.75, Tokovinin 2002);` +
-        ` ${samples.exposureNotCorrectedNoisy} left uncorrected as noise-dominated (ε(2τ) > ε(τ) on an axis)`,
-    );
+    lines.push(`Exposure time: ${samples.exposureCorrected} accepted samples extrapolated to zero exposure from the τ and 2τ variances (ε(τ)^1.75 ε(2τ)^-0.75, Tokovinin 2002)`);
+    lines.push(`  ${samples.exposureNotCorrectedNoisy} accepted samples left uncorrected as noise-dominated (ε(2τ) > ε(τ) on an axis)`);
   }
   if (samples.firstTimeUtc !== null && samples.lastTimeUtc !== null) lines.push(`Time span: ${samples.firstTimeUtc} to ${samples.lastTimeUtc}, ${report.nights} nights`);
   lines.push('');

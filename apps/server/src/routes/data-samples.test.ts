@@ -62,6 +62,14 @@ const cases: Case[] = [
     query: "",
     summary: { read: 300, accepted: 299, rejectedByReason: { non_physical: 1 } },
   },
+  {
+    file: "native-interlaced.csv",
+    monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, exposureMs: 5 },
+    // The damaged 2τ cells are row-level rejections; the noise-dominated pairs are accepted uncorrected.
+    ingest: { read: 282, accepted: 280, rejectedByReason: { missing_value: 1, non_physical: 1 } },
+    query: "",
+    summary: { read: 282, accepted: 280, rejectedByReason: { missing_value: 1, non_physical: 1 } },
+  },
 ];
 
 describe("the data-samples logs through the upload API", () => {
@@ -77,6 +85,29 @@ describe("the data-samples logs through the upload API", () => {
       expect(summary.samples).toEqual({ ...testCase.summary, rejected: testCase.summary.read - testCase.summary.accepted });
     });
   }
+
+  it("accepts a mapping that names the 2x variance fields, and reads the file without them when they are left out", async () => {
+    const singleExposure = { time_utc: "time_utc", var_long_arcsec2: "var_long_arcsec2", var_trans_arcsec2: "var_trans_arcsec2", zenith_deg: "zenith_deg", flux: "flux" };
+    const interlaced = { ...singleExposure, var_long_2x_arcsec2: "var_long_2x_arcsec2", var_trans_2x_arcsec2: "var_trans_2x_arcsec2" };
+    const file = join(DATA_SAMPLES, "native-interlaced.csv");
+    const withPairs = await createSiteAndCampaign(lead);
+    const postedPairs = await postUpload(lead, withPairs.campaign.id, file, "log.csv", interlaced);
+    expect(postedPairs.status, JSON.stringify(postedPairs.body)).toBe(202);
+    const pairs = await waitForUpload(lead, postedPairs.body.upload.id);
+    expect(pairs.samples).toEqual({ read: 282, accepted: 280, rejected: 2, rejectedByReason: { missing_value: 1, non_physical: 1 } });
+    // Without the 2τ columns the two rows with damaged 2τ cells are readable, and the seeing is the 5 ms one.
+    const withoutPairs = await createSiteAndCampaign(lead);
+    const postedSingle = await postUpload(lead, withoutPairs.campaign.id, file, "log.csv", singleExposure);
+    expect(postedSingle.status).toBe(202);
+    const single = await waitForUpload(lead, postedSingle.body.upload.id);
+    expect(single.samples).toEqual({ read: 282, accepted: 282, rejected: 0, rejectedByReason: {} });
+    const medianOf = async (campaignId: number) => {
+      const summary = (await lead.get(`/api/campaigns/${campaignId}/summary`)).body as SummaryResponse;
+      return summary.empty ? Number.NaN : summary.seeing.median;
+    };
+    // A finite exposure smooths the image motion, so the extrapolated seeing is larger (seeing-physics.md §3.1).
+    expect(await medianOf(withPairs.campaign.id)).toBeGreaterThan((await medianOf(withoutPairs.campaign.id)) * 1.01);
+  });
 
   it("refuses the three unreadable files with the analyzer's message", async () => {
     const { campaign } = await createSiteAndCampaign(lead);

@@ -36,34 +36,36 @@ export function readLogHead(text: string, maxRows = 8): LogHead {
 export type VarianceUnit = "arcsec2" | "px2";
 export type PointingKind = "zenith" | "airmass";
 
-const VARIANCE_FIELDS: Record<VarianceUnit, [LogField, LogField]> = {
-  arcsec2: ["var_long_arcsec2", "var_trans_arcsec2"],
-  px2: ["var_long_px2", "var_trans_px2"],
+/** The variance fields of each unit, in matching order: base exposure, then twice the exposure time (optional). */
+const VARIANCE_FIELDS: Record<VarianceUnit, readonly LogField[]> = {
+  arcsec2: ["var_long_arcsec2", "var_trans_arcsec2", "var_long_2x_arcsec2", "var_trans_2x_arcsec2"],
+  px2: ["var_long_px2", "var_trans_px2", "var_long_2x_px2", "var_trans_2x_px2"],
 };
 const POINTING_FIELD: Record<PointingKind, LogField> = { zenith: "zenith_deg", airmass: "airmass" };
 
 /** The units a mapping implies: variances in arcsec² or pixel², pointing as zenith angle or airmass. */
 export function unitsOfMapping(mapping: ColumnMapping): { variance: VarianceUnit; pointing: PointingKind } {
   return {
-    variance: mapping.var_long_px2 !== undefined || mapping.var_trans_px2 !== undefined ? "px2" : "arcsec2",
+    variance: VARIANCE_FIELDS.px2.some((field) => mapping[field] !== undefined) ? "px2" : "arcsec2",
     pointing: mapping.airmass !== undefined && mapping.zenith_deg === undefined ? "airmass" : "zenith",
   };
 }
 
 /**
- * The same columns read in other units: the variance columns move between the arcsec² and pixel² fields,
- * the pointing column between zenith angle and airmass. Other fields stay as they are.
+ * The same columns read in other units: the variance columns (and those at twice the exposure time) move between
+ * the arcsec² and pixel² fields, the pointing column between zenith angle and airmass. Other fields stay as they are.
  */
 export function withUnits(mapping: ColumnMapping, units: { variance: VarianceUnit; pointing: PointingKind }): ColumnMapping {
   const next: ColumnMapping = { ...mapping };
-  const [longField, transField] = VARIANCE_FIELDS[units.variance];
-  const [otherLong, otherTrans] = VARIANCE_FIELDS[units.variance === "px2" ? "arcsec2" : "px2"];
-  const longHeader = next[longField] ?? next[otherLong];
-  const transHeader = next[transField] ?? next[otherTrans];
-  delete next[otherLong];
-  delete next[otherTrans];
-  if (longHeader !== undefined) next[longField] = longHeader;
-  if (transHeader !== undefined) next[transField] = transHeader;
+  const fields = VARIANCE_FIELDS[units.variance];
+  const otherFields = VARIANCE_FIELDS[units.variance === "px2" ? "arcsec2" : "px2"];
+  fields.forEach((field, index) => {
+    const otherField = otherFields[index];
+    if (otherField === undefined) return;
+    const header = next[field] ?? next[otherField];
+    delete next[otherField];
+    if (header !== undefined) next[field] = header;
+  });
   const pointingField = POINTING_FIELD[units.pointing];
   const otherPointing = POINTING_FIELD[units.pointing === "zenith" ? "airmass" : "zenith"];
   const pointingHeader = next[pointingField] ?? next[otherPointing];

@@ -7,14 +7,19 @@ import { MappingEditor } from "./mapping-editor";
 
 const head = readLogHead("Timestamp (UTC);FWHM [arcsec];Airmass;Star counts\n2026-03-01 23:00:00;0.81;1.12;5400\n2026-03-01 23:01:00;0.77;1.13;5380\n");
 
+// The header of data-samples/native-interlaced.csv: variances at the base exposure and at twice it.
+const interlacedHead = readLogHead(
+  "# interlaced exposures\ntime_utc,var_long_arcsec2,var_trans_arcsec2,var_long_2x_arcsec2,var_trans_2x_arcsec2,zenith_deg,flux\n2025-09-14T23:54:36Z,0.354415,0.261454,0.323142,0.251640,40.40,20174\n",
+);
+
 let latest: ColumnMapping = {};
-function Harness({ initial, pixelScaleArcsec = null }: { initial: ColumnMapping; pixelScaleArcsec?: number | null }) {
+function Harness({ initial, pixelScaleArcsec = null, source = head }: { initial: ColumnMapping; pixelScaleArcsec?: number | null; source?: typeof head }) {
   const [mapping, setMapping] = useState(initial);
   latest = mapping;
   return (
     <MappingEditor
-      headers={head.headers}
-      rows={head.rows}
+      headers={source.headers}
+      rows={source.rows}
       mapping={mapping}
       onChange={(next) => {
         latest = next;
@@ -50,6 +55,27 @@ describe("MappingEditor", () => {
     fireEvent.click(screen.getByLabelText(/zenith angle \(degrees\)/));
     expect(latest.zenith_deg).toBe("Airmass");
     expect(latest.airmass).toBeUndefined();
+  });
+
+  it("shows the variances at twice the exposure time as optional rows of the seeing measure, filled from their native names", () => {
+    render(<Harness initial={interlacedHead.proposedMapping} source={interlacedHead} pixelScaleArcsec={0.5} />);
+    const long2x = screen.getByLabelText(/Longitudinal variance at twice the exposure time/) as HTMLSelectElement;
+    expect(long2x.value).toBe("var_long_2x_arcsec2");
+    expect((screen.getByLabelText(/Transverse variance at twice the exposure time/) as HTMLSelectElement).value).toBe("var_trans_2x_arcsec2");
+    expect(long2x.closest("tr")?.textContent).toMatch(/\(arcsec², optional\)/);
+    expect(long2x.closest("tbody")?.textContent).toMatch(/^Seeing measure/);
+    expect(screen.getByText("0.323142")).toBeTruthy();
+    expect(screen.getByRole("status").textContent).toMatch(/complete/);
+  });
+
+  it("moves the 2x columns with the variances when the unit changes, and lists a half-mapped pair as a problem", () => {
+    render(<Harness initial={interlacedHead.proposedMapping} source={interlacedHead} pixelScaleArcsec={0.5} />);
+    fireEvent.click(screen.getByLabelText(/pixel² \(× pixel scale/));
+    expect(latest).toMatchObject({ var_long_px2: "var_long_arcsec2", var_long_2x_px2: "var_long_2x_arcsec2", var_trans_2x_px2: "var_trans_2x_arcsec2" });
+    expect(latest.var_long_2x_arcsec2).toBeUndefined();
+    expect((screen.getByLabelText(/Longitudinal variance at twice the exposure time/) as HTMLSelectElement).value).toBe("var_long_2x_arcsec2");
+    fireEvent.change(screen.getByLabelText(/Transverse variance at twice the exposure time/), { target: { value: "" } });
+    expect(screen.getByRole("alert", { name: "Mapping problems" }).textContent).toMatch(/Only one of var_long_2x_px2 and var_trans_2x_px2/);
   });
 
   it("blocks pixel² variances when the campaign has no pixel scale", () => {

@@ -1,15 +1,20 @@
 import { LOG_FIELD_INFO, checkMapping, type ColumnMapping, type LogField } from "@calmcrest/seeing-stats";
 import { unitsOfMapping, withUnits, type PointingKind, type VarianceUnit } from "../../lib/log-head";
 
+const OPTIONAL_GROUP = "Optional columns";
+
 const GROUPS: { title: string; help: string; fields: (units: { variance: VarianceUnit; pointing: PointingKind }) => LogField[] }[] = [
   { title: "Time", help: "Needed: when each sample was taken (UTC).", fields: () => ["time_utc"] },
   {
     title: "Seeing measure",
-    help: "Needed: both image-motion variances, or the seeing the monitor computed, or r0.",
-    fields: (units) => (units.variance === "px2" ? ["var_long_px2", "var_trans_px2", "seeing_arcsec", "r0_cm"] : ["var_long_arcsec2", "var_trans_arcsec2", "seeing_arcsec", "r0_cm"]),
+    help: "Needed: both image-motion variances, or the seeing the monitor computed, or r0. Monitors that alternate two exposure times may add both variances at twice the exposure time, to extrapolate the seeing to zero exposure.",
+    fields: (units) =>
+      units.variance === "px2"
+        ? ["var_long_px2", "var_trans_px2", "var_long_2x_px2", "var_trans_2x_px2", "seeing_arcsec", "r0_cm"]
+        : ["var_long_arcsec2", "var_trans_arcsec2", "var_long_2x_arcsec2", "var_trans_2x_arcsec2", "seeing_arcsec", "r0_cm"],
   },
   { title: "Pointing", help: "Needed: where the star was, to reduce every sample to zenith.", fields: (units) => [units.pointing === "airmass" ? "airmass" : "zenith_deg"] },
-  { title: "Optional columns", help: "Kept with each sample when present.", fields: () => ["flux", "scint_index", "tau0_ms", "theta0_arcsec", "wind_ms", "rh_pct"] },
+  { title: OPTIONAL_GROUP, help: "Kept with each sample when present.", fields: () => ["flux", "scint_index", "tau0_ms", "theta0_arcsec", "wind_ms", "rh_pct"] },
 ];
 
 /**
@@ -114,7 +119,12 @@ export function MappingEditor({
                 <tr key={field} className="border-b border-line/60">
                   <td className="py-1.5 pr-3">
                     <label htmlFor={selectId}>
-                      <span className="font-semibold">{info.label}</span> <span className="text-ink-soft">({info.unit})</span>
+                      {/* Optional rows inside a needed group say so, so nobody hunts for a column their monitor never writes. */}
+                      <span className="font-semibold">{info.label}</span>{" "}
+                      <span className="text-ink-soft">
+                        ({info.unit}
+                        {info.required === "optional" && group.title !== OPTIONAL_GROUP ? ", optional" : ""})
+                      </span>
                       <span className="block font-mono text-xs text-ink-soft">{field}</span>
                     </label>
                   </td>

@@ -3,10 +3,10 @@ import { describe, expect, it } from 'vitest';
 import jStatModule from 'jstat';
 import kstest from '@stdlib/stats-kstest';
 import stdlibNormalCdf from '@stdlib/stats-base-dists-normal-cdf';
-import { argsortPositive } from './argsortPositive.js';
-import { bootstrapPooledMedian, sortWithGroups } from './bootstrapPooledMedian.js';
-import { fitLogNormal } from './fitLogNormal.js';
-import { ksDistanceLogNormal } from './ksDistanceLogNormal.js';
+import { argsortPositive, argsortPositiveByRadix, sortPositive } from './argsortPositive.js';
+import { bootstrapPooledMedian, bootstrapPooledMedianSorted, sortWithGroups } from './bootstrapPooledMedian.js';
+import { fitLogNormal, fitLogNormalToLogs, naturalLogs } from './fitLogNormal.js';
+import { ksDistanceLogNormal, ksDistanceLogNormalOfLogs } from './ksDistanceLogNormal.js';
 import { mannWhitney } from './mannWhitney.js';
 import { normalCdf } from './normalCdf.js';
 import { percentile, percentileSorted } from './percentile.js';
@@ -114,6 +114,60 @@ describe('radix argsort', () => {
     const expected = Array.from(values.keys()).sort((left, right) => (values[left] ?? 0) - (values[right] ?? 0) || left - right);
     expect(Array.from(order)).toEqual(expected);
   });
+  it('gives the same order by buckets as by the plain radix sort, and the sorted values with it', () => {
+    const random = createRandom(11);
+    const shapes: (() => number)[] = [
+      () => random() * 3,
+      () => Math.round(random() * 12) / 4, // heavy ties
+      () => Math.exp(300 * (random() - 0.5)), // exponents far apart
+      () => 0.75 + random() * 1e-12, // every value in one narrow bucket range
+      () => (random() < 0.3 ? 0 : random() < 0.5 ? Number.MIN_VALUE : Number.MAX_VALUE * random()),
+    ];
+    const inputs = [new Float64Array(0), Float64Array.of(0.7), Float64Array.of(2, 2, 2), Float64Array.of(0.9, 0.5, 0.7)];
+    for (const shape of shapes) for (const length of [2, 3, 31, 1000, 40_000]) inputs.push(Float64Array.from({ length }, shape));
+    for (const values of inputs) {
+      const { order, sorted } = sortPositive(values);
+      expect(Array.from(order)).toEqual(Array.from(argsortPositiveByRadix(values)));
+      expect(Array.from(sorted)).toEqual(Array.from(order, (index) => values[index] ?? Number.NaN));
+    }
+  });
+  it('refuses negative, −0, infinite and NaN values', () => {
+    for (const bad of [-1, -0, Number.POSITIVE_INFINITY, Number.NaN]) expect(() => argsortPositive(Float64Array.of(1, bad))).toThrow(/finite values ≥ 0/);
+  });
+});
+
+describe('KS distance by blocks', () => {
+  /** The definition, one value at a time: the reference the block bounds must reproduce to the last bit. */
+  function ksOneByOne(sorted: Float64Array, mu: number, sigma: number): number {
+    let distance = 0;
+    for (let index = 0; index < sorted.length; index += 1) {
+      const model = normalCdf((Math.log(sorted[index] ?? Number.NaN) - mu) / sigma);
+      distance = Math.max(distance, (index + 1) / sorted.length - model, model - index / sorted.length);
+    }
+    return distance;
+  }
+  it('equals the one-by-one maximum exactly, for good and bad fits and heavy ties', () => {
+    const random = createRandom(12);
+    const samples = [
+      logNormalSample(100_000, 5),
+      logNormalSample(3, 6),
+      logNormalSample(65, 7),
+      Array.from({ length: 20_000 }, () => Math.round(random() * 8) / 8 + 0.125), // steps of 1/8 ″
+      [...logNormalSample(5000, 8, 0.5, 0.1), ...logNormalSample(5000, 9, 1.4, 0.1)], // two modes: a poor fit
+    ];
+    for (const sample of samples) {
+      const sorted = Float64Array.from(sample).sort();
+      const fit = fitLogNormal(sorted);
+      const fast = ksDistanceLogNormalOfLogs(naturalLogs(sorted), fit.mu, fit.sigma);
+      expect(fast).toBe(ksOneByOne(sorted, fit.mu, fit.sigma));
+      // a parameter set far from the data, where the largest gap sits at one end
+      expect(ksDistanceLogNormal(sorted, fit.mu + 1, fit.sigma / 2)).toBe(ksOneByOne(sorted, fit.mu + 1, fit.sigma / 2));
+    }
+  });
+  it('fits from stored logarithms exactly as from the values', () => {
+    const sample = logNormalSample(10_001, 13);
+    expect(fitLogNormalToLogs(naturalLogs(sample))).toEqual(fitLogNormal(sample));
+  });
 });
 
 /** A replicate's pooled median computed the slow, obvious way: copy every drawn night's values and sort. */
@@ -172,6 +226,30 @@ describe('night bootstrap of the median', () => {
     // every sample its own block = the ordinary per-sample bootstrap
     const bySample = width(bootstrapPooledMedian(toGrouped(nights.flat().map((value) => [value])), { replicates: 1000, seed: 1 }));
     expect(byNight).toBeGreaterThan(4 * bySample);
+  });
+  it('equals the materialised replicate medians on long nights that span many grid cells', () => {
+    // 25 nights of 500-1500 samples: the pooled replicate spans a few dozen 1024-value cells, so the search probes
+    // and walks; night levels differ a lot so replicate medians land far from the overall median
+    const random = createRandom(14);
+    const nights = Array.from({ length: 25 }, () => {
+      const level = 0.75 * Math.exp(0.5 * normalDeviate(random));
+      return Array.from({ length: 500 + Math.floor(random() * 1000) }, () => level * Math.exp(0.1 * normalDeviate(random)));
+    });
+    const fast = bootstrapPooledMedian(toGrouped(nights), { replicates: 20, seed: 3 });
+    const slow = naiveReplicateMedians(nights, 20, 3);
+    slow.forEach((median, index) => expect(fast[index]).toBeCloseTo(median, 12));
+  });
+  it('takes pre-sorted values with their group tags and gives the grouped entry point\'s replicates', () => {
+    const groups = toGrouped(Array.from({ length: 70 }, (_, night) => logNormalSample(30 + night, 100 + night)));
+    const { sorted, groupOf } = sortWithGroups(groups.values, groups.offsets);
+    const sizes = Int32Array.from({ length: 70 }, (_, group) => (groups.offsets[group + 1] ?? 0) - (groups.offsets[group] ?? 0));
+    expect(Array.from(bootstrapPooledMedianSorted(sorted, groupOf, sizes, { replicates: 300, seed: 5 }))).toEqual(Array.from(bootstrapPooledMedian(groups, { replicates: 300, seed: 5 })));
+    expect(() => bootstrapPooledMedianSorted(sorted, groupOf.subarray(1), sizes, { replicates: 3, seed: 5 })).toThrow(/groupOf must tag every sorted value/);
+  });
+  it('gives NaN, and goes on, for a replicate that draws only empty groups', () => {
+    const medians = Array.from(bootstrapPooledMedian({ values: Float64Array.of(1, 2, 3), offsets: Int32Array.of(0, 0, 3, 3) }, { replicates: 50, seed: 4 }));
+    expect(medians.every((median) => median === 2 || Number.isNaN(median))).toBe(true);
+    expect(medians.filter((median) => Number.isNaN(median)).length).toBeGreaterThan(0);
   });
   it('sortWithGroups tags every sorted value with its group', () => {
     const grouped = toGrouped([[0.3, 0.9], [0.5], [0.1, 0.7]]);

@@ -23,9 +23,7 @@ export function groupValues(keys: Int32Array, values: Float64Array, order: Uint3
     if (key < minimumKey) minimumKey = key;
     if (key > maximumKey) maximumKey = key;
   }
-  // Dense slots when the key range is modest (days over decades are fine); a map otherwise.
-  const span = maximumKey - minimumKey + 1;
-  const { slotKeys, slotOf } = span <= 4 * count + 1024 ? denseSlots(keys, minimumKey, span) : sparseSlots(keys);
+  const { slotKeys, slotOf } = slotsOfKeys(keys, minimumKey, maximumKey);
   const slotCount = slotKeys.length;
   const offsets = new Int32Array(slotCount + 1);
   for (let index = 0; index < count; index += 1) {
@@ -43,6 +41,16 @@ export function groupValues(keys: Int32Array, values: Float64Array, order: Uint3
     cursor[slot] = target + 1;
   }
   return { keys: slotKeys, offsets, values: grouped, slotOf };
+}
+
+/**
+ * Group slots for integer keys: slotKeys = the distinct keys ascending, slotOf[i] = the slot of keys[i].
+ * minimumKey and maximumKey bound the keys (the caller has usually seen them already).
+ */
+export function slotsOfKeys(keys: Int32Array, minimumKey: number, maximumKey: number): { slotKeys: number[]; slotOf: Int32Array } {
+  // Dense slots when the key range is modest (days over decades are fine); a map otherwise.
+  const span = maximumKey - minimumKey + 1;
+  return span <= 4 * keys.length + 1024 ? denseSlots(keys, minimumKey, span) : sparseSlots(keys);
 }
 
 function denseSlots(keys: Int32Array, minimumKey: number, span: number): { slotKeys: number[]; slotOf: Int32Array } {

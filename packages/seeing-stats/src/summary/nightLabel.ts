@@ -35,8 +35,23 @@ export function nightLabel(timeMs: number, longitudeDeg?: number): string {
   return dayNumberLabel(nightDayNumber(timeMs, solarOffsetMs(longitudeDeg)));
 }
 
-/** Local solar hour 0..23 of a moment. */
+/**
+ * Local solar hour 0..23 of a moment: ⌊(ms into the local day) / 1 h⌋, the ms into the day being
+ * ((t % day) + day) % day with t = timeMs + offsetMs.
+ */
 export function localSolarHour(timeMs: number, offsetMs: number): number {
-  const msIntoDay = (((timeMs + offsetMs) % DAY_MS) + DAY_MS) % DAY_MS;
+  const localMs = timeMs + offsetMs;
+  const magnitude = Math.abs(localMs);
+  // Two floating-point remainders cost more than the rest of a summary's per-sample work, so for 2^28 ≤ |t| < 2^52
+  // (1970-01-04 on, either side of 1970) the same number comes from floor division: there t is a multiple of
+  // 2^-24 ms, so t − d·day is exact, equals the remainder, and adding a day to a negative remainder is exact too.
+  if (magnitude >= 2 ** 28 && magnitude < 2 ** 52) {
+    let msIntoDay = localMs - Math.floor(localMs / DAY_MS) * DAY_MS;
+    // The quotient can round across a whole day; step back into [0, day).
+    if (msIntoDay < 0) msIntoDay += DAY_MS;
+    else if (msIntoDay >= DAY_MS) msIntoDay -= DAY_MS;
+    return Math.floor(msIntoDay / HOUR_MS);
+  }
+  const msIntoDay = ((localMs % DAY_MS) + DAY_MS) % DAY_MS;
   return Math.floor(msIntoDay / HOUR_MS);
 }

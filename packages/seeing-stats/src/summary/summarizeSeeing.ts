@@ -1,12 +1,13 @@
 import { SeeingInputError } from '../errors.js';
 import { ARCSEC_PER_RADIAN, REFERENCE_WAVELENGTH_NM, SEEING_CONSTANT } from '../physics/constants.js';
-import { bootstrapPooledMedian } from '../stats/bootstrapPooledMedian.js';
-import { argsortPositive } from '../stats/argsortPositive.js';
-import { fitLogNormal } from '../stats/fitLogNormal.js';
-import { ksDistanceLogNormal } from '../stats/ksDistanceLogNormal.js';
+import { bootstrapPooledMedianSorted } from '../stats/bootstrapPooledMedian.js';
+import { sortPositive } from '../stats/argsortPositive.js';
+import { fitLogNormalToLogs, naturalLogs } from '../stats/fitLogNormal.js';
+import { ksDistanceLogNormalOfLogs } from '../stats/ksDistanceLogNormal.js';
 import { normalCdf } from '../stats/normalCdf.js';
 import { percentileSorted } from '../stats/percentile.js';
-import { groupValues } from './groupValues.js';
+import { groupPercentiles } from './groupPercentiles.js';
+import { slotsOfKeys } from './groupValues.js';
 import { dayNumberLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './nightLabel.js';
 
 /** Accepted samples only, equal length; seeing at zenith and 500 nm. */
@@ -80,78 +81,54 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
   }
   const offsetMs = solarOffsetMs(options.longitudeDeg);
 
-  let sum = 0;
-  for (let index = 0; index < count; index += 1) {
-    const value = seeingArcsec[index] ?? Number.NaN;
-    if (!(value > 0 && value < Number.POSITIVE_INFINITY)) {
-      throw new SeeingInputError(`seeingArcsec must hold positive finite arcseconds, got ${String(value)} at index ${index}`);
-    }
-    sum += value;
-  }
-  const order = argsortPositive(seeingArcsec);
-  const sorted = new Float64Array(count);
-  for (let position = 0; position < count; position += 1) sorted[position] = seeingArcsec[order[position] ?? 0] ?? Number.NaN;
+  const sum = sumOfSeeing(seeingArcsec);
+  const { order, sorted } = sortPositive(seeingArcsec);
   const quantile = (fraction: number): number => percentileSorted(sorted, fraction);
-  const fit = fitLogNormal(sorted);
-  const ks = fit.sigma > 0 ? ksDistanceLogNormal(sorted, fit.mu, fit.sigma) : 1 - 1 / count;
+  // Each logarithm once, for the fit and the KS distance alike.
+  const logSorted = naturalLogs(sorted);
+  const fit = fitLogNormalToLogs(logSorted);
+  const ks = fit.sigma > 0 ? ksDistanceLogNormalOfLogs(logSorted, fit.mu, fit.sigma) : 1 - 1 / count;
 
-  // Nights: the bootstrap block, the nightly medians and the month a sample counts in.
-  const nightKeys = new Int32Array(count);
-  const hourKeys = new Int32Array(count);
-  for (let index = 0; index < count; index += 1) {
-    const time = timeMs[index] ?? 0;
-    nightKeys[index] = nightDayNumber(time, offsetMs);
-    hourKeys[index] = localSolarHour(time, offsetMs);
-  }
-  const nights = groupValues(nightKeys, seeingArcsec, order);
-  const nightly = nights.keys.map((dayNumber, slot) => {
-    const segment = nights.values.subarray(nights.offsets[slot] ?? 0, nights.offsets[slot + 1] ?? 0);
-    return { night: dayNumberLabel(dayNumber), samples: segment.length, median: percentileSorted(segment, 0.5) };
-  });
+  // Nights (integer day numbers) are the bootstrap block, give the nightly medians and the month a sample counts in.
+  const { nightKeys, hourOf, firstNight, lastNight } = nightsAndHours(timeMs, offsetMs);
+  const { slotKeys: nightDays, slotOf: nightSlotOf } = slotsOfKeys(nightKeys, firstNight, lastNight);
+  const nightCount = nightDays.length;
+  const nightLabels = nightDays.map(dayNumberLabel);
 
-  const monthOfNight = new Map<number, number>();
+  // Nights ascend, so their months do too: month index of each night slot, from its 'YYYY-MM'.
   const monthLabels: string[] = [];
-  const monthLabelIndex = new Map<string, number>();
-  for (const dayNumber of nights.keys) {
-    const label = dayNumberLabel(dayNumber).slice(0, 7);
-    let monthIndex = monthLabelIndex.get(label);
-    if (monthIndex === undefined) {
-      monthIndex = monthLabels.length;
-      monthLabels.push(label);
-      monthLabelIndex.set(label, monthIndex);
-    }
-    monthOfNight.set(dayNumber, monthIndex);
-  }
-  // Nights are ascending, so month indices are too; the night key of a sample gives its month.
-  const monthOfSlot = new Int32Array(nights.keys.map((dayNumber) => monthOfNight.get(dayNumber) ?? 0));
-  const monthKeys = new Int32Array(count);
-  for (let index = 0; index < count; index += 1) monthKeys[index] = monthOfSlot[nights.slotOf[index] ?? 0] ?? 0;
-  const months = groupValues(monthKeys, seeingArcsec, order);
-  const monthly = months.keys.map((monthIndex, slot) => {
-    const segment = months.values.subarray(months.offsets[slot] ?? 0, months.offsets[slot + 1] ?? 0);
-    return {
-      month: monthLabels[monthIndex] ?? '',
-      samples: segment.length,
-      median: percentileSorted(segment, 0.5),
-      p10: percentileSorted(segment, 0.1),
-      p25: percentileSorted(segment, 0.25),
-      p75: percentileSorted(segment, 0.75),
-      p90: percentileSorted(segment, 0.9),
-    };
+  const monthOfNight = new Int32Array(nightCount);
+  nightLabels.forEach((label, slot) => {
+    const month = label.slice(0, 7);
+    if (monthLabels[monthLabels.length - 1] !== month) monthLabels.push(month);
+    monthOfNight[slot] = monthLabels.length - 1;
   });
 
-  const hours = groupValues(hourKeys, seeingArcsec, order);
-  const hourly = hours.keys
-    .map((hour, slot) => {
-      const segment = hours.values.subarray(hours.offsets[slot] ?? 0, hours.offsets[slot + 1] ?? 0);
-      return { hour, samples: segment.length, median: percentileSorted(segment, 0.5) };
-    })
-    // Ordered through the night (from local noon), so an evening-to-morning chart reads left to right.
-    .sort((left, right) => ((left.hour + 12) % 24) - ((right.hour + 12) % 24));
+  // Every sorted position tagged with its night, month and hour; regrouping the sorted values by a tag keeps each
+  // group ascending, so no group needs a sort of its own.
+  const { nightOfSorted, monthOfSorted, hourOfSorted } = tagSortedPositions(order, packNightAndHour(nightSlotOf, hourOf), monthOfNight);
 
-  const groupOf = new Int32Array(count);
-  for (let position = 0; position < count; position += 1) groupOf[position] = nights.slotOf[order[position] ?? 0] ?? 0;
-  const replicateMedians = bootstrapPooledMedian(nights, { replicates, seed, sortedWithGroups: { sorted, groupOf } }).sort();
+  const nights = groupPercentiles(sorted, nightOfSorted, nightCount, [0.5]);
+  const nightSizes = nights.sizes;
+  const nightly = nightLabels.map((night, slot) => ({ night, samples: nightSizes[slot] ?? 0, median: nights.percentiles[slot] ?? Number.NaN }));
+
+  const monthFractions = [0.5, 0.1, 0.25, 0.75, 0.9];
+  const months = groupPercentiles(sorted, monthOfSorted, monthLabels.length, monthFractions);
+  const monthly = monthLabels.map((month, slot) => {
+    const at = (column: number): number => months.percentiles[slot * monthFractions.length + column] ?? Number.NaN;
+    return { month, samples: months.sizes[slot] ?? 0, median: at(0), p10: at(1), p25: at(2), p75: at(3), p90: at(4) };
+  });
+
+  const hours = groupPercentiles(sorted, hourOfSorted, 24, [0.5]);
+  const hourly: SeeingSummary['hourly'] = [];
+  for (let hour = 0; hour < 24; hour += 1) {
+    const samples = hours.sizes[hour] ?? 0;
+    if (samples > 0) hourly.push({ hour, samples, median: hours.percentiles[hour] ?? Number.NaN });
+  }
+  // Ordered through the night (from local noon), so an evening-to-morning chart reads left to right.
+  hourly.sort((left, right) => ((left.hour + 12) % 24) - ((right.hour + 12) % 24));
+
+  const replicateMedians = bootstrapPooledMedianSorted(sorted, nightOfSorted, nightSizes, { replicates, seed }).sort();
   const medianCi95: [number, number] = [percentileSorted(replicateMedians, 0.025), percentileSorted(replicateMedians, 0.975)];
 
   const fractionBelow: Record<string, number> = {};
@@ -185,7 +162,7 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     r0: { unit: 'cm', p10: r0Quantile(0.1), p25: r0Quantile(0.25), median: r0Quantile(0.5), p75: r0Quantile(0.75), p90: r0Quantile(0.9) },
     lognormal: { mu: fit.mu, sigma: fit.sigma, median: fit.median, ks },
     fractionBelow,
-    nights: nights.keys.length,
+    nights: nightCount,
     monthly,
     hourly,
     nightly,
@@ -251,4 +228,60 @@ function cdfPoints(sorted: Float64Array): SeeingSummary['cdf'] {
   const last = points[points.length - 1];
   if (last !== undefined && last.fraction < 1) points.push({ seeingArcsec: sorted[count - 1] ?? 0, fraction: 1 });
   return points;
+}
+
+// Each per-sample loop below is a small function of its own: the engine optimises a small function whole, while a
+// long function with many loops is compiled mid-loop and thrown back at the next loop it has not yet seen run.
+
+/** Σ seeing in input order, checking every value is a positive finite number of arcseconds. */
+function sumOfSeeing(seeingArcsec: Float64Array): number {
+  let sum = 0;
+  for (let index = 0; index < seeingArcsec.length; index += 1) {
+    const value = seeingArcsec[index] ?? Number.NaN;
+    if (!(value > 0 && value < Number.POSITIVE_INFINITY)) {
+      throw new SeeingInputError(`seeingArcsec must hold positive finite arcseconds, got ${String(value)} at index ${index}`);
+    }
+    sum += value;
+  }
+  return sum;
+}
+
+/** Night day number and local solar hour of every sample, and the first and last night. */
+function nightsAndHours(timeMs: Float64Array, offsetMs: number): { nightKeys: Int32Array; hourOf: Int32Array; firstNight: number; lastNight: number } {
+  const count = timeMs.length;
+  const nightKeys = new Int32Array(count);
+  const hourOf = new Int32Array(count);
+  let firstNight = Number.POSITIVE_INFINITY;
+  let lastNight = Number.NEGATIVE_INFINITY;
+  for (let index = 0; index < count; index += 1) {
+    const time = timeMs[index] ?? 0;
+    const night = nightDayNumber(time, offsetMs);
+    nightKeys[index] = night;
+    hourOf[index] = localSolarHour(time, offsetMs);
+    if (night < firstNight) firstNight = night;
+    if (night > lastNight) lastNight = night;
+  }
+  return { nightKeys, hourOf, firstNight, lastNight };
+}
+
+/** Night slot and hour in one word per sample (slot · 32 + hour), so the pass through the sort order gathers once. */
+function packNightAndHour(nightSlotOf: Int32Array, hourOf: Int32Array): Int32Array {
+  const packed = new Int32Array(nightSlotOf.length);
+  for (let index = 0; index < packed.length; index += 1) packed[index] = ((nightSlotOf[index] ?? 0) << 5) | (hourOf[index] ?? 0);
+  return packed;
+}
+
+function tagSortedPositions(order: Uint32Array, nightAndHourOf: Int32Array, monthOfNight: Int32Array): { nightOfSorted: Int32Array; monthOfSorted: Int32Array; hourOfSorted: Int32Array } {
+  const count = order.length;
+  const nightOfSorted = new Int32Array(count);
+  const monthOfSorted = new Int32Array(count);
+  const hourOfSorted = new Int32Array(count);
+  for (let position = 0; position < count; position += 1) {
+    const nightAndHour = nightAndHourOf[order[position] ?? 0] ?? 0;
+    const night = nightAndHour >>> 5;
+    nightOfSorted[position] = night;
+    monthOfSorted[position] = monthOfNight[night] ?? 0;
+    hourOfSorted[position] = nightAndHour & 31;
+  }
+  return { nightOfSorted, monthOfSorted, hourOfSorted };
 }

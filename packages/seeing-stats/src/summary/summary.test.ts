@@ -2,8 +2,10 @@ import { describe, expect, it } from 'vitest';
 // @ts-expect-error jstat ships no type declarations; used only as an outside reference in tests
 import jStatModule from 'jstat';
 import { createRandom, normalDeviate } from '../stats/random.js';
+import { percentileSorted } from '../stats/percentile.js';
 import { compareSeeing } from './compareSeeing.js';
-import { nightLabel } from './nightLabel.js';
+import { groupPercentiles } from './groupPercentiles.js';
+import { localSolarHour, nightLabel } from './nightLabel.js';
 import { predictTelescopeFwhm } from './predictTelescopeFwhm.js';
 import { summarizeSeeing, type SampleColumns } from './summarizeSeeing.js';
 
@@ -38,6 +40,46 @@ describe('night labels', () => {
     expect(nightLabel(Date.parse('2025-03-01T16:00:00Z'), -70)).toBe('2025-02-28');
     // at 150° E local time is UTC + 10 h: 01:00 UTC is 11:00 local, before local noon
     expect(nightLabel(Date.parse('2025-03-02T01:00:00Z'), 150)).toBe('2025-03-01');
+  });
+});
+
+describe('local solar hours', () => {
+  it('equal the hour of the remainder of the day for times before and after 1970 and at day edges', () => {
+    const DAY_MS = 86_400_000;
+    const byRemainder = (timeMs: number, offsetMs: number): number => Math.floor(((((timeMs + offsetMs) % DAY_MS) + DAY_MS) % DAY_MS) / HOUR_MS);
+    const random = createRandom(21);
+    const offsets = [0, (-70.15 / 15) * HOUR_MS, (150.3 / 15) * HOUR_MS, (-0.001 / 15) * HOUR_MS];
+    const times: number[] = [0, 2 ** 28, -(2 ** 28), 2 ** 28 - 0.25, Date.UTC(2025, 0, 1), Date.UTC(1969, 11, 31, 23, 59, 59, 999)];
+    for (let draw = 0; draw < 5000; draw += 1) {
+      times.push(Date.UTC(1900, 0, 1) + random() * (Date.UTC(2100, 0, 1) - Date.UTC(1900, 0, 1))); // fractional ms too
+      times.push(Math.round(random() * 80_000) * DAY_MS + Math.round(random() * 24) * HOUR_MS + (random() < 0.5 ? -1e-3 : 0)); // hour edges
+      times.push((random() - 0.5) * 2 ** 29); // around 1970, either side of the 2^28 ms switch
+    }
+    for (const offsetMs of offsets) for (const timeMs of times) expect(localSolarHour(timeMs, offsetMs)).toBe(byRemainder(timeMs, offsetMs));
+  });
+});
+
+describe('group percentiles', () => {
+  it('equal the percentiles of each group sorted on its own', () => {
+    const random = createRandom(22);
+    const groupCount = 40;
+    const values = Float64Array.from({ length: 5000 }, () => Math.round(random() * 300) / 100 + 0.01).sort(); // ties on purpose
+    const groupOf = Int32Array.from(values, () => Math.floor(random() * random() * groupCount)); // uneven sizes, some groups empty
+    const fractions = [0.5, 0.1, 0.25, 0.75, 0.9, 0, 1];
+    const { sizes, percentiles } = groupPercentiles(values, groupOf, groupCount, fractions);
+    for (let group = 0; group < groupCount; group += 1) {
+      const members = Array.from(values).filter((_, index) => groupOf[index] === group);
+      expect(sizes[group]).toBe(members.length);
+      fractions.forEach((fraction, column) => {
+        const result = percentiles[group * fractions.length + column] ?? Number.NaN;
+        if (members.length === 0) expect(result).toBeNaN();
+        else {
+          expect(result).toBe(percentileSorted(Float64Array.from(members), fraction));
+          // checked against jstat too, where its percentile is type 7 (it departs from it on groups of two to four)
+          if (members.length >= 10) expect(result).toBeCloseTo(jStat.percentile(members, fraction), 12);
+        }
+      });
+    }
   });
 });
 
@@ -86,6 +128,28 @@ describe('summarizeSeeing', () => {
     const [low, high] = summary?.seeing.medianCi95 ?? [0, 0];
     expect(low).toBeLessThan(summary?.seeing.median ?? 0);
     expect(high).toBeGreaterThan(summary?.seeing.median ?? 0);
+  });
+  it('gives nightly and monthly statistics equal to those of each night and month sorted on its own (jstat)', () => {
+    const columns = campaign(8, 40, 0.8, -70);
+    const summary = summarizeSeeing(columns, { longitudeDeg: -70, bootstrapReplicates: 50 });
+    const byKey = (key: (timeMs: number) => string): Map<string, number[]> => {
+      const groups = new Map<string, number[]>();
+      columns.timeMs.forEach((timeMs, index) => {
+        const members = groups.get(key(timeMs)) ?? [];
+        members.push(columns.seeingArcsec[index] ?? Number.NaN);
+        groups.set(key(timeMs), members);
+      });
+      return groups;
+    };
+    const nights = byKey((timeMs) => nightLabel(timeMs, -70));
+    expect(summary?.nightly.map((night) => night.night)).toEqual([...nights.keys()].sort());
+    for (const night of summary?.nightly ?? []) expect(night.median).toBeCloseTo(jStat.percentile(nights.get(night.night) ?? [], 0.5), 12);
+    const months = byKey((timeMs) => nightLabel(timeMs, -70).slice(0, 7));
+    for (const month of summary?.monthly ?? []) {
+      const members = months.get(month.month) ?? [];
+      expect(month.samples).toBe(members.length);
+      expect([month.p10, month.p25, month.median, month.p75, month.p90]).toEqual([0.1, 0.25, 0.5, 0.75, 0.9].map((fraction) => expect.closeTo(jStat.percentile(members, fraction), 12)));
+    }
   });
   it('is reproducible with the same seed', () => {
     const columns = campaign(3, 30, 0.7);

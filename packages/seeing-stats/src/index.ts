@@ -22,7 +22,8 @@ export { fitLogNormal, type LogNormalFit } from './stats/fitLogNormal.js';
 export { ksDistanceLogNormal } from './stats/ksDistanceLogNormal.js';
 export { normalCdf } from './stats/normalCdf.js';
 export { mannWhitney, type MannWhitneyResult } from './stats/mannWhitney.js';
-export { bootstrapPooledMedian, type GroupedValues } from './stats/bootstrapPooledMedian.js';
+export { bootstrapPooledMedian, bootstrapPooledMedianSorted, type GroupedValues } from './stats/bootstrapPooledMedian.js';
+export { argsortPositive, sortPositive } from './stats/argsortPositive.js';
 export { createRandom, normalDeviate } from './stats/random.js';
 
 // Log format: fields, mapping, delimiter, rows, filters, preview.
@@ -52,7 +53,16 @@ export { filterReason, DEFAULT_FILTERS, type FilterSettings } from './log/filter
 export { previewLog, isCommentOrBlank, type LogPreview } from './log/previewLog.js';
 
 // Summaries: one site, two sites compared, nights.
-export { summarizeSeeing, thresholdKey, DEFAULT_THRESHOLDS_ARCSEC, type SampleColumns, type SummaryOptions, type SeeingSummary } from './summary/summarizeSeeing.js';
+export {
+  summarizeSeeing,
+  summarizeSeeingPresorted,
+  thresholdKey,
+  DEFAULT_THRESHOLDS_ARCSEC,
+  type SampleColumns,
+  type SummaryOptions,
+  type SeeingSummary,
+  type SortedSeeing,
+} from './summary/summarizeSeeing.js';
 export { compareSeeing, type SiteComparison } from './summary/compareSeeing.js';
 export { predictTelescopeFwhm, type TelescopePrediction } from './summary/predictTelescopeFwhm.js';
 export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './summary/nightLabel.js';

@@ -1,4 +1,5 @@
 import type Database from "better-sqlite3";
+import { sortPositive, type SortedSeeing } from "@calmcrest/seeing-stats";
 import type { SiteSummaryBrief } from "@calmcrest/contracts";
 
 /**
@@ -26,6 +27,8 @@ export interface ExclusionWindow {
 interface CampaignEntry {
   columns: CampaignColumns;
   exclusions: ExclusionWindow[];
+  /** The seeing column's sort (the engine's sortPositive), made on first use; it does not depend on any query. */
+  seeingSort: SortedSeeing | null;
 }
 
 /**
@@ -42,7 +45,7 @@ export class SampleCache {
   private entry(campaignId: number): CampaignEntry {
     const cached = this.campaigns.get(campaignId);
     if (cached) return cached;
-    const entry = { columns: this.loadColumns(campaignId), exclusions: this.loadExclusions(campaignId) };
+    const entry: CampaignEntry = { columns: this.loadColumns(campaignId), exclusions: this.loadExclusions(campaignId), seeingSort: null };
     this.campaigns.set(campaignId, entry);
     return entry;
   }
@@ -53,6 +56,19 @@ export class SampleCache {
 
   exclusions(campaignId: number): ExclusionWindow[] {
     return this.entry(campaignId).exclusions;
+  }
+
+  /**
+   * The campaign's seeing values in ascending order with their indices (ties in time order), kept with the columns:
+   * a summary picks its samples out of it instead of sorting them again (the statistics are still computed fresh).
+   */
+  seeingSort(campaignId: number): SortedSeeing {
+    const entry = this.entry(campaignId);
+    if (entry.seeingSort === null) {
+      const { seeingArcsec, count } = entry.columns;
+      entry.seeingSort = sortPositive(seeingArcsec.subarray(0, count));
+    }
+    return entry.seeingSort;
   }
 
   /** Call after an ingest into the campaign commits or its exclusions change. */

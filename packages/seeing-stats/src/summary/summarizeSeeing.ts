@@ -6,7 +6,7 @@ import { fitLogNormalToLogs, naturalLogs } from '../stats/fitLogNormal.js';
 import { ksDistanceLogNormalOfLogs } from '../stats/ksDistanceLogNormal.js';
 import { normalCdf } from '../stats/normalCdf.js';
 import { percentileSorted } from '../stats/percentile.js';
-import { groupPercentiles } from './groupPercentiles.js';
+import { RankCapture } from './groupPercentiles.js';
 import { slotsOfKeys } from './groupValues.js';
 import { dayNumberLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './nightLabel.js';
 
@@ -65,6 +65,27 @@ const CDF_POINTS = 200;
  * Throws SeeingInputError when the columns differ in length or hold a value that is not a positive finite seeing.
  */
 export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions = {}): SeeingSummary | null {
+  return summarize(columns, options, null);
+}
+
+/** The seeing column's stable ascending order and the values in that order (what sortPositive gives). */
+export interface SortedSeeing {
+  order: Uint32Array;
+  sorted: Float64Array;
+}
+
+/**
+ * summarizeSeeing for a caller that already holds the sort of the seeing column, e.g. a server that keeps each
+ * campaign's sort order and picks a query's samples out of it: the same summary, without sorting again.
+ * `presorted` must be exactly sortPositive(columns.seeingArcsec): order a permutation with sorted[i] =
+ * seeingArcsec[order[i]], sorted ascending, equal values in index order. That is checked (one pass) and a
+ * mismatch throws SeeingInputError, since a wrong order would give wrong statistics without any other sign.
+ */
+export function summarizeSeeingPresorted(columns: SampleColumns, presorted: SortedSeeing, options: SummaryOptions = {}): SeeingSummary | null {
+  return summarize(columns, options, presorted);
+}
+
+function summarize(columns: SampleColumns, options: SummaryOptions, presorted: SortedSeeing | null): SeeingSummary | null {
   const { timeMs, seeingArcsec } = columns;
   const count = seeingArcsec.length;
   if (timeMs.length !== count) {
@@ -82,7 +103,8 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
   const offsetMs = solarOffsetMs(options.longitudeDeg);
 
   const sum = sumOfSeeing(seeingArcsec);
-  const { order, sorted } = sortPositive(seeingArcsec);
+  if (presorted !== null) requireStableSort(seeingArcsec, presorted);
+  const { order, sorted } = presorted ?? sortPositive(seeingArcsec);
   const quantile = (fraction: number): number => percentileSorted(sorted, fraction);
   // Each logarithm once, for the fit and the KS distance alike.
   const logSorted = naturalLogs(sorted);
@@ -104,26 +126,32 @@ export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions 
     monthOfNight[slot] = monthLabels.length - 1;
   });
 
-  // Every sorted position tagged with its night, month and hour; regrouping the sorted values by a tag keeps each
-  // group ascending, so no group needs a sort of its own.
-  const { nightOfSorted, monthOfSorted, hourOfSorted } = tagSortedPositions(order, packNightAndHour(nightSlotOf, hourOf), monthOfNight);
-
-  const nights = groupPercentiles(sorted, nightOfSorted, nightCount, [0.5]);
-  const nightSizes = nights.sizes;
-  const nightly = nightLabels.map((night, slot) => ({ night, samples: nightSizes[slot] ?? 0, median: nights.percentiles[slot] ?? Number.NaN }));
-
+  // One pass through the sort order tags each sorted position with its night (the bootstrap needs that) and feeds
+  // every value to its night's, month's and hour's percentile capture: values come ascending, so each group's
+  // order statistics are found without regrouping or sorting any group.
+  const { nightAndHourOf, nightSizes, hourSizes } = packNightAndHour(nightSlotOf, hourOf, nightCount);
+  const monthSizes = new Int32Array(monthLabels.length);
+  nightSizes.forEach((size, slot) => (monthSizes[monthOfNight[slot] ?? 0] = (monthSizes[monthOfNight[slot] ?? 0] ?? 0) + size));
   const monthFractions = [0.5, 0.1, 0.25, 0.75, 0.9];
-  const months = groupPercentiles(sorted, monthOfSorted, monthLabels.length, monthFractions);
+  const nightCapture = new RankCapture(nightSizes, [0.5]);
+  const monthCapture = new RankCapture(monthSizes, monthFractions);
+  const hourCapture = new RankCapture(hourSizes, [0.5]);
+  const nightOfSorted = tagSortedPositions(order, sorted, nightAndHourOf, monthOfNight, nightCapture, monthCapture, hourCapture);
+
+  const nightMedians = nightCapture.percentiles();
+  const nightly = nightLabels.map((night, slot) => ({ night, samples: nightSizes[slot] ?? 0, median: nightMedians[slot] ?? Number.NaN }));
+
+  const monthPercentiles = monthCapture.percentiles();
   const monthly = monthLabels.map((month, slot) => {
-    const at = (column: number): number => months.percentiles[slot * monthFractions.length + column] ?? Number.NaN;
-    return { month, samples: months.sizes[slot] ?? 0, median: at(0), p10: at(1), p25: at(2), p75: at(3), p90: at(4) };
+    const at = (column: number): number => monthPercentiles[slot * monthFractions.length + column] ?? Number.NaN;
+    return { month, samples: monthSizes[slot] ?? 0, median: at(0), p10: at(1), p25: at(2), p75: at(3), p90: at(4) };
   });
 
-  const hours = groupPercentiles(sorted, hourOfSorted, 24, [0.5]);
+  const hourMedians = hourCapture.percentiles();
   const hourly: SeeingSummary['hourly'] = [];
   for (let hour = 0; hour < 24; hour += 1) {
-    const samples = hours.sizes[hour] ?? 0;
-    if (samples > 0) hourly.push({ hour, samples, median: hours.percentiles[hour] ?? Number.NaN });
+    const samples = hourSizes[hour] ?? 0;
+    if (samples > 0) hourly.push({ hour, samples, median: hourMedians[hour] ?? Number.NaN });
   }
   // Ordered through the night (from local noon), so an evening-to-morning chart reads left to right.
   hourly.sort((left, right) => ((left.hour + 12) % 24) - ((right.hour + 12) % 24));
@@ -264,24 +292,61 @@ function nightsAndHours(timeMs: Float64Array, offsetMs: number): { nightKeys: In
   return { nightKeys, hourOf, firstNight, lastNight };
 }
 
-/** Night slot and hour in one word per sample (slot · 32 + hour), so the pass through the sort order gathers once. */
-function packNightAndHour(nightSlotOf: Int32Array, hourOf: Int32Array): Int32Array {
-  const packed = new Int32Array(nightSlotOf.length);
-  for (let index = 0; index < packed.length; index += 1) packed[index] = ((nightSlotOf[index] ?? 0) << 5) | (hourOf[index] ?? 0);
-  return packed;
+/** Night slot and hour in one word per sample (slot · 32 + hour), so the pass through the sort order gathers once; and the sizes of the nights and hours. */
+function packNightAndHour(nightSlotOf: Int32Array, hourOf: Int32Array, nightCount: number): { nightAndHourOf: Int32Array; nightSizes: Int32Array; hourSizes: Int32Array } {
+  const nightAndHourOf = new Int32Array(nightSlotOf.length);
+  const nightSizes = new Int32Array(nightCount);
+  const hourSizes = new Int32Array(24);
+  for (let index = 0; index < nightAndHourOf.length; index += 1) {
+    const night = nightSlotOf[index] ?? 0;
+    const hour = hourOf[index] ?? 0;
+    nightAndHourOf[index] = (night << 5) | hour;
+    nightSizes[night] = (nightSizes[night] ?? 0) + 1;
+    hourSizes[hour] = (hourSizes[hour] ?? 0) + 1;
+  }
+  return { nightAndHourOf, nightSizes, hourSizes };
 }
 
-function tagSortedPositions(order: Uint32Array, nightAndHourOf: Int32Array, monthOfNight: Int32Array): { nightOfSorted: Int32Array; monthOfSorted: Int32Array; hourOfSorted: Int32Array } {
+/** The night of every sorted position; feeds each value to the captures of its night, month and hour on the way. */
+function tagSortedPositions(
+  order: Uint32Array,
+  sorted: Float64Array,
+  nightAndHourOf: Int32Array,
+  monthOfNight: Int32Array,
+  nightCapture: RankCapture,
+  monthCapture: RankCapture,
+  hourCapture: RankCapture,
+): Int32Array {
   const count = order.length;
   const nightOfSorted = new Int32Array(count);
-  const monthOfSorted = new Int32Array(count);
-  const hourOfSorted = new Int32Array(count);
   for (let position = 0; position < count; position += 1) {
     const nightAndHour = nightAndHourOf[order[position] ?? 0] ?? 0;
     const night = nightAndHour >>> 5;
+    const value = sorted[position] ?? Number.NaN;
     nightOfSorted[position] = night;
-    monthOfSorted[position] = monthOfNight[night] ?? 0;
-    hourOfSorted[position] = nightAndHour & 31;
+    nightCapture.take(night, value);
+    monthCapture.take(monthOfNight[night] ?? 0, value);
+    hourCapture.take(nightAndHour & 31, value);
   }
-  return { nightOfSorted, monthOfSorted, hourOfSorted };
+  return nightOfSorted;
+}
+
+/** Checks presorted is the stable ascending sort of values (see summarizeSeeingPresorted). */
+function requireStableSort(values: Float64Array, presorted: SortedSeeing): void {
+  const { order, sorted } = presorted;
+  const count = values.length;
+  if (order.length !== count || sorted.length !== count) {
+    throw new SeeingInputError(`presorted must cover every sample, got ${order.length} indices and ${sorted.length} sorted values for ${count} samples`);
+  }
+  // Values matching through the order, ascending, with equal values in strictly increasing index order, make the
+  // order a permutation (a repeated index would repeat its value inside one run of equal values) and the stable sort.
+  for (let position = 0; position < count; position += 1) {
+    const index = order[position] ?? count;
+    const value = sorted[position] ?? Number.NaN;
+    const previous = position > 0 ? (sorted[position - 1] ?? Number.NaN) : Number.NEGATIVE_INFINITY;
+    const inOrder = previous < value || (previous === value && (order[position - 1] ?? count) < index);
+    if (index >= count || values[index] !== value || !inOrder) {
+      throw new SeeingInputError(`presorted is not the stable ascending sort of seeingArcsec (first wrong at sorted position ${position})`);
+    }
+  }
 }

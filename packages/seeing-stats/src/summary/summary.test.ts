@@ -7,7 +7,8 @@ import { compareSeeing } from './compareSeeing.js';
 import { groupPercentiles } from './groupPercentiles.js';
 import { localSolarHour, nightLabel } from './nightLabel.js';
 import { predictTelescopeFwhm } from './predictTelescopeFwhm.js';
-import { summarizeSeeing, type SampleColumns } from './summarizeSeeing.js';
+import { sortPositive } from '../stats/argsortPositive.js';
+import { summarizeSeeing, summarizeSeeingPresorted, type SampleColumns } from './summarizeSeeing.js';
 
 const jStat = (jStatModule as { jStat: { percentile(values: number[], fraction: number): number } }).jStat;
 const HOUR_MS = 3_600_000;
@@ -150,6 +151,21 @@ describe('summarizeSeeing', () => {
       expect(month.samples).toBe(members.length);
       expect([month.p10, month.p25, month.median, month.p75, month.p90]).toEqual([0.1, 0.25, 0.5, 0.75, 0.9].map((fraction) => expect.closeTo(jStat.percentile(members, fraction), 12)));
     }
+  });
+  it('gives the same summary from a caller\'s sort of the seeing column, and refuses a wrong one', () => {
+    const columns = campaign(9, 30, 0.8, -70);
+    // ties across nights, so the order of equal values matters
+    columns.seeingArcsec.forEach((seeing, index) => (columns.seeingArcsec[index] = Math.round(seeing * 50) / 50));
+    const presorted = sortPositive(columns.seeingArcsec);
+    expect(summarizeSeeingPresorted(columns, presorted, { longitudeDeg: -70 })).toEqual(summarizeSeeing(columns, { longitudeDeg: -70 }));
+    const firstTie = presorted.sorted.findIndex((value, position) => value === presorted.sorted[position + 1]);
+    const tiesSwapped = { order: presorted.order.slice(), sorted: presorted.sorted };
+    [tiesSwapped.order[firstTie], tiesSwapped.order[firstTie + 1]] = [presorted.order[firstTie + 1] ?? 0, presorted.order[firstTie] ?? 0];
+    expect(() => summarizeSeeingPresorted(columns, tiesSwapped)).toThrow(/not the stable ascending sort/);
+    const repeated = { order: presorted.order.slice(), sorted: presorted.sorted };
+    repeated.order[1] = repeated.order[0] ?? 0;
+    expect(() => summarizeSeeingPresorted(columns, repeated)).toThrow(/not the stable ascending sort/);
+    expect(() => summarizeSeeingPresorted(columns, { order: presorted.order.subarray(1), sorted: presorted.sorted.subarray(1) })).toThrow(/must cover every sample/);
   });
   it('is reproducible with the same seed', () => {
     const columns = campaign(3, 30, 0.7);

@@ -22,8 +22,8 @@ export function runMeasured(nodeArgs: readonly string[], cwd: string): Promise<C
     const stdout: Buffer[] = [];
     const stderr: Buffer[] = [];
     const report: Buffer[] = [];
-    child.stdout.on('data', (chunk: Buffer) => stdout.push(chunk));
-    child.stderr.on('data', (chunk: Buffer) => stderr.push(chunk));
+    child.stdout?.on('data', (chunk: Buffer) => stdout.push(chunk));
+    child.stderr?.on('data', (chunk: Buffer) => stderr.push(chunk));
     const reportStream = child.stdio[3];
     reportStream?.on('data', (chunk: Buffer) => report.push(chunk));
     child.on('error', reject);

@@ -22,7 +22,7 @@ describe('bench smoke run', () => {
     expect(analyzer.rejectedRows).toBe(Math.floor(10000 / 997));
     expect(Number(analyzer.medianWallMs)).toBeGreaterThan(0);
     expect(Number(analyzer.peakRssMb)).toBeGreaterThan(10);
-    expect(Number(analyzer.bundledMedianWallMs)).toBeGreaterThan(0);
+    expect(Number(analyzer.tsxMedianWallMs)).toBeGreaterThan(0);
     expect(Number(analyzer.medianSeeingArcsec)).toBeGreaterThan(0.3);
     expect(Number(analyzer.medianSeeingArcsec)).toBeLessThan(2);
     for (const [name, figures] of Object.entries(results.benchmarks)) expect(Object.keys(figures).length, name).toBeGreaterThan(0);

@@ -24,30 +24,40 @@ export interface HashedFile {
 }
 
 /**
- * A multer storage engine that writes the incoming file to <dataDir>/tmp while computing its sha256, so the
- * bytes are read once. The caller moves it to its content address with `storeRawFile`.
+ * Streams `source` into a new file under <dataDir>/tmp while computing its sha256 and size, so the bytes are read
+ * once. A failed copy leaves no partial file behind.
+ */
+async function copyHashed(dataDir: string, source: NodeJS.ReadableStream): Promise<HashedFile> {
+  mkdirSync(tmpDir(dataDir), { recursive: true });
+  const path = join(tmpDir(dataDir), `${Date.now()}-${randomUUID()}.part`);
+  const hash = createHash("sha256");
+  let size = 0;
+  const hasher = new Transform({
+    transform(chunk: Buffer, _encoding, done) {
+      hash.update(chunk);
+      size += chunk.length;
+      done(null, chunk);
+    },
+  });
+  try {
+    await pipeline(source, hasher, createWriteStream(path));
+  } catch (error) {
+    await unlink(path).catch(() => undefined);
+    throw error;
+  }
+  return { path, size, sha256: hash.digest("hex") };
+}
+
+/**
+ * A multer storage engine that writes the incoming file to <dataDir>/tmp while computing its sha256.
+ * The caller moves it to its content address with `storeRawFile`.
  */
 export function hashingDiskStorage(dataDir: string): StorageEngine {
-  const directory = tmpDir(dataDir);
-  mkdirSync(directory, { recursive: true });
   return {
     _handleFile(_req: Request, file, callback) {
-      const path = join(directory, `${Date.now()}-${randomUUID()}.part`);
-      const hash = createHash("sha256");
-      let size = 0;
-      const hasher = new Transform({
-        transform(chunk: Buffer, _encoding, done) {
-          hash.update(chunk);
-          size += chunk.length;
-          done(null, chunk);
-        },
-      });
-      pipeline(file.stream, hasher, createWriteStream(path)).then(
-        () => callback(null, { path, size, sha256: hash.digest("hex") } as HashedFile),
-        (error: unknown) => {
-          void unlink(path).catch(() => undefined);
-          callback(error instanceof Error ? error : new Error(String(error)));
-        },
+      copyHashed(dataDir, file.stream).then(
+        (hashed) => callback(null, hashed),
+        (error: unknown) => callback(error instanceof Error ? error : new Error(String(error))),
       );
     },
     _removeFile(_req: Request, file, callback) {
@@ -77,18 +87,6 @@ export async function discardTemporary(file: HashedFile | undefined): Promise<vo
 }
 
 /** Copies a file on disk into <dataDir>/tmp while hashing it, as if it had been uploaded (used by the demo seed). */
-export async function hashIntoTemporary(dataDir: string, sourcePath: string): Promise<HashedFile> {
-  mkdirSync(tmpDir(dataDir), { recursive: true });
-  const path = join(tmpDir(dataDir), `${Date.now()}-${randomUUID()}.part`);
-  const hash = createHash("sha256");
-  let size = 0;
-  const hasher = new Transform({
-    transform(chunk: Buffer, _encoding, done) {
-      hash.update(chunk);
-      size += chunk.length;
-      done(null, chunk);
-    },
-  });
-  await pipeline(createReadStream(sourcePath), hasher, createWriteStream(path));
-  return { path, size, sha256: hash.digest("hex") };
+export function hashIntoTemporary(dataDir: string, sourcePath: string): Promise<HashedFile> {
+  return copyHashed(dataDir, createReadStream(sourcePath));
 }

@@ -42,6 +42,22 @@ function Disclosure({ title, children }: { title: string; children: ReactNode })
 type SiteForm = z.input<typeof createSiteSchema>;
 
 /** A new candidate site (survey leads and administrators). */
+/** The submit button of a creation form, with the server's refusal (if any) under it. */
+function SubmitRow({ label, submitting, failure }: { label: string; submitting: boolean; failure: string | null }) {
+  return (
+    <div className="md:col-span-4">
+      <button type="submit" disabled={submitting} className="rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
+        {label}
+      </button>
+      {failure ? (
+        <p role="alert" className="mt-2 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
+          {failure}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
 export function NewSiteForm() {
   const queryClient = useQueryClient();
   const navigate = useNavigate();
@@ -73,16 +89,7 @@ export function NewSiteForm() {
         <Field id="site-elevation" label="Elevation" unit="m" error={errors.elevationM?.message}>
           {({ id, invalid }) => numberInput(id, invalid, register("elevationM", { setValueAs: optionalNumber }), "4380")}
         </Field>
-        <div className="md:col-span-4">
-          <button type="submit" disabled={formState.isSubmitting} className="rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
-            Create site
-          </button>
-          {failure ? (
-            <p role="alert" className="mt-2 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-              {failure}
-            </p>
-          ) : null}
-        </div>
+        <SubmitRow label="Create site" submitting={formState.isSubmitting} failure={failure} />
       </form>
     </Disclosure>
   );
@@ -146,16 +153,7 @@ export function NewCampaignForm({ siteId }: { siteId: number }) {
             </select>
           )}
         </Field>
-        <div className="md:col-span-4">
-          <button type="submit" disabled={formState.isSubmitting} className="rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
-            Create campaign
-          </button>
-          {failure ? (
-            <p role="alert" className="mt-2 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-              {failure}
-            </p>
-          ) : null}
-        </div>
+        <SubmitRow label="Create campaign" submitting={formState.isSubmitting} failure={failure} />
       </form>
     </Disclosure>
   );

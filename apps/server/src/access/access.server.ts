@@ -1,5 +1,6 @@
 import type { User } from "lucia";
 import type { Knex } from "knex";
+import type { MonitorSettings } from "@calmcrest/seeing-stats";
 import { HttpError, notFound } from "../http/errors";
 
 // Who may do what with field data (sites, campaigns, uploads, summaries). Committee members are stopped earlier,
@@ -104,4 +105,16 @@ export function routeId(value: string | string[] | undefined, what: string): num
   const id = Number(value);
   if (typeof value !== "string" || value === "" || !Number.isSafeInteger(id) || id <= 0) throw notFound(what);
   return id;
+}
+
+/** The engine's monitor settings of a stored campaign. */
+export function monitorOf(campaign: CampaignRow): MonitorSettings {
+  return {
+    apertureMm: campaign.aperture_mm,
+    baselineMm: campaign.baseline_mm,
+    wavelengthNm: campaign.wavelength_nm,
+    response: campaign.response,
+    ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
+    ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
+  };
 }

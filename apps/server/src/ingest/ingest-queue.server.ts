@@ -1,8 +1,8 @@
 import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
-import type { ColumnMapping, MonitorSettings } from "@calmcrest/seeing-stats";
+import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import type { AppDatabase } from "../db/database.server";
-import type { CampaignRow, SiteRow } from "../access/access.server";
+import { monitorOf, type CampaignRow, type SiteRow } from "../access/access.server";
 import { rawFilePath } from "../uploads/raw-files.server";
 import type { SampleCache } from "../summaries/sample-cache.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
@@ -187,14 +187,7 @@ export class IngestQueue {
     if (!upload) return null;
     const campaign = await knex("campaign").where({ id: upload.campaign_id }).first<CampaignRow>();
     const site = await knex("site").where({ id: campaign.site_id }).first<SiteRow>();
-    const monitor: MonitorSettings = {
-      apertureMm: campaign.aperture_mm,
-      baselineMm: campaign.baseline_mm,
-      wavelengthNm: campaign.wavelength_nm,
-      response: campaign.response,
-      ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
-      ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
-    };
+    const monitor = monitorOf(campaign);
     const job: IngestJob = {
       uploadId,
       campaignId: campaign.id,

@@ -12,11 +12,11 @@ import {
   type UploadStatus,
 } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
-import { campaignFor, FIELD_ROLES, routeId, type CampaignAction, type CampaignRow, type SiteRow } from "../access/access.server";
+import { campaignFor, FIELD_ROLES, monitorOf, routeId, type CampaignAction, type CampaignRow, type SiteRow } from "../access/access.server";
 import { recordAudit } from "../audit/audit.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { currentUser, requireUser, requireRole } from "../http/session";
-import { acceptUpload, formatProblem, monitorOf } from "../uploads/accept-upload.server";
+import { acceptUpload, formatProblem } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
 import { uploadListItem, uploadQuery, type UploadRow } from "../views.server";
 

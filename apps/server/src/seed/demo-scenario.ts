@@ -3,9 +3,9 @@ import { join } from "node:path";
 import { writeSyntheticLog } from "@calmcrest/seeing-stats/node";
 import type { ResponseSetName } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
-import type { CampaignRow } from "../access/access.server";
 import { recordAudit } from "../audit/audit.server";
-import { acceptUpload, monitorOf } from "../uploads/accept-upload.server";
+import { monitorOf, type CampaignRow } from "../access/access.server";
+import { acceptUpload } from "../uploads/accept-upload.server";
 import { hashIntoTemporary } from "../uploads/raw-files.server";
 
 // The demo scenario: an invented survey consortium choosing among four candidate ridges in a dry, high mountain

@@ -3,7 +3,7 @@ import { Readable } from "node:stream";
 import { LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { AppContext } from "../context";
-import type { CampaignRow } from "../access/access.server";
+import { monitorOf, type CampaignRow } from "../access/access.server";
 import { recordAudit } from "../audit/audit.server";
 import { HttpError } from "../http/errors";
 import { uploadQuery, type UploadRow } from "../views.server";
@@ -11,17 +11,6 @@ import { discardTemporary, storeRawFile, type HashedFile } from "./raw-files.ser
 
 /** Enough of a stored file to check its header and mapping before queueing it. */
 const HEADER_CHECK_BYTES = 64 * 1024;
-
-export function monitorOf(campaign: CampaignRow): MonitorSettings {
-  return {
-    apertureMm: campaign.aperture_mm,
-    baselineMm: campaign.baseline_mm,
-    wavelengthNm: campaign.wavelength_nm,
-    response: campaign.response,
-    ...(campaign.pixel_scale_arcsec === null ? {} : { pixelScaleArcsec: campaign.pixel_scale_arcsec }),
-    ...(campaign.exposure_ms === null ? {} : { exposureMs: campaign.exposure_ms }),
-  };
-}
 
 /** Text of a LogFormatError for a person: what is wrong, where, how to fix it. */
 export function formatProblem(error: LogFormatError): string {

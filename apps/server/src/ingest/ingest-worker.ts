@@ -81,7 +81,7 @@ async function ingest(job: IngestJob): Promise<void> {
         },
       },
       {
-        onSample(sample, line) {
+        onSample(sample, line, fields, delimiter) {
           if (job.failAfterSamples !== undefined && accepted >= job.failAfterSamples) {
             throw new Error(`Test failure injected after ${accepted} samples.`);
           }
@@ -109,7 +109,7 @@ async function ingest(job: IngestJob): Promise<void> {
           ).changes;
           if (changes === 0) {
             // The (campaign, time) key exists: an earlier row of this file or an earlier upload has this time.
-            reject(line, "duplicate_time", `Another sample of this campaign already has the time ${new Date(sample.timeMs).toISOString()}.`, "");
+            reject(line, "duplicate_time", `Another sample of this campaign already has the time ${new Date(sample.timeMs).toISOString()}.`, fields.join(delimiter));
           } else {
             accepted += 1;
           }

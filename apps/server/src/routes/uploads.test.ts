@@ -50,6 +50,9 @@ describe("uploading a log", () => {
     expect(a.samples).toMatchObject({ read: 30, accepted: 30, rejected: 0 });
     expect(b.samples).toMatchObject({ read: 11, accepted: 1, rejected: 10, rejectedByReason: { duplicate_time: 10 } });
     expect(b.rejectedRows.map((row) => row.reason)).toEqual(Array(10).fill("duplicate_time"));
+    // rejected.csv gives each duplicate row's text back as it was in the file.
+    const csv = (await lead.get(`/api/uploads/${b.id}/rejected.csv`)).text;
+    for (const duplicateRow of lines.slice(header + 21, header + 31)) expect(csv).toContain(duplicateRow.trim());
     const stored = await context.db.knex("sample").where({ campaign_id: campaign.id }).count<{ n: number }[]>({ n: "*" }).first();
     expect(Number(stored?.n)).toBe(31);
   });

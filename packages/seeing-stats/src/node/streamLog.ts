@@ -17,7 +17,11 @@ export interface StreamLogOptions {
 }
 
 export interface StreamLogHandlers {
-  onSample(sample: LogSample, line: number): void;
+  /**
+   * A readable row. `fields` and `delimiter` give the row's text back (`fields.join(delimiter)`) for a caller that
+   * rejects it later, e.g. as a duplicate; passed as they are so accepted rows cost no string building.
+   */
+  onSample(sample: LogSample, line: number, fields: readonly string[], delimiter: string): void;
   onReject(line: number, reason: RowRejectReason, message: string, rawLine: string): void;
 }
 
@@ -71,7 +75,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
       }
       rowsRead += 1;
       const result = readRow(fields, line);
-      if (result.ok) handlers.onSample(result.sample, line);
+      if (result.ok) handlers.onSample(result.sample, line, fields, delimiter);
       else handlers.onReject(line, result.reason, result.message, fields.join(delimiter));
     }
   };

@@ -80,6 +80,29 @@ describe("field and analysis screens in a browser", () => {
     await expect.poll(() => page.locator(".leaflet-tooltip").last().textContent()).toMatch(/m above sea level/);
     await shots(page, "field-sites-lead");
 
+    // Keyboard: from the map, Tab walks the markers; each is a link named with its figures, focus shows the same
+    // tooltip as hover and a ring in the focus colour, and Enter opens the site.
+    await page.mouse.move(0, 0);
+    await page.locator(".leaflet-container").focus();
+    const focusedMarker = page.locator("path.site-marker:focus");
+    let focusedName = "";
+    for (let presses = 0; presses <= DEMO_SITES.length && !focusedName.startsWith("Tern Ridge"); presses += 1) {
+      await page.keyboard.press("Tab");
+      focusedName = (await focusedMarker.count()) === 1 ? ((await focusedMarker.getAttribute("aria-label")) ?? "") : "";
+    }
+    expect(focusedName).toMatch(/^Tern Ridge, median \d\.\d\d″, [\d,]+ nights$/);
+    expect(await page.getByRole("link", { name: focusedName }).count()).toBe(1);
+    await expect.poll(() => page.locator(".leaflet-tooltip", { hasText: "Tern Ridge" }).count()).toBe(1);
+    expect(await page.locator(".leaflet-tooltip", { hasText: "Tern Ridge" }).textContent()).toMatch(/m above sea level/);
+    // The focus ring: the marker's stroke turns to the focus colour #e0a526 (apps/web/src/styles.css).
+    expect(await focusedMarker.evaluate((element) => element.ownerDocument.defaultView?.getComputedStyle(element).stroke)).toBe("rgb(224, 165, 38)");
+    await shots(page, "field-sites-lead-marker-focus");
+    await page.keyboard.press("Enter");
+    await page.waitForURL(/\/sites\/\d+$/);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Tern Ridge");
+    await page.goBack();
+    await page.waitForSelector("path.site-marker");
+
     // Open Tern Ridge by its marker: find the marker whose tooltip names it.
     const markers = page.locator("path.site-marker");
     for (let index = 0; index < (await markers.count()); index += 1) {

@@ -1,6 +1,6 @@
-import { useEffect, useMemo } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { CircleMarker, GeoJSON, MapContainer, ScaleControl, TileLayer, Tooltip, useMap } from "react-leaflet";
-import { latLngBounds } from "leaflet";
+import { latLngBounds, type CircleMarker as LeafletCircleMarker } from "leaflet";
 import type { SiteListItem } from "@calmcrest/contracts";
 import { countryOutlines } from "../lib/basemap";
 import { SEEING_LEGEND_TICKS_ARCSEC, SEEING_SCALE_MAX_ARCSEC, SEEING_SCALE_MIN_ARCSEC, seeingColour } from "../lib/colour-scale";
@@ -58,42 +58,101 @@ export function SiteMap({
       ) : null}
       <FitToSites sites={sites} />
       <ScaleControl position="bottomright" imperial={false} />
-      {sites.map((site) => {
-        const highlighted = highlightedSiteId === site.id;
-        const median = site.summary?.median;
-        return (
-          <CircleMarker
-            key={site.id}
-            center={[site.latitude, site.longitude]}
-            radius={highlighted ? 14 : 11}
-            // Leaflet reads the class only when the path is created, so it is a prop here rather than a path option.
-            className={median === undefined ? "site-marker site-marker-empty" : "site-marker"}
-            pathOptions={
-              median === undefined
-                ? { color: "#1c2733", weight: 2.5, dashArray: "4 3", fill: true, fillColor: "#ffffff", fillOpacity: 0.0 }
-                : { color: "#1c2733", weight: highlighted ? 3 : 1.5, fillColor: seeingColour(median), fillOpacity: 1 }
-            }
-            eventHandlers={{
-              click: () => onOpen(site.id),
-              mouseover: () => onHover?.(site.id),
-              mouseout: () => onHover?.(null),
-            }}
-          >
-            <Tooltip direction="top" offset={[0, -10]}>
-              <span className="block font-semibold">{site.name}</span>
-              <span className="block">{formatNumber(site.elevationM)} m above sea level</span>
-              {site.summary ? (
-                <span className="block">
-                  median {formatArcsec(site.summary.median)} · {formatNumber(site.summary.nights)} nights
-                </span>
-              ) : (
-                <span className="block">no seeing data yet</span>
-              )}
-            </Tooltip>
-          </CircleMarker>
-        );
-      })}
+      {sites.map((site) => (
+        <SiteMarker key={site.id} site={site} highlighted={highlightedSiteId === site.id} onHover={onHover} onOpen={onOpen} />
+      ))}
     </MapContainer>
+  );
+}
+
+/** What a screen reader says for a marker: the same facts as its tooltip, in one line. */
+export function markerLabel(site: SiteListItem): string {
+  return site.summary
+    ? `${site.name}, median ${formatArcsec(site.summary.median)}, ${formatNumber(site.summary.nights)} nights`
+    : `${site.name}, no data yet`;
+}
+
+/**
+ * One site on the map. Leaflet draws it as an SVG path with no keyboard access, so once the path exists it is made a
+ * focusable link: Tab reaches it, focus shows the hover tooltip (and highlights its table row), Enter or Space opens it.
+ */
+function SiteMarker({
+  site,
+  highlighted,
+  onHover,
+  onOpen,
+}: {
+  site: SiteListItem;
+  highlighted: boolean;
+  onHover?: (siteId: number | null) => void;
+  onOpen: (siteId: number) => void;
+}) {
+  const [layer, setLayer] = useState<LeafletCircleMarker | null>(null);
+  const median = site.summary?.median;
+  const label = markerLabel(site);
+
+  useEffect(() => {
+    const element = layer?.getElement();
+    if (!layer || !element) return;
+    element.setAttribute("tabindex", "0");
+    element.setAttribute("role", "link");
+    element.setAttribute("aria-label", label);
+    const onKeyDown = (event: Event) => {
+      if (!(event instanceof KeyboardEvent) || (event.key !== "Enter" && event.key !== " ")) return;
+      // Space would otherwise scroll the page, as it does for any link-like control.
+      event.preventDefault();
+      onOpen(site.id);
+    };
+    const onFocus = () => {
+      layer.openTooltip();
+      onHover?.(site.id);
+    };
+    const onBlur = () => {
+      layer.closeTooltip();
+      onHover?.(null);
+    };
+    element.addEventListener("keydown", onKeyDown);
+    element.addEventListener("focus", onFocus);
+    element.addEventListener("blur", onBlur);
+    return () => {
+      element.removeEventListener("keydown", onKeyDown);
+      element.removeEventListener("focus", onFocus);
+      element.removeEventListener("blur", onBlur);
+    };
+  }, [layer, label, site.id, onHover, onOpen]);
+
+  return (
+    <CircleMarker
+      center={[site.latitude, site.longitude]}
+      radius={highlighted ? 14 : 11}
+      // Leaflet reads the class only when the path is created, so it is a prop here rather than a path option.
+      className={median === undefined ? "site-marker site-marker-empty" : "site-marker"}
+      pathOptions={
+        median === undefined
+          ? { color: "#1c2733", weight: 2.5, dashArray: "4 3", fill: true, fillColor: "#ffffff", fillOpacity: 0.0 }
+          : { color: "#1c2733", weight: highlighted ? 3 : 1.5, fillColor: seeingColour(median), fillOpacity: 1 }
+      }
+      eventHandlers={{
+        // The SVG path exists only once the layer is on the map; "add" is the first moment it can be given keyboard access.
+        add: (event) => setLayer(event.target as LeafletCircleMarker),
+        remove: () => setLayer(null),
+        click: () => onOpen(site.id),
+        mouseover: () => onHover?.(site.id),
+        mouseout: () => onHover?.(null),
+      }}
+    >
+      <Tooltip direction="top" offset={[0, -10]}>
+        <span className="block font-semibold">{site.name}</span>
+        <span className="block">{formatNumber(site.elevationM)} m above sea level</span>
+        {site.summary ? (
+          <span className="block">
+            median {formatArcsec(site.summary.median)} · {formatNumber(site.summary.nights)} nights
+          </span>
+        ) : (
+          <span className="block">no seeing data yet</span>
+        )}
+      </Tooltip>
+    </CircleMarker>
   );
 }
 

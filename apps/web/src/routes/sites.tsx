@@ -1,4 +1,4 @@
-import { useMemo, useState } from "react";
+import { useCallback, useMemo, useState } from "react";
 import { useSuspenseQuery } from "@tanstack/react-query";
 import { Link, useNavigate } from "react-router-dom";
 import { createColumnHelper } from "@tanstack/react-table";
@@ -47,6 +47,8 @@ export function SitesPage() {
   const { data: me } = useSuspenseQuery(meQuery);
   const navigate = useNavigate();
   const [hoveredSiteId, setHoveredSiteId] = useState<number | null>(null);
+  // Stable, so the markers' keyboard listeners are not rebound on every hover.
+  const openSite = useCallback((siteId: number) => void navigate(`/sites/${siteId}`), [navigate]);
   // Online tiles only where the deployment configured a tile server (CALMCREST_TILE_URL); otherwise the shipped outlines.
   const { data: config } = useSuspenseQuery(configQuery);
   const tiles: MapTiles | null = config.mapTiles;
@@ -55,7 +57,7 @@ export function SitesPage() {
   return (
     <Page
       title="Sites"
-      intro="Candidate sites and their median seeing (at zenith, 500 nm, default filters) over every campaign you can see. Hover a marker for its figures; click it or a name to open the site."
+      intro="Candidate sites and their median seeing (at zenith, 500 nm, default filters) over every campaign you can see. Hover or Tab to a marker for its figures; click it, press Enter on it, or choose a name to open the site."
     >
       {sites.length === 0 ? (
         <Notice title="No sites to show yet.">
@@ -69,7 +71,7 @@ export function SitesPage() {
             <h2 id="map-heading" className="sr-only">
               Map of sites
             </h2>
-            <SiteMap sites={sites} tiles={tiles} highlightedSiteId={hoveredSiteId} onHover={setHoveredSiteId} onOpen={(siteId) => void navigate(`/sites/${siteId}`)} />
+            <SiteMap sites={sites} tiles={tiles} highlightedSiteId={hoveredSiteId} onHover={setHoveredSiteId} onOpen={openSite} />
             <SeeingLegend />
             <p className="text-sm text-ink-soft">
               {withData} of {sites.length} sites have seeing data. {tiles ? "Map tiles from the configured tile server." : "Country outlines: Natural Earth, 1:110 million (shipped with Calmcrest, no network needed)."}

@@ -1,6 +1,6 @@
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Page } from "playwright-core";
+import type { Locator, Page } from "playwright-core";
 import { DEMO_PASSWORD, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer, type Role } from "./support/browser";
 
 // The field and analysis screens in a real chromium on the demo scenario: the engineer's upload wizard on a
@@ -51,6 +51,16 @@ async function shots(page: Page, name: string) {
   await page.setViewportSize(TABLET);
   await page.waitForTimeout(600);
   await screenshot(page, `${name}-tablet`);
+  await page.setViewportSize(DESKTOP);
+}
+
+/** Screenshots of one part of the page at desktop and tablet width, for parts too small to judge in a full-page shot. */
+async function partShots(page: Page, part: Locator, name: string) {
+  for (const [width, viewport] of [["desktop", DESKTOP], ["tablet", TABLET]] as const) {
+    await page.setViewportSize(viewport);
+    await page.waitForTimeout(400);
+    await part.screenshot({ path: join(repoRoot, `tests/screenshots/${name}-${width}.png`) });
+  }
   await page.setViewportSize(DESKTOP);
 }
 
@@ -141,6 +151,22 @@ describe("field and analysis screens in a browser", () => {
     expect(await page.getByLabel("From", { exact: true }).inputValue()).toBe("2025-06-01");
     await expect.poll(() => figures.textContent(), { timeout: 30_000 }).not.toBe(before.figures);
     await shots(page, "field-site-lead-window");
+
+    // The survey lead may edit the site, but a demo site has uploads, so moving it is refused in the server's words;
+    // the same goes for the monitor of one of its campaigns. Nothing is changed either time.
+    await page.getByText("Edit this site").click();
+    await page.getByLabel(/Latitude/).fill("-24.1");
+    await page.getByRole("button", { name: "Save site" }).click();
+    await expect.poll(() => page.getByRole("alert").textContent()).toMatch(/^This site already has uploads.*Create a new site for the corrected position instead\.$/);
+    await partShots(page, page.locator("details", { hasText: "Edit this site" }), "field-site-lead-edit");
+    const campaignLink = page.getByRole("region", { name: "Campaigns at this site" }).getByRole("heading", { level: 3 }).getByRole("link").first();
+    await campaignLink.click();
+    await page.waitForURL(/\/campaigns\/\d+$/);
+    await page.getByText("Edit this campaign").click();
+    await page.getByLabel(/Height above ground/).fill("9.5");
+    await page.getByRole("button", { name: "Save campaign" }).click();
+    await expect.poll(() => page.getByRole("alert").textContent()).toMatch(/^The monitor settings cannot change once a campaign has uploads/);
+    await partShots(page, page.locator("details", { hasText: "Edit this campaign" }), "field-campaign-lead-edit");
     await signOut(page);
   });
 
@@ -229,8 +255,10 @@ describe("field and analysis screens in a browser", () => {
     await signOut(page);
   });
 
-  it("saw no page errors or console errors other than the one expected 409 of the repeated upload", () => {
-    // Chromium logs every non-2xx answer; the duplicate upload above is answered 409 on purpose.
-    expect(browser.problems).toEqual(["console: Failed to load resource: the server responded with a status of 409 (Conflict)"]);
+  it("saw no page errors or console errors other than the expected 409s of the refused edits and the repeated upload", () => {
+    // Chromium logs every non-2xx answer; moving the site, changing the monitor and the duplicate upload above are
+    // answered 409 on purpose.
+    const conflict = "console: Failed to load resource: the server responded with a status of 409 (Conflict)";
+    expect(browser.problems).toEqual([conflict, conflict, conflict]);
   });
 });

@@ -1,5 +1,5 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { AddMemberInput, CampaignDetail, CreateExclusionInput, Exclusion, SavedMapping, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
+import type { AddMemberInput, CampaignDetail, CreateExclusionInput, Exclusion, PatchCampaignInput, SavedMapping, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
 import { api } from "./client";
 import { summaryQueryString } from "../lib/filter-params";
 
@@ -31,3 +31,7 @@ export const saveMapping = (campaignId: number, input: SavedMapping) =>
 export const addMember = (campaignId: number, input: AddMemberInput) => api<unknown>(`/campaigns/${campaignId}/members`, { body: input });
 export const removeMember = (campaignId: number, userId: string) =>
   api<unknown>(`/campaigns/${campaignId}/members/${encodeURIComponent(userId)}`, { method: "DELETE" });
+
+/** Changes some fields of a campaign; 409 when it would change the monitor of a campaign that has uploads. */
+export const updateCampaign = (campaignId: number, input: PatchCampaignInput) =>
+  api<CampaignDetail>(`/campaigns/${campaignId}`, { method: "PATCH", body: input });

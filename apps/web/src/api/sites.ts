@@ -1,5 +1,5 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { AppConfig, CreateCampaignInput, CreateSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
+import type { AppConfig, CreateCampaignInput, CreateSiteInput, PatchSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
 import { api } from "./client";
 import { summaryQueryString } from "../lib/filter-params";
 
@@ -29,3 +29,5 @@ export const siteSummaryQuery = (siteId: number, filters: SummaryQuery) =>
 
 export const createSite = (input: CreateSiteInput) => api<SiteDetail>("/sites", { body: input });
 export const createCampaign = (siteId: number, input: CreateCampaignInput) => api<unknown>(`/sites/${siteId}/campaigns`, { body: input });
+/** Changes some fields of a site; 409 when the change would move a site that already has uploads. */
+export const updateSite = (siteId: number, input: PatchSiteInput) => api<SiteDetail>(`/sites/${siteId}`, { method: "PATCH", body: input });

@@ -6,6 +6,7 @@ import type { UploadListItem } from "@calmcrest/contracts";
 import { campaignQuery, campaignSummaryQuery, retryUpload } from "../api/campaigns";
 import { ApiError } from "../api/client";
 import { DataTable } from "../components/data-table";
+import { EditCampaignForm } from "../components/edit-forms";
 import { Exclusions } from "../components/exclusions";
 import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { MonitorSettings } from "../components/monitor-settings";
@@ -155,6 +156,9 @@ export function CampaignPage() {
             {campaign.notes ? <p className="mt-2 text-ink-soft">{campaign.notes}</p> : null}
           </div>
         </section>
+
+        {/* The key starts a fresh form when the page moves to another campaign. */}
+        {campaign.can.edit ? <EditCampaignForm key={campaign.id} campaign={campaign} /> : null}
 
         <section aria-labelledby="uploads-heading" className="space-y-3">
           <h2 id="uploads-heading" className="text-lg font-semibold">

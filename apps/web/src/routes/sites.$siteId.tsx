@@ -8,6 +8,7 @@ import { CoverageStrip } from "../components/coverage-strip";
 import { coverageRange } from "../lib/coverage";
 import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { MonitorSettings } from "../components/monitor-settings";
+import { EditSiteForm } from "../components/edit-forms";
 import { NewCampaignForm } from "../components/new-site-forms";
 import { Notice, Page } from "../components/page";
 import { SeeingCharts } from "../components/seeing-charts";
@@ -56,6 +57,8 @@ export function SitePage() {
   const { data: me } = useSuspenseQuery(meQuery);
   const { filters } = useFilterParams();
   const summary = useQuery({ ...siteSummaryQuery(siteId, filters), placeholderData: keepPreviousData });
+  // The site detail carries no permission flags; the server lets survey leads and administrators change sites.
+  const canEdit = me?.role === "lead" || me?.role === "admin";
 
   return (
     <Page
@@ -113,8 +116,10 @@ export function SitePage() {
               ))}
             </div>
           )}
-          {me?.role === "lead" || me?.role === "admin" ? <NewCampaignForm siteId={siteId} /> : null}
+          {canEdit ? <NewCampaignForm siteId={siteId} /> : null}
         </section>
+        {/* The key starts a fresh form when the page moves to another site. */}
+        {canEdit ? <EditSiteForm key={site.id} site={site} /> : null}
       </div>
     </Page>
   );

@@ -1,3 +1,5 @@
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Locator, Page } from "playwright-core";
@@ -241,6 +243,32 @@ describe("field and analysis screens in a browser", () => {
     // The same bytes again are recognised, never counted twice.
     await page.getByRole("button", { name: "Upload" }).click();
     await expect.poll(() => page.getByText(/uploaded to this campaign already/).count(), { timeout: 30_000 }).toBe(1);
+
+    // Cancel during the transfer: a long log (the sample's rows repeated to about 8 MB, more than any socket buffer)
+    // sent at a throttled 200 kB/s is still on its way when Cancel is pressed.
+    const sampleLog = readFileSync(join(repoRoot, "data-samples/wizard-fwhm-airmass.csv"), "utf8");
+    const [headerLine = "", ...dataLines] = sampleLog.trimEnd().split("\n");
+    const longLogDir = mkdtempSync(join(tmpdir(), "calmcrest-long-log-"));
+    const longLog = join(longLogDir, "long-trip.csv");
+    writeFileSync(longLog, `${headerLine}\n${Array.from({ length: 600 }, () => dataLines.join("\n")).join("\n")}\n`);
+    await page.goto(`${server.url}/upload?campaign=${campaign.id}`);
+    await page.locator('input[type="file"]').setInputFiles(longLog);
+    await expect.poll(() => page.getByText(/mapping saved for this campaign fits/).count()).toBe(1);
+    const network = await browser.context.newCDPSession(page);
+    await network.send("Network.emulateNetworkConditions", { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: 200_000 });
+    await page.getByRole("button", { name: "Upload" }).click();
+    const cancel = page.getByRole("button", { name: "Cancel sending long-trip.csv" });
+    await cancel.waitFor();
+    await partShots(page, page.getByRole("region", { name: "Upload" }), "field-upload-engineer-sending");
+    await cancel.click();
+    await expect.poll(() => page.getByText("Cancelled during the transfer: the file was not stored.", { exact: false }).count()).toBe(1);
+    await network.send("Network.emulateNetworkConditions", { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+    await network.detach();
+    rmSync(longLogDir, { recursive: true, force: true });
+    await partShots(page, page.getByRole("region", { name: "Upload" }), "field-upload-engineer-cancelled");
+    // The server kept nothing: the campaign still has its one upload.
+    const after = await lead<{ uploads: unknown[] }>(`/campaigns/${campaign.id}`);
+    expect(after.uploads).toHaveLength(1);
     await signOut(page);
   });
 

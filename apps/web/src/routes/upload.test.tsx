@@ -1,5 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
-import { cleanup, fireEvent, render, screen, waitFor } from "@testing-library/react";
+import { act, cleanup, fireEvent, render, screen, waitFor } from "@testing-library/react";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { createMemoryRouter, RouterProvider } from "react-router-dom";
 import type { CampaignDetail, SiteDetail, SiteListItem, UploadPreview } from "@calmcrest/contracts";
@@ -31,10 +31,36 @@ const answers: Record<string, () => unknown> = {
   "/api/sites/3": () => siteDetail,
   "/api/campaigns/7": campaign,
   "/api/campaigns/7/uploads/preview": () => preview,
+  "/api/campaigns/7/saved-mapping": () => ({}),
 };
+
+/** Stands in for the browser's XMLHttpRequest (the upload uses it for its progress events); the test drives it. */
+class FakeUploadRequest {
+  static sent: FakeUploadRequest[] = [];
+  upload: { onprogress: ((event: { lengthComputable: boolean; loaded: number; total: number }) => void) | null } = { onprogress: null };
+  onabort: (() => void) | null = null;
+  onerror: (() => void) | null = null;
+  onload: (() => void) | null = null;
+  withCredentials = false;
+  url = "";
+  aborted = false;
+  open(_method: string, url: string) {
+    this.url = url;
+  }
+  setRequestHeader() {}
+  send() {
+    FakeUploadRequest.sent.push(this);
+  }
+  abort() {
+    this.aborted = true;
+    this.onabort?.();
+  }
+}
 
 beforeEach(() => {
   savedMapping = null;
+  FakeUploadRequest.sent = [];
+  vi.stubGlobal("XMLHttpRequest", FakeUploadRequest);
   vi.stubGlobal(
     "fetch",
     vi.fn(async (url: string) => {
@@ -60,7 +86,7 @@ function renderWizard(url: string) {
   );
 }
 
-const foreignLog = () => new File(["Timestamp (UTC);FWHM [arcsec];Airmass;Notes\n2026-03-01 23:00:00;0.81;1.12;ok\n"], "trip.csv", { type: "text/csv" });
+const foreignLog = (name = "trip.csv") => new File(["Timestamp (UTC);FWHM [arcsec];Airmass;Notes\n2026-03-01 23:00:00;0.81;1.12;ok\n"], name, { type: "text/csv" });
 
 describe("upload wizard", () => {
   it("preselects the campaign from the address and proposes a mapping from the file's headers", async () => {
@@ -98,5 +124,43 @@ describe("upload wizard", () => {
     fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog(), other] } });
     await screen.findByText(/native.csv has different columns from trip.csv/);
     expect((screen.getByRole("button", { name: "Upload 2 files" }) as HTMLButtonElement).disabled).toBe(true);
+  });
+
+  it("cancels a file during its transfer, says it was not stored and leaves the rest of the batch unsent", async () => {
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog(), foreignLog("trip-2.csv")] } });
+    const uploadButton = await screen.findByRole("button", { name: "Upload 2 files" });
+    await waitFor(() => expect((uploadButton as HTMLButtonElement).disabled).toBe(false));
+    fireEvent.click(uploadButton);
+
+    await waitFor(() => expect(FakeUploadRequest.sent).toHaveLength(1));
+    const request = FakeUploadRequest.sent[0];
+    expect(request?.url).toBe("/api/campaigns/7/uploads");
+    act(() => request?.upload.onprogress?.({ lengthComputable: true, loaded: 40, total: 100 }));
+    expect(screen.getByRole("progressbar", { name: "Sending to the server" }).getAttribute("aria-valuenow")).toBe("40");
+
+    fireEvent.click(screen.getByRole("button", { name: "Cancel sending trip.csv" }));
+    await screen.findByText("Cancelled during the transfer: the file was not stored. Nothing of it is kept on the server.");
+    expect(request?.aborted).toBe(true);
+    expect(screen.queryByRole("progressbar")).toBeNull();
+    expect(screen.queryByRole("button", { name: /^Cancel/ })).toBeNull();
+    expect(screen.getByText("Not sent: the upload was cancelled before this file.")).toBeTruthy();
+    // The second file was never sent, and the wizard says how to start again.
+    expect(FakeUploadRequest.sent).toHaveLength(1);
+    expect(screen.getByText("Cancelled. Choose the files again above to upload them.")).toBeTruthy();
+  });
+
+  it("warns that the server may have the file when the cancel comes after every byte was sent", async () => {
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
+    const uploadButton = await screen.findByRole("button", { name: "Upload" });
+    await waitFor(() => expect((uploadButton as HTMLButtonElement).disabled).toBe(false));
+    fireEvent.click(uploadButton);
+    await waitFor(() => expect(FakeUploadRequest.sent).toHaveLength(1));
+    act(() => FakeUploadRequest.sent[0]?.upload.onprogress?.({ lengthComputable: true, loaded: 100, total: 100 }));
+    fireEvent.click(screen.getByRole("button", { name: "Cancel sending trip.csv" }));
+    await screen.findByText(/Cancelled after the whole file had been sent: the server may have stored it/);
   });
 });

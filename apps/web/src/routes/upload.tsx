@@ -125,6 +125,8 @@ export function UploadPage() {
   const [failure, setFailure] = useState<string | null>(null);
   const [finishedCount, setFinishedCount] = useState(0);
   const fileInput = useRef<HTMLInputElement>(null);
+  // The batch being sent, so Cancel can stop the transfer in progress.
+  const transfer = useRef<AbortController | null>(null);
   const [dragging, setDragging] = useState(false);
 
   const chooseFiles = async (chosen: File[]) => {
@@ -183,24 +185,42 @@ export function UploadPage() {
     }
     const state: FileSend[] = files.map(() => ({ state: "waiting" }));
     setSends([...state]);
+    const controller = new AbortController();
+    transfer.current = controller;
     // One file at a time: the server ingests one at a time anyway, and the transfer bar stays meaningful.
     for (const [index, file] of files.entries()) {
       state[index] = { state: "sending", fraction: 0 };
       setSends([...state]);
+      let sentFraction = 0;
       try {
-        const outcome = await sendUpload(target.id, file, chosenMapping, (fraction) => {
-          state[index] = { state: "sending", fraction };
-          setSends([...state]);
-        });
+        const outcome = await sendUpload(
+          target.id,
+          file,
+          chosenMapping,
+          (fraction) => {
+            sentFraction = fraction;
+            state[index] = { state: "sending", fraction };
+            setSends([...state]);
+          },
+          controller.signal,
+        );
         state[index] =
           outcome.kind === "accepted"
             ? { state: "stored", uploadId: outcome.accepted.upload.id }
             : { state: "duplicate", message: outcome.duplicate.error.message, upload: outcome.duplicate.upload };
       } catch (error) {
+        if (controller.signal.aborted) {
+          // Once every byte is out, the server may already have stored the file before the cancel reached it.
+          state[index] = { state: "cancelled", sentInFull: sentFraction >= 1 };
+          for (let later = index + 1; later < files.length; later += 1) state[later] = { state: "not-sent" };
+          setSends([...state]);
+          break;
+        }
         state[index] = { state: "refused", message: error instanceof ApiError ? error.message : "The upload failed. Try again." };
       }
       setSends([...state]);
     }
+    transfer.current = null;
   });
 
   const onFinished = useCallback(() => setFinishedCount((count) => count + 1), []);
@@ -355,7 +375,13 @@ export function UploadPage() {
               {!ready ? <span className="text-sm text-ink-soft">Choose a campaign and files, and complete the mapping, to upload.</span> : null}
             </>
           ) : (
-            <span className="text-sm text-ink-soft">{running ? "Sending…" : "Sent. Choose more files above to upload another batch."}</span>
+            <span className="text-sm text-ink-soft">
+              {running
+                ? "Sending…"
+                : sends.some((send) => send.state === "cancelled")
+                  ? "Cancelled. Choose the files again above to upload them."
+                  : "Sent. Choose more files above to upload another batch."}
+            </span>
           )}
         </div>
       </form>
@@ -367,7 +393,7 @@ export function UploadPage() {
           </h2>
           <ol className="space-y-3">
             {files.map((file, index) => (
-              <FileProgress key={`${file.name}-${index}`} file={file} send={sends[index] ?? { state: "waiting" }} campaignId={selectedCampaign.id} onFinished={onFinished} />
+              <FileProgress key={`${file.name}-${index}`} file={file} send={sends[index] ?? { state: "waiting" }} campaignId={selectedCampaign.id} onFinished={onFinished} onCancel={() => transfer.current?.abort()} />
             ))}
           </ol>
           {finishedCount > 0 ? (

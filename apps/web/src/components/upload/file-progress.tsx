@@ -10,7 +10,11 @@ export type FileSend =
   | { state: "sending"; fraction: number }
   | { state: "stored"; uploadId: number }
   | { state: "duplicate"; message: string; upload: UploadListItem }
-  | { state: "refused"; message: string };
+  | { state: "refused"; message: string }
+  /** Stopped by the person during the transfer; `sentInFull` when every byte had already left. */
+  | { state: "cancelled"; sentInFull: boolean }
+  /** Left out because an earlier file of the batch was cancelled. */
+  | { state: "not-sent" };
 
 function Bar({ label, fraction, tone = "accent" }: { label: string; fraction: number; tone?: "accent" | "bad" }) {
   const percent = Math.round(Math.min(1, Math.max(0, fraction)) * 100);
@@ -97,13 +101,30 @@ function Ingest({ uploadId, onFinished }: { uploadId: number; onFinished: () => 
   );
 }
 
-/** One file's way through the upload: transfer bar, ingest bar, then its result. */
-export function FileProgress({ file, send, campaignId, onFinished }: { file: File; send: FileSend; campaignId: number; onFinished: () => void }) {
+/** One file's way through the upload: transfer bar (with Cancel), ingest bar, then its result. */
+export function FileProgress({ file, send, campaignId, onFinished, onCancel }: { file: File; send: FileSend; campaignId: number; onFinished: () => void; onCancel: () => void }) {
   return (
     <li className="space-y-2 rounded-lg border border-line bg-panel p-3">
       <p className="font-semibold">{file.name}</p>
       {send.state === "waiting" ? <p className="text-sm text-ink-soft">Waiting for the files before it.</p> : null}
-      {send.state === "sending" ? <Bar label="Sending to the server" fraction={send.fraction} /> : null}
+      {send.state === "sending" ? (
+        <div className="flex items-end gap-3">
+          <div className="min-w-0 flex-1">
+            <Bar label="Sending to the server" fraction={send.fraction} />
+          </div>
+          <button type="button" onClick={onCancel} aria-label={`Cancel sending ${file.name}`} className="rounded-md border border-line px-3 py-1 text-sm font-semibold hover:bg-bad-pale">
+            Cancel
+          </button>
+        </div>
+      ) : null}
+      {send.state === "cancelled" ? (
+        <p role="status" className="rounded-md bg-warn-pale px-3 py-2 text-sm text-warn">
+          {send.sentInFull
+            ? "Cancelled after the whole file had been sent: the server may have stored it. Check the campaign's uploads before sending it again."
+            : "Cancelled during the transfer: the file was not stored. Nothing of it is kept on the server."}
+        </p>
+      ) : null}
+      {send.state === "not-sent" ? <p className="text-sm text-ink-soft">Not sent: the upload was cancelled before this file.</p> : null}
       {send.state === "stored" ? (
         <>
           <Bar label="Sending to the server" fraction={1} />

@@ -151,7 +151,7 @@ export function CampaignPage() {
           <div className="text-sm">
             <h2 className="mb-2 text-lg font-semibold">Stored data</h2>
             <p>
-              {formatNumber(campaign.sampleCount)} samples from {formatNumber(campaign.uploadCount)} uploads, {formatDateTimeUtc(campaign.firstSampleAt)} to {formatDateTimeUtc(campaign.lastSampleAt)}.
+              {formatNumber(campaign.sampleCount)} samples from {formatNumber(campaign.uploadCount)} {campaign.uploadCount === 1 ? "upload" : "uploads"}, {formatDateTimeUtc(campaign.firstSampleAt)} to {formatDateTimeUtc(campaign.lastSampleAt)}.
             </p>
             {campaign.notes ? <p className="mt-2 text-ink-soft">{campaign.notes}</p> : null}
           </div>

@@ -32,7 +32,7 @@ function CampaignCard({ campaign, filters }: { campaign: CampaignListItem; filte
         <span className="rounded-full bg-accent-pale px-2 py-0.5 text-xs font-semibold text-accent-strong">{campaign.status}</span>
       </div>
       <p className="mb-3 text-sm text-ink-soft">
-        {formatNumber(campaign.sampleCount)} stored samples from {formatNumber(campaign.uploadCount)} uploads · data {formatDateUtc(campaign.firstSampleAt)} to {formatDateUtc(campaign.lastSampleAt)}
+        {formatNumber(campaign.sampleCount)} stored samples from {formatNumber(campaign.uploadCount)} {campaign.uploadCount === 1 ? "upload" : "uploads"} · data {formatDateUtc(campaign.firstSampleAt)} to {formatDateUtc(campaign.lastSampleAt)}
       </p>
       <div className="grid gap-4 md:grid-cols-[minmax(0,1fr)_minmax(0,1.4fr)]">
         <MonitorSettings monitor={campaign.monitor} />

@@ -11,8 +11,7 @@ import { Exclusions } from "../components/exclusions";
 import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { MonitorSettings } from "../components/monitor-settings";
 import { Notice, Page } from "../components/page";
-import { SeeingCharts } from "../components/seeing-charts";
-import { SummaryFigures } from "../components/summary-figures";
+import { SummarySection } from "../components/summary-section";
 import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber, reasonLabel } from "../lib/format";
 import { idParam } from "../route-loaders";
 
@@ -182,26 +181,13 @@ export function CampaignPage() {
         <Exclusions campaign={campaign} />
 
         <FilterPanel />
-        {summary.isPending ? (
-          <p role="status" className="text-ink-soft">
-            Computing the seeing statistics…
-          </p>
-        ) : summary.isError ? (
-          <Notice tone="bad" title="The seeing statistics could not be computed.">
-            {summary.error instanceof ApiError ? summary.error.message : "Reload the page to try again."}
-          </Notice>
-        ) : (
-          <div className={`space-y-8 ${summary.isPlaceholderData ? "opacity-60" : ""}`} aria-busy={summary.isPlaceholderData}>
-            <SummaryFigures summary={summary.data} />
-            {summary.data.empty ? (
-              <Notice tone={summary.data.samples.read === 0 ? "info" : "warn"} title={summary.data.samples.read === 0 ? "No seeing data yet." : "No sample passes these settings."}>
-                {summary.data.samples.read === 0 ? "Nothing has been uploaded to this campaign yet." : "Widen the date window or relax the limits above."}
-              </Notice>
-            ) : (
-              <SeeingCharts scope={{ kind: "campaign", id: campaignId }} filters={filters} summary={summary.data} />
-            )}
-          </div>
-        )}
+        <SummarySection
+          summary={summary}
+          scope={{ kind: "campaign", id: campaignId }}
+          filters={filters}
+          noDataText="Nothing has been uploaded to this campaign yet."
+          nothingPassesText="Widen the date window or relax the limits above."
+        />
       </div>
     </Page>
   );

@@ -11,9 +11,7 @@ import { MonitorSettings } from "../components/monitor-settings";
 import { EditSiteForm } from "../components/edit-forms";
 import { NewCampaignForm } from "../components/new-site-forms";
 import { Notice, Page } from "../components/page";
-import { SeeingCharts } from "../components/seeing-charts";
-import { SummaryFigures } from "../components/summary-figures";
-import { ApiError } from "../api/client";
+import { SummarySection } from "../components/summary-section";
 import { formatDateUtc, formatNumber } from "../lib/format";
 import { idParam } from "../route-loaders";
 
@@ -77,30 +75,17 @@ export function SitePage() {
     >
       <div className="space-y-8">
         <FilterPanel />
-        {summary.isPending ? (
-          <p role="status" className="text-ink-soft">
-            Computing the seeing statistics…
-          </p>
-        ) : summary.isError ? (
-          <Notice tone="bad" title="The seeing statistics could not be computed.">
-            {summary.error instanceof ApiError ? summary.error.message : "Reload the page to try again."}
-          </Notice>
-        ) : (
-          <div className={`space-y-8 transition-opacity ${summary.isPlaceholderData ? "opacity-60" : ""}`} aria-busy={summary.isPlaceholderData}>
-            <SummaryFigures summary={summary.data} />
-            {summary.data.empty ? (
-              <Notice tone={summary.data.samples.read === 0 ? "info" : "warn"} title={summary.data.samples.read === 0 ? "No seeing data yet." : "No sample passes these settings."}>
-                {summary.data.samples.read === 0
-                  ? me?.role === "engineer"
-                    ? "No logs have been uploaded for your campaigns here yet. Upload your monitor's logs under Upload logs."
-                    : "No logs have been uploaded for this site yet. Field engineers upload them under Upload logs after each trip."
-                  : "Widen the date window or relax the zenith, sun or flux limits above to include more samples."}
-              </Notice>
-            ) : (
-              <SeeingCharts scope={{ kind: "site", id: siteId }} filters={filters} summary={summary.data} />
-            )}
-          </div>
-        )}
+        <SummarySection
+          summary={summary}
+          scope={{ kind: "site", id: siteId }}
+          filters={filters}
+          noDataText={
+            me?.role === "engineer"
+              ? "No logs have been uploaded for your campaigns here yet. Upload your monitor's logs under Upload logs."
+              : "No logs have been uploaded for this site yet. Field engineers upload them under Upload logs after each trip."
+          }
+          nothingPassesText="Widen the date window or relax the zenith, sun or flux limits above to include more samples."
+        />
         <section aria-labelledby="campaigns-heading" className="space-y-3">
           <h2 id="campaigns-heading" className="text-lg font-semibold">
             Campaigns at this site

@@ -5,8 +5,7 @@ import express, { type Express } from "express";
 import type { AppContext } from "./context";
 import { apiNotFoundHandler, errorHandler } from "./http/errors";
 import { loadSession, originCheck } from "./http/session";
-import { authRoutes } from "./routes/auth";
-import { apiRouteModules } from "./routes/index";
+import { apiRouters } from "./routes/index";
 
 const webDist = join(dirname(fileURLToPath(import.meta.url)), "../../web/dist");
 
@@ -19,11 +18,7 @@ export function createApp(context: AppContext): Express {
   api.use(express.json({ limit: "1mb" }));
   api.use(originCheck);
   api.use(loadSession(context.lucia));
-  api.get("/health", (_req, res) => {
-    res.json({ ok: true });
-  });
-  api.use(authRoutes(context));
-  for (const routes of apiRouteModules) api.use(routes(context));
+  for (const routes of apiRouters(context)) api.use(routes.mount, routes.router);
   api.use(apiNotFoundHandler);
   app.use("/api", api);
 

@@ -2,6 +2,7 @@ import type { AppDatabase } from "./db/database.server";
 import type { AppLucia } from "./auth/lucia.server";
 import type { Env } from "./env.server";
 import type { IngestQueue } from "./ingest/ingest-queue.server";
+import type { Store } from "./store/index";
 import type { SampleCache } from "./summaries/sample-cache.server";
 
 /** What every route module receives. */
@@ -9,6 +10,8 @@ export interface AppContext {
   env: Env;
   db: AppDatabase;
   lucia: AppLucia;
+  /** Every query and write of the application tables (routes -> store -> engine). */
+  store: Store;
   /** Background ingest of stored uploads, one at a time. */
   ingest: IngestQueue;
   /** Per-campaign sample columns for summaries, loaded from SQLite on first use. */

@@ -6,12 +6,13 @@ import { openDatabase } from "./db/database.server";
 import type { Env } from "./env.server";
 import { IngestQueue, recoverUploads } from "./ingest/ingest-queue.server";
 import { seedIfEmpty } from "./seed/index";
+import { createStore, WriteGate } from "./store/index";
 import { SampleCache } from "./summaries/sample-cache.server";
 
 // Start-up hooks other areas register (for example: mark uploads left half-done by a dead process).
 export const startupSteps: ((context: AppContext) => Promise<void>)[] = [
-  async ({ db, ingest }) => {
-    const { interrupted, requeued } = await recoverUploads(db, ingest);
+  async ({ store, ingest }) => {
+    const { interrupted, requeued } = await recoverUploads(store, ingest);
     if (interrupted + requeued > 0) {
       console.log(`Calmcrest: ${interrupted} upload(s) left half-ingested by a stopped server are marked interrupted; ${requeued} queued upload(s) re-queued.`);
     }
@@ -23,12 +24,15 @@ export async function createContext(env: Env): Promise<AppContext> {
   const db = await openDatabase(env.dataDir);
   const lucia = createLucia(db.sqlite, { secureCookies: env.NODE_ENV === "production" });
   const samples = new SampleCache(db.sqlite);
+  const gate = new WriteGate();
+  const store = createStore(db, samples, gate);
   let closing: Promise<void> | undefined;
-  const ingest = new IngestQueue(db, env.dataDir, samples, env.NODE_ENV === "test");
+  const ingest = new IngestQueue(store, gate, { dbFile: db.file, dataDir: env.dataDir, allowTestHooks: env.NODE_ENV === "test" });
   const context: AppContext = {
     env,
     db,
     lucia,
+    store,
     ingest,
     samples,
     close: () => {

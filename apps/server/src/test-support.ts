@@ -1,6 +1,7 @@
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import Database from "better-sqlite3";
 import request from "supertest";
 import type { Express } from "express";
 import { afterAll } from "vitest";
@@ -46,4 +47,64 @@ export async function signedInAgent(app: Express, role: "admin" | "lead" | "engi
     .send({ email: `${role}@calmcrest.test`, password: DEMO_PASSWORD_FOR_TESTS });
   if (response.status !== 200) throw new Error(`sign-in as ${role} failed: ${response.status} ${JSON.stringify(response.body)}`);
   return agent;
+}
+
+// Looks into the database for tests, at what the API does not show (stored sample counts, raw rows). Routes and
+// their tests go through the API and the store; only these helpers read tables directly.
+
+/** Rows of a table matching `where`, in insertion order. */
+export async function tableRows(context: AppContext, table: string, where: Record<string, unknown> = {}): Promise<Record<string, unknown>[]> {
+  return context.db.knex(table).where(where).select<Record<string, unknown>[]>("*");
+}
+
+/** How many rows of a table match `where`. */
+export async function countRows(context: AppContext, table: string, where: Record<string, unknown> = {}): Promise<number> {
+  const row = await context.db.knex(table).where(where).count<{ n: number }[]>({ n: "*" }).first();
+  return Number(row?.n ?? 0);
+}
+
+/** The id of the account with that e-mail (the demo users exist in every test server). */
+export async function userIdOf(context: AppContext, email: string): Promise<string> {
+  const id = await context.store.users.idByEmail(email);
+  if (!id) throw new Error(`No account has the e-mail ${email}.`);
+  return id;
+}
+
+/** The audit actions recorded for an item (or for every item of a type), oldest first. */
+export function auditActions(context: AppContext, targetType: string, targetId?: string | number): Promise<string[]> {
+  return context.store.audit.actions(targetType, targetId);
+}
+
+/** Resolves once the ingest worker holds SQLite's write lock: a probe connection that does not wait gets SQLITE_BUSY. */
+export async function ingestHoldsWriteLock(context: AppContext): Promise<void> {
+  const probe = new Database(context.db.file);
+  probe.pragma("busy_timeout = 0");
+  try {
+    for (;;) {
+      try {
+        probe.exec("BEGIN IMMEDIATE");
+        probe.exec("ROLLBACK");
+      } catch (error) {
+        if (error instanceof Error && "code" in error && error.code === "SQLITE_BUSY") return;
+        throw error;
+      }
+      await new Promise((resolve) => setTimeout(resolve, 10));
+    }
+  } finally {
+    probe.close();
+  }
+}
+
+/**
+ * Leaves the database as a process killed mid-ingest would: the upload marked ingesting, and one sample written
+ * in a transaction that never commits (closing the connection without COMMIT rolls it back).
+ */
+export function simulateDeadIngest(context: AppContext, uploadId: number, campaignId: number): void {
+  const raw = new Database(context.db.file);
+  raw.prepare("UPDATE upload SET status = 'ingesting' WHERE id = ?").run(uploadId);
+  raw.exec("BEGIN IMMEDIATE");
+  raw
+    .prepare("INSERT INTO sample (campaign_id, time_ms, upload_id, seeing_arcsec, r0_cm, zenith_deg, anisotropic) VALUES (?, ?, ?, 0.8, 12, 20, 0)")
+    .run(campaignId, Date.parse("2025-04-08T03:00:00Z"), uploadId);
+  raw.close();
 }

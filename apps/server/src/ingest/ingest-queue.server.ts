@@ -1,19 +1,9 @@
 import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
-import type { AppDatabase } from "../db/database.server";
-import { monitorOf, type CampaignRow, type SiteRow } from "../access/access.server";
+import { monitorOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
 import { rawFilePath } from "../uploads/raw-files.server";
-import type { SampleCache } from "../summaries/sample-cache.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
-
-interface QueuedUploadRow {
-  id: number;
-  campaign_id: number;
-  sha256: string;
-  size_bytes: number;
-  mapping: string;
-}
 
 /**
  * The in-process ingest queue: one ingest at a time (SQLite has one writer anyway), run in a worker thread.
@@ -26,19 +16,18 @@ export class IngestQueue {
   private worker: Worker | null = null;
   private stopped = false;
   private busy = false;
-  /** Main-thread writes in progress through withWriteSlot; the next ingest waits for them. */
-  private writers = 0;
-  private writeSlotWaiters: (() => void)[] = [];
   private idleWaiters: (() => void)[] = [];
   /** Test-only knobs (ignored outside NODE_ENV=test). */
   readonly testHooks: { failAfterSamples?: number; pauseAfterSamples?: { samples: number; ms: number } } = {};
 
   constructor(
-    private readonly db: AppDatabase,
-    private readonly dataDir: string,
-    private readonly cache: SampleCache,
-    private readonly allowTestHooks: boolean,
-  ) {}
+    private readonly store: Store,
+    private readonly gate: WriteGate,
+    private readonly options: { dbFile: string; dataDir: string; allowTestHooks: boolean },
+  ) {
+    // The last main-thread writer leaving the gate lets a waiting ingest start.
+    gate.onFree(() => void this.pump());
+  }
 
   /** Queues a stored upload (status queued) for ingest. */
   enqueue(uploadId: number): void {
@@ -49,32 +38,14 @@ export class IngestQueue {
     void this.pump();
   }
 
-  /**
-   * Runs a main-thread write when no ingest holds SQLite's write lock. better-sqlite3 is synchronous, so a write
-   * that met the ingest's lock would wait in SQLite's busy handler and freeze the whole event loop (progress polls
-   * included) until the ingest commits; waiting here instead keeps the server answering. The next ingest starts
-   * only after these writes.
-   */
-  async withWriteSlot<T>(write: () => Promise<T>): Promise<T> {
-    const release = await this.acquireWriteSlot();
-    try {
-      return await write();
-    } finally {
-      release();
-    }
+  /** Runs a main-thread write outside any ingest (see WriteGate); store writes do this themselves. */
+  withWriteSlot<T>(write: () => Promise<T>): Promise<T> {
+    return this.gate.withSlot(write);
   }
 
-  /** The same as withWriteSlot for code that cannot wrap its writes in one function; call the returned release once. */
-  async acquireWriteSlot(): Promise<() => void> {
-    while (this.busy) await new Promise<void>((resolve) => this.writeSlotWaiters.push(resolve));
-    this.writers += 1;
-    let released = false;
-    return () => {
-      if (released) return;
-      released = true;
-      this.writers -= 1;
-      if (this.writers === 0) void this.pump();
-    };
+  /** The same as withWriteSlot for code that cannot wrap its writes in one function (Lucia's session writes); call the returned release once. */
+  acquireWriteSlot(): Promise<() => void> {
+    return this.gate.acquire();
   }
 
   /** 0..1 for a queued or running upload; undefined when it is not in the queue. */
@@ -130,7 +101,7 @@ export class IngestQueue {
       return;
     }
     if (message.type === "done") {
-      this.cache.invalidate(running.campaignId);
+      this.store.uploads.ingestCommitted(running.uploadId, running.campaignId);
       running.settle();
       return;
     }
@@ -138,35 +109,27 @@ export class IngestQueue {
   }
 
   private async finishFailed(uploadId: number, error: string): Promise<void> {
-    await this.db.knex("upload").where({ id: uploadId }).update({
-      status: "failed",
-      error,
-      rows_read: 0,
-      samples_accepted: 0,
-      rejected_by_reason: "{}",
-      finished_at: new Date().toISOString(),
-    });
+    await this.store.uploads.markFailed(uploadId, error);
     this.running?.settle();
   }
 
   private async pump(): Promise<void> {
     // `busy` is set before the first await, so two enqueues in a row cannot start two ingests.
-    if (this.busy || this.writers > 0) return;
+    if (this.busy || this.gate.writersActive) return;
     const uploadId = this.stopped ? undefined : this.waiting.shift();
     if (uploadId === undefined) {
       for (const resolve of this.idleWaiters.splice(0)) resolve();
       return;
     }
     this.busy = true;
+    this.gate.holdForIngest();
     try {
       const job = await this.jobFor(uploadId);
       if (job) {
         await new Promise<void>((settle) => {
           this.running = { uploadId, campaignId: job.campaignId, sizeBytes: job.sizeBytes, settle };
-          void this.db
-            .knex("upload")
-            .where({ id: uploadId })
-            .update({ status: "ingesting", started_at: new Date().toISOString(), error: null, finished_at: null })
+          void this.store.uploads
+            .markIngesting(uploadId)
             .then(() => this.ensureWorker().postMessage({ type: "job", job } satisfies ToWorker))
             .catch((error: unknown) => void this.finishFailed(uploadId, error instanceof Error ? error.message : String(error)));
         });
@@ -175,31 +138,28 @@ export class IngestQueue {
       this.running = null;
       this.busy = false;
       this.progressByUpload.delete(uploadId);
+      // Writers that waited for this ingest go first (their continuations run before setImmediate fires).
+      this.gate.releaseFromIngest();
     }
-    // Writers that waited for this ingest go first (their continuations run before setImmediate fires).
-    for (const resolve of this.writeSlotWaiters.splice(0)) resolve();
     setImmediate(() => void this.pump());
   }
 
   private async jobFor(uploadId: number): Promise<IngestJob | null> {
-    const knex = this.db.knex;
-    const upload = await knex("upload").where({ id: uploadId }).first<QueuedUploadRow | undefined>();
-    if (!upload) return null;
-    const campaign = await knex("campaign").where({ id: upload.campaign_id }).first<CampaignRow>();
-    const site = await knex("site").where({ id: campaign.site_id }).first<SiteRow>();
-    const monitor = monitorOf(campaign);
+    const input = await this.store.uploads.jobInput(uploadId);
+    if (!input) return null;
+    const { upload, campaign, site } = input;
     const job: IngestJob = {
       uploadId,
       campaignId: campaign.id,
-      dbFile: this.db.file,
-      rawPath: rawFilePath(this.dataDir, upload.sha256),
+      dbFile: this.options.dbFile,
+      rawPath: rawFilePath(this.options.dataDir, upload.sha256),
       sizeBytes: upload.size_bytes,
       mapping: JSON.parse(upload.mapping) as ColumnMapping,
-      monitor,
-      site: { latitudeDeg: site.latitude, longitudeDeg: site.longitude, elevationM: site.elevation_m },
+      monitor: monitorOf(campaign),
+      site: siteLocationOf(site),
     };
-    if (this.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;
-    if (this.allowTestHooks && this.testHooks.pauseAfterSamples !== undefined) job.pauseAfterSamples = this.testHooks.pauseAfterSamples;
+    if (this.options.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;
+    if (this.options.allowTestHooks && this.testHooks.pauseAfterSamples !== undefined) job.pauseAfterSamples = this.testHooks.pauseAfterSamples;
     return job;
   }
 }
@@ -209,14 +169,10 @@ export class IngestQueue {
  * exist (one transaction), so it is marked `interrupted` for a person to retry. Uploads still `queued` never
  * started: they are simply queued again.
  */
-export async function recoverUploads(db: AppDatabase, queue: IngestQueue): Promise<{ interrupted: number; requeued: number }> {
-  const interrupted = await db
-    .knex("upload")
-    .where({ status: "ingesting" })
-    .update({ status: "interrupted", error: "The server stopped while this file was being ingested; nothing of it was stored. Retry it.", finished_at: new Date().toISOString() });
-  const queued = await db.knex("upload").where({ status: "queued" }).orderBy("id").select<{ id: number }[]>("id");
-  for (const row of queued) queue.enqueue(row.id);
-  return { interrupted, requeued: queued.length };
+export async function recoverUploads(store: Store, queue: IngestQueue): Promise<{ interrupted: number; requeued: number }> {
+  const { interrupted, queuedIds } = await store.uploads.recoverAtStartup();
+  for (const id of queuedIds) queue.enqueue(id);
+  return { interrupted, requeued: queuedIds.length };
 }
 
 const READ_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -226,7 +182,7 @@ const READ_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
  * writes never wait inside SQLite for an ingest. Not for file uploads: receiving a large file while holding the
  * slot would hold up the next ingest; the upload route takes the slot only for its own inserts.
  */
-export function writeSlot(queue: IngestQueue): RequestHandler {
+export function writeSlot(queue: Pick<IngestQueue, "acquireWriteSlot">): RequestHandler {
   return async (req, res, next) => {
     if (READ_METHODS.has(req.method) || /\/uploads(\/|$)/.test(req.path)) return next();
     const release = await queue.acquireWriteSlot();

@@ -1,9 +1,8 @@
 import request from "supertest";
 import { describe, expect, it } from "vitest";
-import { Router } from "express";
 import { createApp } from "../app";
-import { requireRole, requireUser } from "../http/session";
-import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createTestServer, signedInAgent } from "../test-support";
+import { ApiRouter } from "../http/route-table";
+import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createTestServer, signedInAgent, tableRows } from "../test-support";
 
 const { app, context } = await createTestServer();
 
@@ -104,9 +103,9 @@ describe("/api/me and sign-out", () => {
 });
 
 describe("roles", () => {
-  // A probe router mounted on a second app built from the same context, so the role guard is tested as routes use it.
-  const probe = Router();
-  probe.get("/probe/lead-only", requireUser, requireRole("lead", "admin"), (_req, res) => {
+  // A probe router mounted on a second app built from the same context, so the role guard is tested as routes declare it.
+  const probe = new ApiRouter("/probe");
+  probe.route("GET", "/lead-only", { access: ["lead", "admin"] }, (_req, res) => {
     res.json({ ok: true });
   });
 
@@ -135,7 +134,7 @@ describe("roles", () => {
 
 describe("seeding", () => {
   it("creates one demo user per role", async () => {
-    const rows = await context.db.knex("user").select("email", "role").orderBy("email");
+    const rows = (await tableRows(context, "user")).map(({ email, role }) => ({ email, role })).sort((left, right) => String(left.email).localeCompare(String(right.email)));
     expect(rows).toEqual([
       { email: "admin@calmcrest.test", role: "admin" },
       { email: "committee@calmcrest.test", role: "committee" },

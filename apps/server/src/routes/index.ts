@@ -1,10 +1,31 @@
-import type { Router } from "express";
 import type { AppContext } from "../context";
+import type { ApiRouter, RouteTableEntry } from "../http/route-table";
+import { authRoutes, meRoutes } from "./auth";
 import { campaignRoutes } from "./campaigns";
-import { configRoutes } from "./config";
+import { configRoutes, healthRoutes } from "./config";
 import { siteRoutes } from "./sites";
-import { uploadRoutes } from "./uploads";
+import { campaignUploadRoutes, uploadRoutes } from "./uploads";
 import { userRoutes } from "./users";
 
-// Each API area registers its router factory here (sites, campaigns, uploads, …). Mounted under /api after auth.
-export const apiRouteModules: ((context: AppContext) => Router)[] = [configRoutes, siteRoutes, campaignRoutes, uploadRoutes, userRoutes];
+// Each API area registers its router factory here. app.ts mounts every router at its own path under /api; each
+// route declares its guard beside it (ApiRouter.route), so order here does not change who may call what.
+export const apiRouteModules: ((context: AppContext) => ApiRouter)[] = [
+  healthRoutes,
+  configRoutes,
+  authRoutes,
+  meRoutes,
+  siteRoutes,
+  campaignRoutes,
+  campaignUploadRoutes,
+  uploadRoutes,
+  userRoutes,
+];
+
+export function apiRouters(context: AppContext): ApiRouter[] {
+  return apiRouteModules.map((routes) => routes(context));
+}
+
+/** Every API route with the roles its guard lets through (what the role-matrix test walks). */
+export function routeTable(context: AppContext): RouteTableEntry[] {
+  return apiRouters(context).flatMap((routes) => routes.table);
+}

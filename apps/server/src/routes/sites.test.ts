@@ -1,7 +1,7 @@
 import request from "supertest";
 import { describe, expect, it } from "vitest";
 import type { CampaignDetail, SiteDetail, SiteListItem } from "@calmcrest/contracts";
-import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
+import { createTestServer, SAME_ORIGIN, signedInAgent, userIdOf } from "../test-support";
 
 const { app, context } = await createTestServer();
 const lead = await signedInAgent(app, "lead");
@@ -13,8 +13,7 @@ const ridge = { name: "Test Ridge", latitude: -25.5, longitude: -68.2, elevation
 const monitor = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, heightAboveGroundM: 5, response: "g-tilt" };
 
 async function userId(email: string): Promise<string> {
-  const row = await context.db.knex("user").where({ email }).first<{ id: string }>();
-  return row.id;
+  return userIdOf(context, email);
 }
 
 describe("sites", () => {
@@ -58,7 +57,7 @@ describe("sites", () => {
     const response = await lead.patch(`/api/sites/${created.id}`).set(SAME_ORIGIN).send({ name: "Patched Ridge", elevationM: 4200 });
     expect(response.status).toBe(200);
     expect(response.body).toMatchObject({ name: "Patched Ridge", elevationM: 4200 });
-    const audit = await context.db.knex("audit_log").where({ target_type: "site", target_id: String(created.id) }).orderBy("id").select("action");
+    const audit = await context.store.audit.list({ targetType: "site", targetId: created.id });
     expect(audit.map((row: { action: string }) => row.action)).toEqual(["site.create", "site.update"]);
   });
 });
@@ -105,7 +104,7 @@ describe("campaigns and access", () => {
 
     expect((await admin.delete(`/api/campaigns/${campaign.id}/members/${engineerId}`).set(SAME_ORIGIN)).status).toBe(204);
     expect((await engineer.get(`/api/campaigns/${campaign.id}`)).status).toBe(404);
-    const audit = await context.db.knex("audit_log").where({ target_type: "member" }).orderBy("id").select("action");
+    const audit = await context.store.audit.list({ targetType: "member" });
     expect(audit.map((row: { action: string }) => row.action)).toEqual(["member.add", "member.remove"]);
   });
 
@@ -160,7 +159,7 @@ describe("users", () => {
     expect(patched.body.role).toBe("lead");
     const newcomer = request.agent(app);
     expect((await newcomer.post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "new.person@calmcrest.test", password: "long-enough-pw" })).status).toBe(200);
-    const audit = await context.db.knex("audit_log").where({ target_type: "user", target_id: created.body.id }).orderBy("id").select("action");
+    const audit = await context.store.audit.list({ targetType: "user", targetId: created.body.id });
     expect(audit.map((row: { action: string }) => row.action)).toEqual(["user.create", "user.role"]);
   });
 });

@@ -1,10 +1,9 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
 import { analyzeLog } from "@calmcrest/seeing-stats/node";
 import type { SummaryResponse, UploadDuplicateBody, UploadPreview } from "@calmcrest/contracts";
-import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
+import { countRows, createTestServer, ingestHoldsWriteLock, SAME_ORIGIN, signedInAgent, simulateDeadIngest, tableRows, userIdOf } from "../test-support";
 import { createSiteAndCampaign, DATA_SAMPLES, postUpload, SAMPLES_SITE, waitForUpload } from "./test-helpers";
 
 const { app, context } = await createTestServer();
@@ -15,8 +14,7 @@ const nativeLog = join(DATA_SAMPLES, "native-arcsec2.csv");
 const monitor = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 };
 
 async function sampleCount(uploadId: number): Promise<number> {
-  const row = await context.db.knex("sample").where({ upload_id: uploadId }).count<{ n: number }[]>({ n: "*" }).first();
-  return Number(row?.n);
+  return countRows(context, "sample", { upload_id: uploadId });
 }
 
 describe("uploading a log", () => {
@@ -35,7 +33,7 @@ describe("uploading a log", () => {
     expect(body.error.code).toBe("duplicate_upload");
     expect(body.upload.id).toBe(done.id);
     expect(await sampleCount(done.id)).toBe(done.samples.accepted);
-    const uploads = await context.db.knex("upload").where({ campaign_id: campaign.id });
+    const uploads = await tableRows(context, "upload", { campaign_id: campaign.id });
     expect(uploads).toHaveLength(1);
   });
 
@@ -53,8 +51,8 @@ describe("uploading a log", () => {
     // rejected.csv gives each duplicate row's text back as it was in the file.
     const csv = (await lead.get(`/api/uploads/${b.id}/rejected.csv`)).text;
     for (const duplicateRow of lines.slice(header + 21, header + 31)) expect(csv).toContain(duplicateRow.trim());
-    const stored = await context.db.knex("sample").where({ campaign_id: campaign.id }).count<{ n: number }[]>({ n: "*" }).first();
-    expect(Number(stored?.n)).toBe(31);
+    const stored = await countRows(context, "sample", { campaign_id: campaign.id });
+    expect(Number(stored)).toBe(31);
   });
 
   it("answers 400 with the line and a fix for files that cannot be read, and stores nothing", async () => {
@@ -71,7 +69,7 @@ describe("uploading a log", () => {
     expect(empty.body.error.message).toMatch(/empty/);
     const badMapping = await postUpload(lead, campaign.id, nativeLog, "log.csv", { time_utc: "No Such Column" });
     expect(badMapping.status).toBe(400);
-    expect(await context.db.knex("upload").where({ campaign_id: campaign.id })).toHaveLength(0);
+    expect(await tableRows(context, "upload", { campaign_id: campaign.id })).toHaveLength(0);
   });
 
   it("leaves no samples behind when an ingest fails half way, and ingests everything on retry", async () => {
@@ -84,7 +82,7 @@ describe("uploading a log", () => {
     expect(failed.error).toMatch(/after 100 samples/);
     expect(failed.samples).toEqual({ read: 0, accepted: 0, rejected: 0, rejectedByReason: {} });
     expect(await sampleCount(failed.id)).toBe(0);
-    expect(await context.db.knex("upload_reject").where({ upload_id: failed.id })).toHaveLength(0);
+    expect(await tableRows(context, "upload_reject", { upload_id: failed.id })).toHaveLength(0);
 
     expect((await lead.post(`/api/uploads/${failed.id}/retry`).set(SAME_ORIGIN)).status).toBe(202);
     const done = await waitForUpload(lead, failed.id);
@@ -92,7 +90,7 @@ describe("uploading a log", () => {
     expect(done.samples.accepted).toBeGreaterThan(100);
     expect(await sampleCount(done.id)).toBe(done.samples.accepted);
     expect((await lead.post(`/api/uploads/${done.id}/retry`).set(SAME_ORIGIN)).status).toBe(409);
-    const audit = await context.db.knex("audit_log").where({ target_type: "upload", target_id: String(done.id) }).orderBy("id").select("action");
+    const audit = await context.store.audit.list({ targetType: "upload", targetId: done.id });
     expect(audit.map((row: { action: string }) => row.action)).toEqual(["upload.create", "upload.retry"]);
   });
 
@@ -131,14 +129,14 @@ describe("uploading a log", () => {
     expect(mappedPreview.mappingProblems).toEqual([]);
     expect(mappedPreview.mappingUsed).toEqual(mapping);
     expect(mappedPreview.rows[0]?.sample?.windMs).toBeCloseTo(Number(text.split("\n")[1]?.split(";")[3]), 6);
-    expect(await context.db.knex("upload").where({ campaign_id: campaign.id })).toHaveLength(0);
+    expect(await tableRows(context, "upload", { campaign_id: campaign.id })).toHaveLength(0);
   });
 
   it("lets a member engineer upload, answers 404 to a non-member and 403 to an administrator", async () => {
     const { campaign } = await createSiteAndCampaign(lead, monitor);
     expect((await postUpload(engineer, campaign.id, nativeLog)).status).toBe(404);
     expect((await postUpload(admin, campaign.id, nativeLog)).status).toBe(403);
-    const engineerId = (await context.db.knex("user").where({ email: "engineer@calmcrest.test" }).first<{ id: string }>()).id;
+    const engineerId = await userIdOf(context, "engineer@calmcrest.test");
     await admin.post(`/api/campaigns/${campaign.id}/members`).set(SAME_ORIGIN).send({ userId: engineerId });
     const posted = await postUpload(engineer, campaign.id, nativeLog);
     expect(posted.status).toBe(202);
@@ -176,20 +174,8 @@ describe("writes while an ingest holds the write lock", () => {
     context.ingest.testHooks.pauseAfterSamples = { samples: 50, ms: 1500 };
     const first = (await postUpload(lead, campaign.id, nativeLog)).body.upload.id as number;
     context.ingest.testHooks.pauseAfterSamples = undefined;
-    // Wait until the worker holds the write lock: a probe connection that does not wait gets SQLITE_BUSY.
-    const probe = new Database(context.db.file);
-    probe.pragma("busy_timeout = 0");
-    for (;;) {
-      try {
-        probe.exec("BEGIN IMMEDIATE");
-        probe.exec("ROLLBACK");
-      } catch (error) {
-        if (error instanceof Error && "code" in error && error.code === "SQLITE_BUSY") break;
-        throw error;
-      }
-      await new Promise((resolve) => setTimeout(resolve, 10));
-    }
-    probe.close();
+    // Wait until the worker holds the write lock.
+    await ingestHoldsWriteLock(context);
     const secondStartedMs = Date.now();
     const second = postUpload(lead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv")).then((response) => ({ response, ms: Date.now() - secondStartedMs }));
     const exclusion = lead.post(`/api/campaigns/${campaign.id}/exclusions`).set(SAME_ORIGIN).send({ from: "2020-01-01", to: "2020-01-02", reason: "during ingest" }).then((response) => response);
@@ -290,7 +276,7 @@ describe("summaries", () => {
     expect((await lead.delete(`/api/campaigns/${campaign.id}/exclusions/${exclusion.body.id}`).set(SAME_ORIGIN)).status).toBe(204);
     const restored = (await lead.get(`/api/campaigns/${campaign.id}/summary`)).body as SummaryResponse;
     expect(restored.samples.accepted).toBe(all.samples.accepted);
-    const audit = await context.db.knex("audit_log").where({ target_type: "exclusion", target_id: String(exclusion.body.id) }).orderBy("id").select("action");
+    const audit = await context.store.audit.list({ targetType: "exclusion", targetId: exclusion.body.id });
     expect(audit.map((row: { action: string }) => row.action)).toEqual(["exclusion.add", "exclusion.remove"]);
   });
 
@@ -314,13 +300,7 @@ describe("restarts", () => {
     const dying = (await postUpload(firstLead, campaign.id, nativeLog)).body.upload.id as number;
     const queued = (await postUpload(firstLead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv"))).body.upload.id as number;
     // Simulate the dead ingest: the upload marked ingesting, samples written in a transaction never committed.
-    const raw = new Database(first.context.db.file);
-    raw.prepare("UPDATE upload SET status = 'ingesting' WHERE id = ?").run(dying);
-    raw.exec("BEGIN IMMEDIATE");
-    raw
-      .prepare("INSERT INTO sample (campaign_id, time_ms, upload_id, seeing_arcsec, r0_cm, zenith_deg, anisotropic) VALUES (?, ?, ?, 0.8, 12, 20, 0)")
-      .run(campaign.id, Date.parse("2025-04-08T03:00:00Z"), dying);
-    raw.close(); // closing without COMMIT rolls back, as a killed process would
+    simulateDeadIngest(first.context, dying, campaign.id);
     await first.context.close();
 
     const second = await createTestServer({ dataDir: first.dataDir });
@@ -328,16 +308,16 @@ describe("restarts", () => {
     const interrupted = (await secondLead.get(`/api/uploads/${dying}`)).body;
     expect(interrupted.status).toBe("interrupted");
     expect(interrupted.error).toMatch(/server stopped/);
-    const leftover = await second.context.db.knex("sample").where({ upload_id: dying }).count<{ n: number }[]>({ n: "*" }).first();
-    expect(Number(leftover?.n)).toBe(0);
+    const leftover = await countRows(second.context, "sample", { upload_id: dying });
+    expect(Number(leftover)).toBe(0);
     // The one still queued was re-queued at start-up and ingests by itself.
     expect((await waitForUpload(secondLead, queued)).status).toBe("done");
 
     expect((await secondLead.post(`/api/uploads/${dying}/retry`).set(SAME_ORIGIN)).status).toBe(202);
     const retried = await waitForUpload(secondLead, dying);
     expect(retried.status).toBe("done");
-    const stored = await second.context.db.knex("sample").where({ upload_id: dying }).count<{ n: number }[]>({ n: "*" }).first();
-    expect(Number(stored?.n)).toBe(retried.samples.accepted);
+    const stored = await countRows(second.context, "sample", { upload_id: dying });
+    expect(Number(stored)).toBe(retried.samples.accepted);
   });
 });
 
@@ -349,6 +329,6 @@ describe("upload limit", () => {
     const response = await postUpload(smallLead, campaign.id, nativeLog);
     expect(response.status).toBe(413);
     expect(response.body.error.message).toContain("0.01 MB");
-    expect(await small.context.db.knex("upload")).toHaveLength(0);
+    expect(await tableRows(small.context, "upload")).toHaveLength(0);
   });
 });

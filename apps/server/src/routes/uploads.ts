@@ -1,24 +1,16 @@
 import { access } from "node:fs/promises";
-import { Router, type RequestHandler } from "express";
+import type { RequestHandler } from "express";
 import multer from "multer";
-import type { User } from "lucia";
 import { LogFormatError, previewLog, SeeingInputError, type ColumnMapping } from "@calmcrest/seeing-stats";
-import {
-  columnMappingSchema,
-  type RejectReasonName,
-  type UploadAccepted,
-  type UploadDuplicateBody,
-  type UploadPreview,
-  type UploadStatus,
-} from "@calmcrest/contracts";
+import { columnMappingSchema, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
-import { campaignFor, FIELD_ROLES, monitorOf, routeId, type CampaignAction, type CampaignRow, type SiteRow } from "../access/access.server";
-import { recordAudit } from "../audit/audit.server";
+import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
-import { currentUser, requireUser, requireRole } from "../http/session";
+import { ApiRouter } from "../http/route-table";
+import { currentUser } from "../http/session";
+import { monitorOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
 import { acceptUpload, formatProblem } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
-import { uploadListItem, uploadQuery, type UploadRow } from "../views.server";
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -32,7 +24,6 @@ declare global {
 
 /** The preview reads only the first rows; the wizard sends a small slice of the file. */
 const PREVIEW_MAX_BYTES = 4 * 1024 * 1024;
-const LISTED_REJECTED_ROWS = 100;
 
 function accessedCampaign(locals: Express.Locals): CampaignRow {
   if (!locals.campaign) throw notFound("That campaign");
@@ -77,11 +68,13 @@ function withUploadErrors(middleware: RequestHandler, limitMb: number): RequestH
   };
 }
 
-export function uploadRoutes(context: AppContext): Router {
-  const { db, env, ingest } = context;
-  const knex = db.knex;
-  const router = Router();
-  router.use(["/uploads", "/campaigns"], requireUser, requireRole(...FIELD_ROLES));
+/**
+ * /api/campaigns/:id/uploads: the wizard's preview and receiving a log. The campaign is checked (guard, then
+ * membership and role) before multer reads a byte.
+ */
+export function campaignUploadRoutes(context: AppContext): ApiRouter {
+  const { env, store } = context;
+  const routes = new ApiRouter("/campaigns/:id/uploads");
 
   const limitMb = env.CALMCREST_MAX_UPLOAD_MB;
   const receiveFile = withUploadErrors(
@@ -97,50 +90,21 @@ export function uploadRoutes(context: AppContext): Router {
   const campaignAccess =
     (action: CampaignAction): RequestHandler =>
     async (req, res, next) => {
-      const campaign = await campaignFor(knex, currentUser(res.locals), routeId(req.params.id, "That campaign"), action);
-      res.locals.campaign = campaign;
+      res.locals.campaign = await store.campaigns.forUser(currentUser(res.locals), routeId(req.params.id, "That campaign"), action);
       next();
     };
 
-  async function siteOf(campaign: CampaignRow): Promise<SiteRow> {
-    return knex("site").where({ id: campaign.site_id }).first<SiteRow>();
-  }
-
-  async function uploadFor(user: User, uploadId: number, action: CampaignAction): Promise<UploadRow> {
-    const row = await uploadQuery(knex).where("upload.id", uploadId).first();
-    if (!row) throw notFound("That upload");
-    try {
-      await campaignFor(knex, user, row.campaign_id, action);
-    } catch (error) {
-      // An upload of a campaign one cannot see does not exist for them.
-      if (error instanceof HttpError && error.status === 404) throw notFound("That upload");
-      throw error;
-    }
-    return row;
-  }
-
-  async function uploadStatus(row: UploadRow): Promise<UploadStatus> {
-    const rejectedRows = await knex("upload_reject")
-      .where({ upload_id: row.id })
-      .orderBy("line")
-      .limit(LISTED_REJECTED_ROWS)
-      .select<{ line: number; reason: RejectReasonName; message: string }[]>("line", "reason", "message");
-    const running = ingest.progress(row.id);
-    const progress = row.status === "done" ? 1 : (running ?? 0);
-    return { ...uploadListItem(row), progress, rejectedRows, startedAt: row.started_at };
-  }
-
-  router.post("/campaigns/:id/uploads/preview", campaignAccess("upload"), receivePreview, async (req, res) => {
+  routes.route("POST", "/preview", { access: FIELD_ROLES, campaignAction: "upload" }, campaignAccess("upload"), receivePreview, async (req, res) => {
     const campaign = accessedCampaign(res.locals);
     const body = req.body as Record<string, unknown> | undefined;
     const text = req.file ? req.file.buffer.toString("utf8") : typeof body?.text === "string" ? body.text : null;
     if (text === null) throw new HttpError(400, "invalid_input", 'Send the first rows of the log as the file field "file".', { file: ["No file was sent."] });
     const mapping = parseMappingField(body?.mapping);
-    const site = await siteOf(campaign);
+    const site = await store.campaigns.siteOf(campaign);
     try {
       const preview = previewLog(text, {
         monitor: monitorOf(campaign),
-        site: { latitudeDeg: site.latitude, longitudeDeg: site.longitude, elevationM: site.elevation_m },
+        site: siteLocationOf(site),
         maxRows: 20,
         ...(mapping ? { mapping } : {}),
       });
@@ -161,7 +125,7 @@ export function uploadRoutes(context: AppContext): Router {
     }
   });
 
-  router.post("/campaigns/:id/uploads", campaignAccess("upload"), receiveFile, async (req, res) => {
+  routes.route("POST", "/", { access: FIELD_ROLES, campaignAction: "upload" }, campaignAccess("upload"), receiveFile, async (req, res) => {
     const user = currentUser(res.locals);
     const campaign = accessedCampaign(res.locals);
     const file = req.file as (Express.Multer.File & HashedFile) | undefined;
@@ -190,22 +154,27 @@ export function uploadRoutes(context: AppContext): Router {
     res.status(202).json(accepted);
   });
 
-  router.get("/uploads/:id", async (req, res) => {
-    const row = await uploadFor(currentUser(res.locals), routeId(req.params.id, "That upload"), "read");
-    res.json(await uploadStatus(row));
+  return routes;
+}
+
+/** /api/uploads/:id: an upload's status, its rejected rows, and a retry. */
+export function uploadRoutes(context: AppContext): ApiRouter {
+  const { env, ingest, store } = context;
+  const routes = new ApiRouter("/uploads");
+  const uploadId = (value: string | string[] | undefined) => routeId(value, "That upload");
+
+  routes.route("GET", "/:id", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
+    const row = await store.uploads.forUser(currentUser(res.locals), uploadId(req.params.id), "read");
+    res.json(await store.uploads.status(row, ingest.progress(row.id)));
   });
 
-  router.get("/uploads/:id/rejected.csv", async (req, res) => {
-    const row = await uploadFor(currentUser(res.locals), routeId(req.params.id, "That upload"), "read");
+  routes.route("GET", "/:id/rejected.csv", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
+    const row = await store.uploads.forUser(currentUser(res.locals), uploadId(req.params.id), "read");
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
     const safeName = row.file_name.replace(/[^\w.-]+/g, "_");
     res.setHeader("Content-Disposition", `attachment; filename="rejected-${row.id}-${safeName}.csv"`);
-    const rows = db.sqlite
-      .prepare("SELECT line, reason, message, raw_line FROM upload_reject WHERE upload_id = ? ORDER BY line")
-      .raw()
-      .iterate(row.id) as IterableIterator<[number, string, string, string]>;
     let buffer = "line,reason,message,raw_line\n";
-    for (const [line, reason, message, rawLine] of rows) {
+    for (const [line, reason, message, rawLine] of store.uploads.rejectedRows(row.id)) {
       buffer += `${line},${csvCell(reason)},${csvCell(message)},${csvCell(rawLine)}\n`;
       if (buffer.length > 64 * 1024) {
         res.write(buffer);
@@ -215,23 +184,21 @@ export function uploadRoutes(context: AppContext): Router {
     res.end(buffer);
   });
 
-  router.post("/uploads/:id/retry", async (req, res) => {
+  routes.route("POST", "/:id/retry", { access: FIELD_ROLES, campaignAction: "upload" }, async (req, res) => {
     const user = currentUser(res.locals);
-    const row = await uploadFor(user, routeId(req.params.id, "That upload"), "upload");
+    const row = await store.uploads.forUser(user, uploadId(req.params.id), "upload");
     if (row.status !== "failed" && row.status !== "interrupted") {
       throw new HttpError(409, "not_retryable", `Only failed or interrupted uploads can be retried; this one is ${row.status}.`);
     }
     await access(rawFilePath(env.dataDir, row.sha256)).catch(() => {
       throw new HttpError(409, "raw_file_missing", "The stored raw file of this upload is missing from the data directory, so it cannot be retried. Upload the file again.");
     });
-    await ingest.withWriteSlot(async () => {
-      await knex("upload").where({ id: row.id }).update({ status: "queued", error: null, finished_at: null });
-      await recordAudit(knex, { userId: user.id, action: "upload.retry", targetType: "upload", targetId: row.id, details: { previousStatus: row.status, previousError: row.error } });
-    });
+    // The status changes only if it is still failed or interrupted: of two retries at once, the second gets 409.
+    await store.uploads.requeue(user.id, row.id);
     ingest.enqueue(row.id);
     const accepted: UploadAccepted = { upload: { id: row.id, status: "queued" } };
     res.status(202).json(accepted);
   });
 
-  return router;
+  return routes;
 }

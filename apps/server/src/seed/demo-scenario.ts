@@ -3,8 +3,7 @@ import { join } from "node:path";
 import { writeSyntheticLog } from "@calmcrest/seeing-stats/node";
 import type { ResponseSetName } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
-import { recordAudit } from "../audit/audit.server";
-import { monitorOf, type CampaignRow } from "../access/access.server";
+import { monitorOf } from "../store/index";
 import { acceptUpload } from "../uploads/accept-upload.server";
 import { hashIntoTemporary } from "../uploads/raw-files.server";
 
@@ -167,70 +166,56 @@ export const DEMO_SITES: DemoSite[] = [
 ];
 
 async function userIdByEmail(context: AppContext, email: string): Promise<string> {
-  const row = await context.db.knex("user").where({ email }).first<{ id: string } | undefined>();
-  if (!row) throw new Error(`The demo user ${email} is missing; the demo users are seeded first.`);
-  return row.id;
+  const id = await context.store.users.idByEmail(email);
+  if (!id) throw new Error(`The demo user ${email} is missing; the demo users are seeded first.`);
+  return id;
 }
 
 /**
  * Seeds the demo scenario and waits until every demo log is ingested. `nightsScale` shortens every log
- * (tests use a small scale; the real seed uses 1).
+ * (tests use a small scale; the real seed uses 1). Every step goes through the store and the upload path a
+ * person's request takes, so the demo data has the same rows and audit entries as data entered by hand.
  */
 export async function seedDemoScenario(context: AppContext, options: { nightsScale?: number } = {}): Promise<void> {
-  const knex = context.db.knex;
+  const { store } = context;
   const scale = options.nightsScale ?? 1;
   const leadId = await userIdByEmail(context, "lead@calmcrest.test");
   const engineerId = await userIdByEmail(context, "engineer@calmcrest.test");
   const logDir = join(context.env.dataDir, "demo-logs");
   mkdirSync(logDir, { recursive: true });
-  const now = new Date().toISOString();
+  const demo = { demo: true };
 
   for (const demoSite of DEMO_SITES) {
-    const [site] = await knex("site")
-      .insert({
-        name: demoSite.name,
-        latitude: demoSite.latitude,
-        longitude: demoSite.longitude,
-        elevation_m: demoSite.elevationM,
-        notes: demoSite.notes,
-        created_by: leadId,
-        created_at: now,
-        updated_at: now,
-      })
-      .returning<{ id: number }[]>("id");
-    if (!site) throw new Error("The demo site could not be stored.");
-    await recordAudit(knex, { userId: leadId, action: "site.create", targetType: "site", targetId: site.id, details: { name: demoSite.name, demo: true } });
+    const siteId = await store.sites.create(
+      leadId,
+      { name: demoSite.name, latitude: demoSite.latitude, longitude: demoSite.longitude, elevationM: demoSite.elevationM, notes: demoSite.notes },
+      demo,
+    );
 
-    for (const demo of demoSite.campaigns) {
-      const [inserted] = await knex("campaign")
-        .insert({
-          site_id: site.id,
-          name: demo.name,
-          aperture_mm: demo.apertureMm,
-          baseline_mm: demo.baselineMm,
-          wavelength_nm: demo.wavelengthNm,
-          pixel_scale_arcsec: demo.pixelScaleArcsec ?? null,
-          exposure_ms: null,
-          height_above_ground_m: demo.heightAboveGroundM,
-          response: demo.response,
-          start_date: demo.startDate,
-          end_date: demo.endDate,
-          status: demo.status,
-          notes: "",
-          created_by: leadId,
-          created_at: now,
-          updated_at: now,
-        })
-        .returning<{ id: number }[]>("id");
-      if (!inserted) throw new Error("The demo campaign could not be stored.");
-      await recordAudit(knex, { userId: leadId, action: "campaign.create", targetType: "campaign", targetId: inserted.id, details: { name: demo.name, demo: true } });
-      const campaign = await knex("campaign").where({ id: inserted.id }).first<CampaignRow>();
-      if (demo.engineerIsMember) {
-        await knex("campaign_member").insert({ campaign_id: campaign.id, user_id: engineerId, added_at: now });
-        await recordAudit(knex, { userId: null, action: "member.add", targetType: "member", targetId: `${campaign.id}:${engineerId}`, details: { demo: true } });
-      }
+    for (const demoCampaign of demoSite.campaigns) {
+      const campaignId = await store.campaigns.create(
+        leadId,
+        siteId,
+        {
+          name: demoCampaign.name,
+          monitor: {
+            apertureMm: demoCampaign.apertureMm,
+            baselineMm: demoCampaign.baselineMm,
+            wavelengthNm: demoCampaign.wavelengthNm,
+            ...(demoCampaign.pixelScaleArcsec === undefined ? {} : { pixelScaleArcsec: demoCampaign.pixelScaleArcsec }),
+            heightAboveGroundM: demoCampaign.heightAboveGroundM,
+            response: demoCampaign.response,
+          },
+          startDate: demoCampaign.startDate,
+          endDate: demoCampaign.endDate,
+          status: demoCampaign.status,
+        },
+        demo,
+      );
+      const campaign = await store.campaigns.require(campaignId);
+      if (demoCampaign.engineerIsMember) await store.memberships.add(null, campaign.id, engineerId, demo);
 
-      for (const log of demo.logs) {
+      for (const log of demoCampaign.logs) {
         const nights = Math.max(2, Math.round(log.nights * scale));
         const path = join(logDir, scale === 1 ? log.file : `scaled-${nights}-${log.file}`);
         if (!existsSync(path)) {
@@ -239,8 +224,8 @@ export async function seedDemoScenario(context: AppContext, options: { nightsSca
             site: { latitudeDeg: demoSite.latitude, longitudeDeg: demoSite.longitude, elevationM: demoSite.elevationM },
             startDate: log.startDate,
             nights,
-            medianSeeingArcsec: demo.medianSeeingArcsec,
-            seasonalAmplitude: demo.seasonalAmplitude,
+            medianSeeingArcsec: demoCampaign.medianSeeingArcsec,
+            seasonalAmplitude: demoCampaign.seasonalAmplitude,
             monitor: monitorOf(campaign),
             // A few damaged rows per file, as real logs have.
             badRowEvery: 7919,
@@ -257,21 +242,7 @@ export async function seedDemoScenario(context: AppContext, options: { nightsSca
         });
       }
 
-      if (demo.exclusion) {
-        const [exclusion] = await knex("exclusion")
-          .insert({
-            campaign_id: campaign.id,
-            from_ms: Date.parse(demo.exclusion.from),
-            to_ms: Date.parse(demo.exclusion.to),
-            reason: demo.exclusion.reason,
-            created_by: engineerId,
-            created_at: now,
-          })
-          .returning<{ id: number }[]>("id");
-        if (exclusion) {
-          await recordAudit(knex, { userId: engineerId, action: "exclusion.add", targetType: "exclusion", targetId: exclusion.id, details: { ...demo.exclusion, demo: true } });
-        }
-      }
+      if (demoCampaign.exclusion) await store.exclusions.add(engineerId, campaign.id, demoCampaign.exclusion, demo);
     }
   }
   await context.ingest.idle();

@@ -1,7 +1,6 @@
-import { randomUUID } from "node:crypto";
 import type { Role } from "@calmcrest/contracts";
-import type { Knex } from "knex";
 import { hashPassword } from "../auth/passwords.server";
+import type { Store } from "../store/index";
 
 // Demo accounts only: invented people of the invented survey consortium. Never seeded with NODE_ENV=production.
 export const DEMO_USERS: { email: string; name: string; role: Role }[] = [
@@ -11,14 +10,13 @@ export const DEMO_USERS: { email: string; name: string; role: Role }[] = [
   { email: "committee@calmcrest.test", name: "Priya Halvorsen", role: "committee" },
 ];
 
-/** Creates the demo users that do not exist yet. Returns how many were created. */
-export async function seedDemoUsers(knex: Knex, password: string): Promise<number> {
+/** Creates the demo users that do not exist yet (through the store, so each has its audit row). Returns how many were created. */
+export async function seedDemoUsers(store: Store, password: string): Promise<number> {
   let created = 0;
   const passwordHash = await hashPassword(password);
   for (const user of DEMO_USERS) {
-    const existing = await knex("user").where({ email: user.email }).first();
-    if (existing) continue;
-    await knex("user").insert({ id: randomUUID(), ...user, password_hash: passwordHash });
+    if (await store.users.idByEmail(user.email)) continue;
+    await store.users.create(null, user, passwordHash, { demo: true });
     created += 1;
   }
   return created;

@@ -13,11 +13,10 @@ export const demoScenarioSteps: ((context: AppContext) => Promise<void>)[] = [
 
 /** Seeds the demo scenario when the database has no users yet. Never in production. */
 export async function seedIfEmpty(context: AppContext): Promise<void> {
-  const { env, db } = context;
+  const { env, store } = context;
   if (env.NODE_ENV === "production" || env.CALMCREST_SEED === "none") return;
-  const row = await db.knex("user").count<{ count: number }[]>({ count: "*" }).first();
-  if (row && Number(row.count) > 0) return;
-  await seedDemoUsers(db.knex, env.DEMO_PASSWORD);
+  if ((await store.users.count()) > 0) return;
+  await seedDemoUsers(store, env.DEMO_PASSWORD);
   console.log("Calmcrest: seeded the demo users (demo only; see README).");
   if (env.CALMCREST_SEED === "full") {
     for (const step of demoScenarioSteps) await step(context);

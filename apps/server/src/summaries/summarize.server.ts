@@ -1,6 +1,6 @@
 import { DEFAULT_FILTERS, filterReason, summarizeSeeingPresorted, type FilterSettings, type SortedSeeing } from "@calmcrest/seeing-stats";
 import { instantMs, RESPONSE_SET_LABELS, type SeeingStatistics, type SiteSummaryBrief, type SummaryQuery, type SummaryResponse, type SummaryScope } from "@calmcrest/contracts";
-import type { CampaignRow, SiteRow } from "../access/access.server";
+import type { CampaignRow, IngestRejections, SiteRow } from "../store/index";
 import { lowerBoundTime, type CampaignColumns, type ExclusionWindow, type SampleCache } from "./sample-cache.server";
 
 const DAY_MS = 86_400_000;
@@ -25,11 +25,7 @@ export function resolveQuery(query: SummaryQuery): ResolvedQuery {
   return { fromMs, toMs, filters, from: query.from ?? null, to: query.to ?? null };
 }
 
-/** Counts of rows rejected at ingest (they have no usable time, so they only join summaries without a time range). */
-export interface IngestRejections {
-  rejected: number;
-  rejectedByReason: Record<string, number>;
-}
+export type { IngestRejections };
 
 export interface SelectedSamples {
   timeMs: Float64Array;

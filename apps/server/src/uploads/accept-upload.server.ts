@@ -3,10 +3,8 @@ import { Readable } from "node:stream";
 import { LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { AppContext } from "../context";
-import { monitorOf, type CampaignRow } from "../access/access.server";
-import { recordAudit } from "../audit/audit.server";
 import { HttpError } from "../http/errors";
-import { uploadQuery, type UploadRow } from "../views.server";
+import { monitorOf, type CampaignRow, type RecordResult } from "../store/index";
 import { discardTemporary, storeRawFile, type HashedFile } from "./raw-files.server";
 
 /** Enough of a stored file to check its header and mapping before queueing it. */
@@ -47,20 +45,20 @@ async function checkHeader(head: string, monitor: MonitorSettings, mapping: Colu
   }
 }
 
-export type AcceptResult = { kind: "queued"; uploadId: number } | { kind: "duplicate"; existing: UploadRow };
+export type AcceptResult = RecordResult;
 
 /**
  * The one path from a received, hashed temporary file to a queued upload (used by the upload route and by the
  * demo seed): checks the header and mapping (400 if unusable), recognises the same bytes in the same campaign
- * (duplicate), moves the raw file to its content address, records and audits the upload, queues the ingest.
- * The temporary file is always consumed.
+ * (duplicate), moves the raw file to its content address, records and audits the upload (store.uploads.record,
+ * which also catches the same file arriving twice at once), queues the ingest. The temporary file is always consumed.
  */
 export async function acceptUpload(
   context: AppContext,
   input: { campaign: CampaignRow; userId: string; file: HashedFile; fileName: string; mapping: ColumnMapping | undefined },
 ): Promise<AcceptResult> {
   const { campaign, file } = input;
-  const knex = context.db.knex;
+  const { store } = context;
   try {
     // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
     let mapping: ColumnMapping;
@@ -74,37 +72,23 @@ export async function acceptUpload(
       throw error;
     }
 
-    const existing = await uploadQuery(knex).where({ "upload.campaign_id": campaign.id, "upload.sha256": file.sha256 }).first();
+    const existing = await store.uploads.duplicateOf(campaign.id, file.sha256);
     if (existing) {
       await discardTemporary(file);
       return { kind: "duplicate", existing };
     }
     await storeRawFile(context.env.dataDir, file);
-    const uploadId = await context.ingest.withWriteSlot(async () => {
-      const [inserted] = await knex("upload")
-        .insert({
-          campaign_id: campaign.id,
-          file_name: input.fileName,
-          size_bytes: file.size,
-          sha256: file.sha256,
-          uploaded_by: input.userId,
-          uploaded_at: new Date().toISOString(),
-          mapping: JSON.stringify(mapping),
-          status: "queued",
-        })
-        .returning<{ id: number }[]>("id");
-      if (!inserted) throw new HttpError(500, "server_error", "The upload could not be recorded. Try again.");
-      await recordAudit(knex, {
-        userId: input.userId,
-        action: "upload.create",
-        targetType: "upload",
-        targetId: inserted.id,
-        details: { campaignId: campaign.id, fileName: input.fileName, sizeBytes: file.size, sha256: file.sha256 },
-      });
-      return inserted.id;
+    // A duplicate recorded by a concurrent request meanwhile is answered as a duplicate; the raw file (the same
+    // bytes, at the same content address) stays with that upload.
+    const result = await store.uploads.record(input.userId, {
+      campaignId: campaign.id,
+      fileName: input.fileName,
+      sizeBytes: file.size,
+      sha256: file.sha256,
+      mapping,
     });
-    context.ingest.enqueue(uploadId);
-    return { kind: "queued", uploadId };
+    if (result.kind === "queued") context.ingest.enqueue(result.uploadId);
+    return result;
   } catch (error) {
     // storeRawFile moved the file away if it got that far; otherwise drop the temporary copy.
     await discardTemporary(file);

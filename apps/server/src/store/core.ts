@@ -1,0 +1,126 @@
+import type { Knex } from "knex";
+import type { AppDatabase } from "../db/database.server";
+import type { SampleCache } from "../summaries/sample-cache.server";
+import type { WriteGate } from "./write-gate";
+
+/** Who did what to which item; every change to field data and accounts leaves one audit row. */
+export interface AuditEntry {
+  /** The acting user; null for the system (start-up recovery, the demo seed's own steps). */
+  userId: string | null;
+  action: string;
+  targetType: "site" | "campaign" | "upload" | "exclusion" | "member" | "user";
+  targetId: string | number;
+  details?: Record<string, unknown>;
+}
+
+/** A change as listeners see it: the audit entry and when it was written. */
+export interface Change extends AuditEntry {
+  at: string;
+}
+
+/**
+ * The seam for modules that must react to every change (a report's outbox, comments, a summary cache):
+ * `inTransaction` runs inside the write's transaction, right after its audit row, so its own rows commit or roll
+ * back with the change; `afterCommit` runs only once the change is committed (cache invalidation, waking a sender).
+ */
+export interface ChangeListener {
+  name: string;
+  inTransaction?(change: Change, trx: Knex.Transaction): Promise<void> | void;
+  afterCommit?(change: Change): void;
+}
+
+/** What a write function gets: the transaction, the audit row writer and the after-commit queue. */
+export interface WriteScope {
+  /** Every query of the write goes through this transaction (the pool has one connection: never use the plain knex inside). */
+  trx: Knex.Transaction;
+  /** Writes the audit row of the change in this transaction and runs the listeners' in-transaction hooks. */
+  audit(entry: AuditEntry): Promise<void>;
+  /** Runs `effect` after the transaction commits (e.g. clearing the sample cache); dropped when it rolls back. */
+  afterCommit(effect: () => void): void;
+}
+
+export interface WriteOptions {
+  /**
+   * false only for the ingest queue's own status writes: it holds the write gate itself while they run, so
+   * waiting for the gate would wait for itself.
+   */
+  gated?: boolean;
+  /** false for bookkeeping that is not a person's change (an ingest's status); every other write must audit. */
+  audited?: boolean;
+}
+
+/** The database, the caches its writes invalidate, the write gate and the change listeners: shared by every store module. */
+export class StoreCore {
+  private readonly listeners: ChangeListener[] = [];
+
+  constructor(
+    readonly db: AppDatabase,
+    readonly samples: SampleCache,
+    readonly gate: WriteGate,
+  ) {}
+
+  /** The connection for reads (never inside a write: use the scope's trx there). */
+  get knex(): Knex {
+    return this.db.knex;
+  }
+
+  /** Registers a listener for every later change; returns a function that removes it. */
+  onChange(listener: ChangeListener): () => void {
+    this.listeners.push(listener);
+    return () => {
+      const index = this.listeners.indexOf(listener);
+      if (index >= 0) this.listeners.splice(index, 1);
+    };
+  }
+
+  /**
+   * Runs `fn` in one transaction, waiting first (asynchronously) for the write gate. The audit rows `fn` writes
+   * commit or roll back with its change; after-commit effects and listeners run only after COMMIT. A write that
+   * records no audit row is a bug and rolls back (unless `audited: false`).
+   */
+  async write<T>(fn: (scope: WriteScope) => Promise<T>, options: WriteOptions = {}): Promise<T> {
+    const run = async (): Promise<T> => {
+      const changes: Change[] = [];
+      const effects: (() => void)[] = [];
+      const result = await this.db.knex.transaction(async (trx) => {
+        const scope: WriteScope = {
+          trx,
+          audit: async (entry) => {
+            const change: Change = { ...entry, at: new Date().toISOString() };
+            await trx("audit_log").insert({
+              at: change.at,
+              user_id: change.userId,
+              action: change.action,
+              target_type: change.targetType,
+              target_id: String(change.targetId),
+              details: JSON.stringify(change.details ?? {}),
+            });
+            changes.push(change);
+            for (const listener of this.listeners) await listener.inTransaction?.(change, trx);
+          },
+          afterCommit: (effect) => {
+            effects.push(effect);
+          },
+        };
+        const value = await fn(scope);
+        if (options.audited !== false && changes.length === 0) {
+          throw new Error("A store write recorded no audit row; every change writes one (scope.audit).");
+        }
+        return value;
+      });
+      for (const effect of effects) effect();
+      for (const change of changes) for (const listener of this.listeners) listener.afterCommit?.(change);
+      return result;
+    };
+    return options.gated === false ? run() : this.gate.withSlot(run);
+  }
+
+  /**
+   * For a change committed elsewhere (the ingest worker's own transaction): runs the after-commit effect and the
+   * listeners' after-commit hooks, so they hear about it like any other change. No audit row is written.
+   */
+  committedElsewhere(change: Change, effect: () => void): void {
+    effect();
+    for (const listener of this.listeners) listener.afterCommit?.(change);
+  }
+}

@@ -16,10 +16,10 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
   const runs = options.runs ?? 5;
   const outDir = join(root, 'bench', 'out');
   mkdirSync(outDir, { recursive: true });
-  const logPath = join(outDir, `native-${options.rows}-rows-seed-${SEED}.csv`);
+  const logPath = join(outDir, `native-${options.rows}-rows-seed-${SEED}-from-2018.csv`);
   if (!existsSync(logPath)) {
     const nights = Math.ceil(options.rows / 300) + 30; // about 300-600 rows a night at 60 s cadence, some nights lost
-    const written = await writeSyntheticLog(logPath, { seed: SEED, site, startDate: '2021-01-01', nights, medianSeeingArcsec: 0.75, monitor, badRowEvery: 997, maxRows: options.rows });
+    const written = await writeSyntheticLog(logPath, { seed: SEED, site, startDate: '2018-01-01', nights, medianSeeingArcsec: 0.75, monitor, badRowEvery: 997, maxRows: options.rows });
     if (written.rows !== options.rows) throw new Error(`the synthetic log has ${written.rows} rows, wanted ${options.rows}`);
   }
   const analyzerArgs = [

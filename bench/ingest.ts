@@ -36,10 +36,10 @@ async function freePort(): Promise<number> {
 async function benchLog(rows: number): Promise<string> {
   const outDir = join(root, "bench", "out");
   mkdirSync(outDir, { recursive: true });
-  const path = join(outDir, `native-${rows}-rows-seed-${SEED}.csv`);
+  const path = join(outDir, `native-${rows}-rows-seed-${SEED}-from-2018.csv`);
   if (existsSync(path) && statSync(path).size > 0) return path;
   const nights = Math.ceil(rows / 300) + 30;
-  const written = await writeSyntheticLog(path, { seed: SEED, site: SITE, startDate: "2021-01-01", nights, medianSeeingArcsec: 0.75, monitor: MONITOR, badRowEvery: 997, maxRows: rows });
+  const written = await writeSyntheticLog(path, { seed: SEED, site: SITE, startDate: "2018-01-01", nights, medianSeeingArcsec: 0.75, monitor: MONITOR, badRowEvery: 997, maxRows: rows });
   if (written.rows !== rows) throw new Error(`the synthetic log has ${written.rows} rows, wanted ${rows}`);
   return path;
 }

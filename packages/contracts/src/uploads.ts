@@ -9,9 +9,16 @@ export type UploadStatusName = (typeof UPLOAD_STATUSES)[number];
  * the filter reasons and `excluded_window` are applied at summary time with the query's settings.
  */
 export const REJECT_REASONS = [
+  "unterminated_quote",
+  "stray_quote",
+  "line_too_long",
+  "wrong_field_count",
   "unreadable_time",
+  "implausible_time",
   "missing_value",
+  "non_decimal_number",
   "non_physical",
+  "implausible_seeing",
   "duplicate_time",
   "zenith_limit",
   "sun_above_limit",

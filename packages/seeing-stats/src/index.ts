@@ -39,6 +39,13 @@ export {
   interlacedFields,
   validateMonitor,
   DEFAULT_ANISOTROPY_RATIO_LIMIT,
+  DEFAULT_MIN_SEEING_ARCSEC,
+  DEFAULT_MAX_SEEING_ARCSEC,
+  EARLIEST_PLAUSIBLE_TIME_MS,
+  LATEST_PLAUSIBLE_AHEAD_MS,
+  defaultPlausibility,
+  validatePlausibility,
+  type PlausibilityWindow,
   EXPOSURE_CORRECTION_METHOD,
   type ExposureCorrection,
   type MonitorSettings,
@@ -51,6 +58,20 @@ export {
 } from './log/createRowReader.js';
 export { filterReason, DEFAULT_FILTERS, type FilterSettings } from './log/filterReason.js';
 export { previewLog, isCommentOrBlank, type LogPreview } from './log/previewLog.js';
+export {
+  LineSplitter,
+  splitLines,
+  splitFields,
+  isCommentOrBlankLine,
+  readHeaderLine,
+  rejectNonText,
+  listHeaders,
+  MAX_LINE_CHARS,
+  LINE_REJECT_REASONS,
+  type LineRejectReason,
+  type SplitResult,
+} from './log/splitLog.js';
+export { LogTextReader, SNIFF_CHARS, type LogTextHandlers } from './log/readLogText.js';
 
 // Summaries: one site, two sites compared, nights.
 export {

@@ -42,7 +42,7 @@ describe("uploading a log", () => {
     const lines = readFileSync(nativeLog, "utf8").trimEnd().split("\n");
     const header = lines.findIndex((line) => line.startsWith("time_utc"));
     const firstHalf = [...lines.slice(0, header + 1), ...lines.slice(header + 1, header + 31)];
-    const overlapping = [...lines.slice(0, header + 1), ...lines.slice(header + 21, header + 31), "2031-01-01T03:00:00Z,0.0012,0.0011,20.0,20000"];
+    const overlapping = [...lines.slice(0, header + 1), ...lines.slice(header + 21, header + 31), "2024-01-01T03:00:00Z,0.0701838,0.0504529,20.0,20000"];
     const a = await waitForUpload(lead, (await postUpload(lead, campaign.id, Buffer.from(`${firstHalf.join("\n")}\n`), "a.csv")).body.upload.id);
     const b = await waitForUpload(lead, (await postUpload(lead, campaign.id, Buffer.from(`${overlapping.join("\n")}\n`), "b.csv")).body.upload.id);
     expect(a.samples).toMatchObject({ read: 30, accepted: 30, rejected: 0 });

@@ -36,9 +36,16 @@ export function formatBytes(sizeBytes: number): string {
 }
 
 const REASON_LABELS: Record<string, string> = {
+  unterminated_quote: "quote not closed on its line",
+  stray_quote: "misplaced quote",
+  line_too_long: "line too long",
+  wrong_field_count: "wrong number of columns",
   unreadable_time: "unreadable time",
+  implausible_time: "time outside plausible years",
   missing_value: "missing value",
+  non_decimal_number: "number not in decimal notation",
   non_physical: "impossible value",
+  implausible_seeing: "seeing outside plausible range",
   duplicate_time: "duplicate time",
   zenith_limit: "beyond zenith limit",
   sun_above_limit: "sun too high",

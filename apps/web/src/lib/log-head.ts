@@ -1,5 +1,4 @@
-import Papa from "papaparse";
-import { detectDelimiter, isCommentOrBlank, proposeMapping, type ColumnMapping, type LogField } from "@calmcrest/seeing-stats";
+import { LogFormatError, LogTextReader, proposeMapping, type ColumnMapping, type LogField } from "@calmcrest/seeing-stats";
 
 /** The first part of a log file as the browser reads it, before anything is sent. */
 export interface LogHead {
@@ -13,23 +12,41 @@ export interface LogHead {
 /** Bytes read from each file for the header and first rows (a few hundred lines of a typical log). */
 export const HEAD_BYTES = 64 * 1024;
 
+/** Thrown inside the reader once enough rows are read. */
+class HeadFull extends Error {}
+
 /**
- * Reads the header line and first rows of a log's opening text with papaparse, skipping '#' comments and blank
- * lines like the server does, and proposes a mapping from the header names with the engine's rules.
+ * Reads the header line and first rows of a log's opening text with the engine's own text reader (the one the
+ * server ingests with: line ends per line, strict quotes, repeated headers and UTF-16 refused), skipping '#'
+ * comments, blank lines and lines that cannot be split, and proposes a mapping from the header names.
  */
 export function readLogHead(text: string, maxRows = 8): LogHead {
   // The slice may end mid-line; drop the partial last line so it is not shown as a broken row.
-  const lines = text.split(/\r?\n/);
-  if (!text.endsWith("\n") && lines.length > 1) lines.pop();
-  // A comment is a line whose first field starts with '#'; checked on the raw line so it does not depend on the delimiter.
-  const content = lines.filter((line) => !isCommentOrBlank([line.trim()]));
-  const headerLine = content[0];
-  if (headerLine === undefined) throw new Error("The file has no header line: the first line that is not a comment must name the columns.");
-  const delimiter = detectDelimiter(content.slice(0, 5).join("\n"));
-  const parsed = Papa.parse<string[]>(content.slice(0, maxRows + 1).join("\n"), { delimiter, skipEmptyLines: true });
-  const [headerFields = [], ...dataRows] = parsed.data;
-  const headers = headerFields.map((header) => header.trim());
-  const rows = dataRows.map((fields) => Object.fromEntries(headers.map((header, index) => [header, (fields[index] ?? "").trim()])));
+  const lastEnd = Math.max(text.lastIndexOf("\n"), text.lastIndexOf("\r"));
+  const complete = lastEnd < 0 || lastEnd === text.length - 1 ? text : text.slice(0, lastEnd + 1);
+  let headers: string[] = [];
+  let delimiter = ",";
+  const rows: Record<string, string>[] = [];
+  const reader = new LogTextReader({
+    header(found, used) {
+      headers = found;
+      delimiter = used;
+      if (maxRows <= 0) throw new HeadFull();
+    },
+    row(fields) {
+      rows.push(Object.fromEntries(headers.map((header, index) => [header, (fields[index] ?? "").trim()])));
+      if (rows.length >= maxRows) throw new HeadFull();
+    },
+    badLine() {},
+  });
+  try {
+    reader.push(complete);
+    reader.end();
+  } catch (error) {
+    if (error instanceof LogFormatError) throw new Error(`${error.message} ${error.hint}`);
+    if (!(error instanceof HeadFull)) throw error;
+  }
+  if (reader.headers === null) throw new Error("The file has no header line: the first line that is not a comment must name the columns.");
   return { delimiter, headers, rows, proposedMapping: proposeMapping(headers) };
 }
 

@@ -5,6 +5,7 @@ import { responseCoefficients, type ResponseSet } from '../physics/responseCoeff
 import { checkMapping } from './checkMapping.js';
 import type { ColumnMapping, LogField } from './logFields.js';
 import { parseUtcTime } from './parseUtcTime.js';
+import type { LineRejectReason } from './splitLog.js';
 import { createSunAltitude, type SiteLocation } from './sunAltitude.js';
 
 export interface MonitorSettings {
@@ -23,7 +24,15 @@ export interface MonitorSettings {
   anisotropyRatioLimit?: number;
 }
 
-export type RowRejectReason = 'unreadable_time' | 'missing_value' | 'non_physical';
+/** Reasons decided while reading a row (line reasons first, then the row reader's own, in the order checked). */
+export type RowRejectReason =
+  | LineRejectReason
+  | 'unreadable_time'
+  | 'implausible_time'
+  | 'missing_value'
+  | 'non_decimal_number'
+  | 'non_physical'
+  | 'implausible_seeing';
 export type FilterRejectReason = 'zenith_limit' | 'sun_above_limit' | 'low_flux';
 export type RejectReason = RowRejectReason | FilterRejectReason | 'duplicate_time' | 'excluded_window';
 
@@ -64,6 +73,50 @@ export const EXPOSURE_CORRECTION_METHOD =
 export type MeasureSource = 'variance_arcsec2' | 'variance_px2' | 'seeing' | 'r0';
 
 export const DEFAULT_ANISOTROPY_RATIO_LIMIT = 1.3;
+
+/**
+ * Which readings can be real. Seeing (at zenith and 500 nm, after every correction) outside
+ * [minSeeingArcsec, maxSeeingArcsec] is `implausible_seeing`: a unit mistake or a diverging fit, not weather
+ * (common practice: recorded site seeing stays within a few hundredths of an arcsecond to a few arcseconds).
+ * Sample times outside [earliestTimeMs, latestTimeMs] are `implausible_time` (a clock reset to year 0000, a
+ * typo'd 9999).
+ */
+export interface PlausibilityWindow {
+  minSeeingArcsec: number;
+  maxSeeingArcsec: number;
+  earliestTimeMs: number;
+  /** Default: one day after the reader was built (a monitor clock slightly ahead is not yet wrong). */
+  latestTimeMs: number;
+}
+
+/** 1990-01-01T00:00:00Z: before any digital seeing-monitor log Calmcrest would read. */
+export const EARLIEST_PLAUSIBLE_TIME_MS = Date.UTC(1990, 0, 1);
+/** How far after now a sample time may lie: one day, in milliseconds. */
+export const LATEST_PLAUSIBLE_AHEAD_MS = 86_400_000;
+export const DEFAULT_MIN_SEEING_ARCSEC = 0.05;
+export const DEFAULT_MAX_SEEING_ARCSEC = 10;
+
+/** The default plausibility window as of `nowMs`: seeing 0.05″–10″, times 1990-01-01 to now + 1 day. */
+export function defaultPlausibility(nowMs: number = Date.now()): PlausibilityWindow {
+  return {
+    minSeeingArcsec: DEFAULT_MIN_SEEING_ARCSEC,
+    maxSeeingArcsec: DEFAULT_MAX_SEEING_ARCSEC,
+    earliestTimeMs: EARLIEST_PLAUSIBLE_TIME_MS,
+    latestTimeMs: nowMs + LATEST_PLAUSIBLE_AHEAD_MS,
+  };
+}
+
+/** Throws SeeingInputError unless the window is a usable range. */
+export function validatePlausibility(window: PlausibilityWindow): void {
+  requirePositive(window.minSeeingArcsec, 'minSeeingArcsec', 'arcseconds');
+  requirePositive(window.maxSeeingArcsec, 'maxSeeingArcsec', 'arcseconds');
+  if (!(window.maxSeeingArcsec > window.minSeeingArcsec)) {
+    throw new SeeingInputError(`maxSeeingArcsec must be above minSeeingArcsec, got ${String(window.minSeeingArcsec)}″ to ${String(window.maxSeeingArcsec)}″`);
+  }
+  if (!Number.isFinite(window.earliestTimeMs) || !Number.isFinite(window.latestTimeMs) || !(window.latestTimeMs > window.earliestTimeMs)) {
+    throw new SeeingInputError('The plausible time range must run from an earlier to a later finite time.');
+  }
+}
 
 /** Throws SeeingInputError when a monitor setting is present but unusable. */
 export function validateMonitor(monitor: MonitorSettings): void {
@@ -117,10 +170,18 @@ function columnIndex(headers: readonly string[], mapping: ColumnMapping, field: 
 }
 
 const MISSING = Number.NaN;
-/** Number() of a field, or a code: NaN means empty/unreadable, and `nonFinite` marks 'NaN'/'inf' text. */
-let lastFieldWasNonFinite = false;
+/** Why the last readNumber gave NaN for a non-empty field: 1 = not finite (NaN, inf), 2 = not decimal notation. */
+let lastFieldProblem: 0 | 1 | 2 = 0;
+const NON_FINITE = 1;
+const NOT_DECIMAL = 2;
+/**
+ * A field as a decimal number (optionally with exponent; with decimalComma also "0,85"), or NaN with
+ * lastFieldProblem set: NON_FINITE for 'NaN', 'inf', 'Infinity' or a value beyond the double range (what a
+ * program prints for a diverged result: non_physical, as documented), NOT_DECIMAL for the other notations
+ * Number() would silently accept (hex 0x1A, octal 0o17, binary 0b101).
+ */
 function readNumber(fields: readonly string[], index: number, decimalComma: boolean): number {
-  lastFieldWasNonFinite = false;
+  lastFieldProblem = 0;
   if (index < 0) return MISSING;
   const text = fields[index];
   if (text === undefined) return MISSING;
@@ -131,13 +192,26 @@ function readNumber(fields: readonly string[], index: number, decimalComma: bool
     const trimmed = text.trim();
     if (trimmed === '') return MISSING;
     if (decimalComma && trimmed.includes(',')) value = Number(trimmed.replace(',', '.'));
-    if (Number.isNaN(value) && /^[+-]?(nan|inf|infinity)$/i.test(trimmed)) {
-      lastFieldWasNonFinite = true;
+    if (Number.isNaN(value)) {
+      if (/^[+-]?(nan|inf|infinity)$/i.test(trimmed)) lastFieldProblem = NON_FINITE;
       return MISSING;
     }
-  } else if (!Number.isFinite(value)) {
-    lastFieldWasNonFinite = true;
+    return value;
+  }
+  if (!Number.isFinite(value)) {
+    // 'Infinity' spelled out, or '1e400' beyond the double range.
+    lastFieldProblem = NON_FINITE;
     return MISSING;
+  }
+  // Number() also reads 0x1A, 0o17 and 0b101: a decimal field's first non-blank characters are never '0' + letter.
+  let first = 0;
+  while (text.charCodeAt(first) === 32 || text.charCodeAt(first) === 9) first += 1;
+  if (text.charCodeAt(first) === 48 && text.length > first + 1) {
+    const letter = text.charCodeAt(first + 1) | 32;
+    if (letter === 120 || letter === 111 || letter === 98) {
+      lastFieldProblem = NOT_DECIMAL;
+      return MISSING;
+    }
   }
   return value;
 }
@@ -150,8 +224,10 @@ function optionalNumber(fields: readonly string[], index: number, decimalComma: 
 
 /**
  * Builds a function that turns one row (its fields, and its 1-based line for messages) into a sample at zenith
- * and 500 nm, or a rejection with its reason: unreadable_time, missing_value (empty or unreadable number) or
- * non_physical (variance/seeing/r0 ≤ 0, NaN/inf, zenith outside [0°, 90°), airmass < 1).
+ * and 500 nm, or a rejection with its reason: unreadable_time, implausible_time (outside the plausibility
+ * window's years), missing_value (empty or unreadable number), non_decimal_number (0x1A, 0o17, 0b101),
+ * non_physical (variance/seeing/r0 ≤ 0, NaN or overflow, zenith outside [0°, 90°), airmass < 1) or
+ * implausible_seeing (the reduced seeing outside the plausibility window, 0.05″–10″ by default).
  * Variances → r0 per axis with the chosen response coefficients (Tokovinin 2002 / Sarazin & Roddier 1990),
  * r0 ∝ λ^(6/5) (cos z)^(3/5) to the reference, ε = 0.98 λ/r0 per axis, sample seeing = their mean.
  * With variances at twice the exposure time (var_…_2x_…, same unit) each axis is extrapolated to zero exposure
@@ -165,9 +241,14 @@ export function createRowReader(options: {
   monitor: MonitorSettings;
   site?: SiteLocation;
   delimiter?: string;
+  /** Overrides of the default plausibility window (defaultPlausibility() as of now). */
+  plausibility?: Partial<PlausibilityWindow>;
 }): (fields: readonly string[], line: number) => RowResult {
   const { headers, mapping, monitor, site } = options;
   validateMonitor(monitor);
+  const plausible: PlausibilityWindow = { ...defaultPlausibility(), ...options.plausibility };
+  validatePlausibility(plausible);
+  const { minSeeingArcsec, maxSeeingArcsec, earliestTimeMs, latestTimeMs } = plausible;
   const problems = checkMapping(mapping, headers);
   if (problems.length > 0) {
     throw new LogFormatError(`The columns cannot be read: ${problems[0] ?? ''}`, {
@@ -222,6 +303,13 @@ export function createRowReader(options: {
     if (Number.isNaN(timeMs)) {
       const shown = timeText === undefined || timeText.trim() === '' ? 'an empty time' : `"${timeText.slice(0, 40)}"`;
       return { ok: false, reason: 'unreadable_time', message: `${shown} is not an ISO 8601 UTC time like 2025-03-01T23:15:00Z` };
+    }
+    if (timeMs < earliestTimeMs || timeMs > latestTimeMs) {
+      return {
+        ok: false,
+        reason: 'implausible_time',
+        message: `the time ${new Date(timeMs).toISOString()} lies outside the plausible range ${new Date(earliestTimeMs).toISOString().slice(0, 10)} to ${new Date(latestTimeMs).toISOString().slice(0, 10)}; check the monitor clock`,
+      };
     }
 
     let zenithDeg: number;
@@ -293,6 +381,14 @@ export function createRowReader(options: {
       seeingArcsec = r0ScaleCmArcsec / r0ReferenceCm;
     }
 
+    if (!(seeingArcsec >= minSeeingArcsec && seeingArcsec <= maxSeeingArcsec)) {
+      return {
+        ok: false,
+        reason: 'implausible_seeing',
+        message: `seeing ${seeingArcsec.toPrecision(3)}″ (zenith, 500 nm) is outside the plausible window ${minSeeingArcsec}″–${maxSeeingArcsec}″; check the units of ${measureName} and the monitor settings`,
+      };
+    }
+
     return {
       ok: true,
       sample: {
@@ -317,7 +413,10 @@ export function createRowReader(options: {
 }
 
 function missingOrNonFinite(field: string): RowResult {
-  if (lastFieldWasNonFinite) return { ok: false, reason: 'non_physical', message: `${field} is not a finite number (NaN or infinity)` };
+  if (lastFieldProblem === NON_FINITE) return { ok: false, reason: 'non_physical', message: `${field} is not a finite number (NaN, infinity or beyond the number range)` };
+  if (lastFieldProblem === NOT_DECIMAL) {
+    return { ok: false, reason: 'non_decimal_number', message: `${field} is not written as a decimal number (hexadecimal, octal or binary notation); write it like 0.85 or 8.5e-1` };
+  }
   return { ok: false, reason: 'missing_value', message: `${field} is empty or not a number` };
 }
 

@@ -9,7 +9,7 @@ export type LogDelimiter = (typeof CANDIDATES)[number];
  */
 export function detectDelimiter(firstLines: string): LogDelimiter {
   const lines = firstLines
-    .split(/\r?\n/)
+    .split(/\r\n|\n|\r/)
     .map((line) => line.replace(/^\uFEFF/, ''))
     .filter((line) => line.trim() !== '' && !line.trimStart().startsWith('#'))
     .slice(0, 20);

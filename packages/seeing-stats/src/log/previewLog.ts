@@ -1,10 +1,9 @@
-import Papa from 'papaparse';
 import { LogFormatError, SeeingInputError } from '../errors.js';
 import { checkMapping } from './checkMapping.js';
-import { createRowReader, type LogSample, type MonitorSettings } from './createRowReader.js';
-import { detectDelimiter } from './detectDelimiter.js';
+import { createRowReader, type LogSample, type MonitorSettings, type PlausibilityWindow } from './createRowReader.js';
 import type { ColumnMapping } from './logFields.js';
 import { proposeMapping } from './proposeMapping.js';
+import { LogTextReader } from './readLogText.js';
 import type { SiteLocation } from './sunAltitude.js';
 
 export interface LogPreview {
@@ -23,62 +22,78 @@ export function isCommentOrBlank(fields: readonly string[]): boolean {
   return first.trimStart().startsWith('#');
 }
 
+/** Thrown inside the reader's handlers once enough rows are listed. */
+class PreviewFull extends Error {}
+
 /**
  * Reads the start of a log held in memory (browser-safe: the upload wizard calls it on the first kilobytes):
  * the delimiter, the headers, a proposed mapping (or the one given) and its problems, and the first rows with
- * their samples or the reason each cannot be read. Uses the same papaparse settings and row reader as the
- * streaming path. Throws LogFormatError when there is no header line.
+ * their samples or the reason each cannot be read. Uses the same text reader (line ends, quotes, limits) and
+ * row reader as the streaming path, so a line rejected there is shown with the same problem here. Throws
+ * LogFormatError when there is no usable header line or the text is not UTF-8.
  */
 export function previewLog(
   text: string,
-  options: { mapping?: ColumnMapping; monitor: MonitorSettings; site?: SiteLocation; maxRows?: number },
+  options: { mapping?: ColumnMapping; monitor: MonitorSettings; site?: SiteLocation; maxRows?: number; plausibility?: Partial<PlausibilityWindow> },
 ): LogPreview {
   const maxRows = options.maxRows ?? 20;
-  const cleaned = text.replace(/^\uFEFF/, '');
-  const delimiter = detectDelimiter(cleaned.slice(0, 64 * 1024));
-  const parsed = Papa.parse<string[]>(cleaned, { delimiter, header: false, skipEmptyLines: false, newline: cleaned.includes('\r\n') ? '\r\n' : '\n' });
-  const rows = parsed.data;
-  let headerRow = -1;
-  for (let index = 0; index < rows.length; index += 1) {
-    if (!isCommentOrBlank(rows[index] ?? [])) {
-      headerRow = index;
-      break;
-    }
-  }
-  if (headerRow < 0) {
-    throw new LogFormatError('The file has no header line.', { line: null, hint: 'Start the log with a line of column names such as time_utc,seeing_arcsec,zenith_deg.' });
-  }
-  const headers = (rows[headerRow] ?? []).map((header) => header.trim());
-  const proposedMapping = options.mapping ?? proposeMapping(headers);
-  const mappingProblems = checkMapping(proposedMapping, headers);
+  let headers: string[] = [];
+  let proposedMapping: ColumnMapping = {};
+  let mappingProblems: string[] = [];
   let reader: ReturnType<typeof createRowReader> | null = null;
   let readerProblem: string | null = null;
-  if (mappingProblems.length === 0) {
-    try {
-      reader = createRowReader({ headers, mapping: proposedMapping, monitor: options.monitor, site: options.site, delimiter });
-    } catch (error) {
-      if (error instanceof LogFormatError) readerProblem = `${error.message} ${error.hint}`;
-      else if (error instanceof SeeingInputError) readerProblem = error.message;
-      else throw error;
-    }
-  } else {
-    readerProblem = mappingProblems[0] ?? null;
-  }
-  const previewRows: LogPreview['rows'] = [];
-  for (let index = headerRow + 1; index < rows.length && previewRows.length < maxRows; index += 1) {
-    const fields = rows[index] ?? [];
-    if (isCommentOrBlank(fields)) continue;
-    const line = index + 1; // rows are records; equal to lines unless a quoted field spans lines
+  const rows: LogPreview['rows'] = [];
+  const valuesOf = (fields: readonly string[]): Record<string, string> => {
     const values: Record<string, string> = {};
     headers.forEach((header, column) => {
       values[header] = fields[column] ?? '';
     });
-    if (reader === null) {
-      previewRows.push({ line, values, sample: null, problem: readerProblem });
-      continue;
-    }
-    const result = reader(fields, line);
-    previewRows.push(result.ok ? { line, values, sample: result.sample, problem: null } : { line, values, sample: null, problem: result.message });
+    return values;
+  };
+  const add = (row: LogPreview['rows'][number]): void => {
+    if (rows.length >= maxRows) throw new PreviewFull();
+    rows.push(row);
+  };
+
+  const textReader = new LogTextReader({
+    header(found, delimiter) {
+      headers = found;
+      proposedMapping = options.mapping ?? proposeMapping(headers);
+      mappingProblems = checkMapping(proposedMapping, headers);
+      if (mappingProblems.length > 0) {
+        readerProblem = mappingProblems[0] ?? null;
+        return;
+      }
+      try {
+        reader = createRowReader({ headers, mapping: proposedMapping, monitor: options.monitor, site: options.site, delimiter, plausibility: options.plausibility });
+      } catch (error) {
+        if (error instanceof LogFormatError) readerProblem = `${error.message} ${error.hint}`;
+        else if (error instanceof SeeingInputError) readerProblem = error.message;
+        else throw error;
+      }
+      if (maxRows <= 0) throw new PreviewFull();
+    },
+    row(fields, line) {
+      const values = valuesOf(fields);
+      if (reader === null) {
+        add({ line, values, sample: null, problem: readerProblem });
+        return;
+      }
+      const result = reader(fields, line);
+      add(result.ok ? { line, values, sample: result.sample, problem: null } : { line, values, sample: null, problem: result.message });
+    },
+    badLine(line, reason, message) {
+      add({ line, values: {}, sample: null, problem: `${reason.replaceAll('_', ' ')}: ${message}` });
+    },
+  });
+  try {
+    textReader.push(text);
+    textReader.end();
+  } catch (error) {
+    if (!(error instanceof PreviewFull)) throw error;
   }
-  return { delimiter, headers, proposedMapping, mappingProblems, rows: previewRows };
+  if (textReader.headers === null) {
+    throw new LogFormatError('The file has no header line.', { line: null, hint: 'Start the log with a line of column names such as time_utc,seeing_arcsec,zenith_deg.' });
+  }
+  return { delimiter: textReader.delimiter, headers, proposedMapping, mappingProblems, rows };
 }

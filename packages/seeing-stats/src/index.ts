@@ -15,6 +15,8 @@ export { zenithFromAirmass } from './physics/zenithFromAirmass.js';
 export { r0AtWavelength, seeingAtWavelength } from './physics/toWavelength.js';
 export { exposureTimeCorrection } from './physics/exposureTimeCorrection.js';
 export { vonKarmanFwhm, type VonKarmanOptions } from './physics/vonKarmanFwhm.js';
+export { tau0ToReference } from './physics/tau0ToReference.js';
+export { theta0ToReference } from './physics/theta0ToReference.js';
 
 // Statistics: percentiles, log-normal fit, tests, bootstrap, random numbers.
 export { percentile, percentileSorted } from './stats/percentile.js';
@@ -25,6 +27,11 @@ export { mannWhitney, type MannWhitneyResult } from './stats/mannWhitney.js';
 export { bootstrapPooledMedian, bootstrapPooledMedianSorted, type GroupedValues } from './stats/bootstrapPooledMedian.js';
 export { argsortPositive, sortPositive } from './stats/argsortPositive.js';
 export { createRandom, normalDeviate } from './stats/random.js';
+export { weightedMedian, weightedMedianSorted } from './stats/weightedMedian.js';
+export { wilcoxonSignedRank, type WilcoxonSignedRankResult } from './stats/wilcoxonSignedRank.js';
+export { bootstrapGroupFraction } from './stats/bootstrapGroupFraction.js';
+export { nightIntervalStatus, MINIMUM_NIGHTS_FOR_INTERVAL, APPROXIMATE_INTERVAL_MAX_NIGHTS, type NightIntervalStatus } from './stats/nightIntervalStatus.js';
+export { simulateIntervalCoverage, type CoverageOptions, type CoverageResult } from './stats/simulateIntervalCoverage.js';
 
 // Log format: fields, mapping, delimiter, rows, filters, preview.
 export { LOG_FIELDS, LOG_FIELD_INFO, isLogField, type LogField, type ColumnMapping, type FieldRequirement } from './log/logFields.js';
@@ -83,7 +90,15 @@ export {
   type SummaryOptions,
   type SeeingSummary,
   type SortedSeeing,
+  type SeasonStatistics,
 } from './summary/summarizeSeeing.js';
+export { seasonBalancedMedian, seasonBalancedMedianSorted, monthOfDayNumber, MONTH_NAMES, type SeasonBalancedMedian } from './summary/seasonBalancedMedian.js';
+export { hemisphereSeasons, seasonIndexOfMonth, SEASON_CODES, type Season, type SeasonCode, type SeasonName } from './summary/hemisphereSeasons.js';
+export { summarizeTurbulenceParameter, type TurbulenceParameterSummary } from './summary/summarizeTurbulenceParameter.js';
+export { summaryWarnings, type SummaryWarning, type SummaryWarningCode, type SummaryContext } from './summary/summaryWarnings.js';
+export { checkLongitudeSign, type LongitudeSignCheck } from './summary/checkLongitudeSign.js';
 export { compareSeeing, type SiteComparison } from './summary/compareSeeing.js';
+export { pairNights, type NightPairing, type PairedNight, type PairingOptions } from './summary/pairNights.js';
+export { comparePairedNights, type PairedComparison } from './summary/comparePairedNights.js';
 export { predictTelescopeFwhm, type TelescopePrediction } from './summary/predictTelescopeFwhm.js';
 export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './summary/nightLabel.js';

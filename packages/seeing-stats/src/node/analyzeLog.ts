@@ -6,7 +6,14 @@ import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filte
 import { chooseMeasure, EXPOSURE_CORRECTION_METHOD, interlacedFields, type ExposureCorrection, type FilterRejectReason, type MonitorSettings, type RejectReason } from '../log/createRowReader.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
 import { RESPONSE_SET_NAMES } from '../physics/responseCoefficients.js';
-import { summarizeSeeing, type SeeingSummary, type SummaryOptions } from '../summary/summarizeSeeing.js';
+import { nightIntervalStatus } from '../stats/nightIntervalStatus.js';
+import { hemisphereSeasons } from '../summary/hemisphereSeasons.js';
+import { MONTH_NAMES } from '../summary/seasonBalancedMedian.js';
+import { INTERVAL_METHOD, SEASON_BALANCED_METHOD, SEASONS_METHOD, summarizeSeeing, type SeeingSummary, type SummaryOptions } from '../summary/summarizeSeeing.js';
+import { tau0ToReference } from '../physics/tau0ToReference.js';
+import { theta0ToReference } from '../physics/theta0ToReference.js';
+import { checkLongitudeSign } from '../summary/checkLongitudeSign.js';
+import { summaryWarnings, type SummaryContext } from '../summary/summaryWarnings.js';
 import { GrowableColumns } from './growableColumns.js';
 import { streamLog } from './streamLog.js';
 
@@ -16,6 +23,8 @@ export interface AnalyzeOptions {
   site?: SiteLocation;
   filters?: Partial<FilterSettings>;
   summary?: SummaryOptions;
+  /** False when the monitor's wavelength was not given but defaulted to 500 nm: a seeing or r0 log then gets a warning. Default true. */
+  wavelengthGiven?: boolean;
 }
 
 export interface AnalyzerReport extends SeeingSummary {
@@ -78,6 +87,14 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
       if (sample.timeMs <= previousTimeMs) timesAscending = false;
       previousTimeMs = sample.timeMs;
       kept.push(sample.timeMs, sample.seeingArcsec, line, reason === null ? 0 : FILTER_CODES.indexOf(reason) + 1, sample.anisotropic, EXPOSURE_CODES.indexOf(sample.exposureCorrection));
+      if (sample.tau0Ms !== null || sample.theta0Arcsec !== null) {
+        // Reduced to zenith and 500 nm like the seeing; a value that is not positive is left out of the τ0/θ0 figures.
+        const zenithDeg = Math.min(sample.zenithDeg, 89.999);
+        kept.setTurbulence(
+          sample.tau0Ms !== null && sample.tau0Ms > 0 ? tau0ToReference(sample.tau0Ms, zenithDeg, options.monitor.wavelengthNm) : null,
+          sample.theta0Arcsec !== null && sample.theta0Arcsec > 0 ? theta0ToReference(sample.theta0Arcsec, zenithDeg, options.monitor.wavelengthNm) : null,
+        );
+      }
     },
     onReject(line, reason, message) {
       countReject(line, reason, message);
@@ -85,6 +102,8 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
   });
 
   markDuplicates(kept, timesAscending);
+  // Before the accepted samples are compacted in place: the times the sun filter looked at, for the sign check.
+  const longitudeSign = options.site === undefined ? undefined : checkLongitudeSign(kept.timeMs.subarray(0, kept.length), options.site, filters.sunMaxDeg);
 
   // Count filter and duplicate rejections, list them, and compact the accepted samples in place.
   const duplicateListing: { line: number; reason: RejectReason; message: string }[] = [];
@@ -95,6 +114,8 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
     if (status === 0) {
       kept.timeMs[accepted] = kept.timeMs[index] ?? 0;
       kept.seeingArcsec[accepted] = kept.seeingArcsec[index] ?? 0;
+      if (kept.tau0Ms !== null) kept.tau0Ms[accepted] = kept.tau0Ms[index] ?? Number.NaN;
+      if (kept.theta0Arcsec !== null) kept.theta0Arcsec[accepted] = kept.theta0Arcsec[index] ?? Number.NaN;
       anisotropic += kept.anisotropic[index] ?? 0;
       const exposureCode = kept.exposure[index] ?? 0;
       exposureCounts[exposureCode] = (exposureCounts[exposureCode] ?? 0) + 1;
@@ -110,8 +131,20 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
   const rejectedRows = [...listed, ...duplicateListing].sort((left, right) => left.line - right.line).slice(0, MAX_LISTED_REJECTIONS);
   const rejected = Object.values(rejectedByReason).reduce((sum, count) => sum + count, 0);
 
-  const columns = { timeMs: kept.timeMs.subarray(0, accepted), seeingArcsec: kept.seeingArcsec.subarray(0, accepted) };
-  const summary = summarizeSeeing(columns, { longitudeDeg: options.site?.longitudeDeg, ...options.summary }) ?? emptySummary();
+  const columns = {
+    timeMs: kept.timeMs.subarray(0, accepted),
+    seeingArcsec: kept.seeingArcsec.subarray(0, accepted),
+    ...(kept.tau0Ms === null ? {} : { tau0Ms: kept.tau0Ms.subarray(0, accepted) }),
+    ...(kept.theta0Arcsec === null ? {} : { theta0Arcsec: kept.theta0Arcsec.subarray(0, accepted) }),
+  };
+  const measure = chooseMeasure(file.mapping, options.monitor);
+  const context: SummaryContext = {
+    measurement: { measure: measure === 'seeing' || measure === 'r0' ? measure : 'variance', wavelengthGiven: options.wavelengthGiven ?? true },
+    ...(longitudeSign === undefined ? {} : { longitudeSign }),
+    ...options.summary?.context,
+  };
+  const summaryOptions: SummaryOptions = { longitudeDeg: options.site?.longitudeDeg, latitudeDeg: options.site?.latitudeDeg, ...options.summary, context };
+  const summary = summarizeSeeing(columns, summaryOptions) ?? emptySummary(summaryOptions);
   let firstTimeMs = Number.POSITIVE_INFINITY;
   let lastTimeMs = Number.NEGATIVE_INFINITY;
   for (let index = 0; index < accepted; index += 1) {
@@ -194,13 +227,21 @@ async function openLog(path: string): Promise<NodeJS.ReadableStream> {
   return createReadStream(path, { highWaterMark: 128 * 1024 });
 }
 
-function emptySummary(): SeeingSummary {
+function emptySummary(options: SummaryOptions): SeeingSummary {
   const none = Number.NaN;
   return {
-    seeing: { unit: 'arcsec', wavelengthNm: 500, atZenith: true, mean: none, p10: none, p25: none, median: none, p75: none, p90: none, medianCi95: [none, none] },
+    seeing: { unit: 'arcsec', wavelengthNm: 500, atZenith: true, mean: none, p10: none, p25: none, median: none, p75: none, p90: none, medianCi95: null },
     r0: { unit: 'cm', p10: none, p25: none, median: none, p75: none, p90: none },
+    interval: nightIntervalStatus(0),
+    seasonBalanced: { medianArcsec: none, monthsCovered: [], monthsMissing: [...MONTH_NAMES] },
+    seasons: hemisphereSeasons().map((season) => ({ ...season, samples: 0, nights: 0, median: null, p25: null, p75: null })),
+    nightlyMedians: { nights: 0, median: none, p25: none, p75: none },
     lognormal: { mu: none, sigma: none, median: none, ks: none },
     fractionBelow: {},
+    fractionBelowCi95: {},
+    tau0: null,
+    theta0: null,
+    warnings: summaryWarnings({ nights: 0, longitudeGiven: options.longitudeDeg !== undefined, context: options.context }),
     nights: 0,
     monthly: [],
     hourly: [],
@@ -215,6 +256,9 @@ function emptySummary(): SeeingSummary {
       fractionBelow: 'share of accepted samples with seeing strictly below the threshold',
       night: 'date of (local solar time − 12 h)',
       hourly: 'local solar hour 0..23, listed from noon through the night',
+      seasonBalanced: SEASON_BALANCED_METHOD,
+      seasons: SEASONS_METHOD,
+      interval: INTERVAL_METHOD,
     },
   };
 }

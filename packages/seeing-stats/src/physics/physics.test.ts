@@ -4,6 +4,8 @@ import { ARCSEC_PER_RADIAN } from './constants.js';
 import { exposureTimeCorrection } from './exposureTimeCorrection.js';
 import { r0FromSeeing } from './r0FromSeeing.js';
 import { r0FromVariance } from './r0FromVariance.js';
+import { tau0ToReference } from './tau0ToReference.js';
+import { theta0ToReference } from './theta0ToReference.js';
 import { responseCoefficients } from './responseCoefficients.js';
 import { seeingFromR0 } from './seeingFromR0.js';
 import { r0AtWavelength, seeingAtWavelength } from './toWavelength.js';
@@ -75,7 +77,9 @@ describe('DIMM response coefficients', () => {
     expectRelative(transverse / longitudinal, 0.7268);
   });
   it('match the G-tilt and Sarazin & Roddier values at b = 3.333', () => {
-    // seeing-physics.md §9 #7
+    // seeing-physics.md §9 #7, derived from coefficients quoted from memory: Tokovinin 2002 G-tilt set (from memory,
+    // cross-checked in public code) and Sarazin & Roddier 1990's 0.179 / 0.0968 / 0.145 (from memory; the primary
+    // text was not opened)
     const gTilt = responseCoefficients(baselineRatio, 'g-tilt');
     expectRelative(gTilt.longitudinal, 0.2094);
     expectRelative(gTilt.transverse, 0.146);
@@ -98,7 +102,8 @@ describe('variance and r0', () => {
     expectRelative(varianceLong / ARCSEC_PER_RADIAN ** 2, 6.931e-12);
   });
   it('gives 0.4959″ (Z), 0.5029″ (S&R) and 0.5298″ (G) for σ_l = 0.30″', () => {
-    // seeing-physics.md §9 #9: the coefficient choice moves seeing by 7 %
+    // seeing-physics.md §9 #9: the coefficient choice moves seeing by 7 %; the S&R and G-tilt coefficients behind
+    // these values are from memory (see above)
     const seeingFor = (set: 'z-tilt' | 'g-tilt' | 'sarazin-roddier'): number =>
       seeingFromR0(r0FromVariance(0.3 ** 2, responseCoefficients(baselineRatio, set).longitudinal, 500, 60), 500);
     expectRelative(seeingFor('z-tilt'), 0.4959);
@@ -143,5 +148,20 @@ describe('von Kármán long-exposure FWHM', () => {
   });
   it('refuses an outer scale so small that the fit goes negative', () => {
     expect(() => vonKarmanFwhm({ seeingArcsec: seeing10cm, outerScaleM: 0.5, wavelengthNm: 500 })).toThrow(/r0\/L0/);
+  });
+});
+
+describe('τ0 and θ0 to zenith and 500 nm', () => {
+  it('scale θ0 as λ^(6/5) (cos z)^(8/5) and τ0 as λ^(6/5) (cos z)^(3/5)', () => {
+    // θ0 ∝ [k² sec^(8/3) z]^(-3/5) (Roddier 1981 via A&A 2002; seeing-physics.md §5.2): at z = 60°, cos z = 1/2,
+    // so θ0(0) = θ0(60°) · 2^(8/5) = 3.031 θ0(60°) (python3: 2**1.6 = 3.0314)
+    expectRelative(theta0ToReference(1.0, 60, 500), 3.0314331330207964, 1e-12);
+    // τ0 = 0.314 r0 / V̄ (Kellerer & Tokovinin 2007) with r0 ∝ (cos z)^(3/5): 2^(3/5) = 1.5157 (python3)
+    expectRelative(tau0ToReference(3.0, 60, 500), 4.547149699531194, 1e-12);
+    // at zenith, measured at 650 nm: × (500/650)^(6/5) (python3: (500/650)**1.2 = 0.7299077538882687)
+    expectRelative(theta0ToReference(2.0, 0, 650), 2 * 0.7299077538882687, 1e-12);
+    expectRelative(tau0ToReference(5.0, 0, 650), 5 * 0.7299077538882687, 1e-12);
+    expect(() => tau0ToReference(0, 10, 500)).toThrow(SeeingInputError);
+    expect(() => theta0ToReference(2, 95, 500)).toThrow(/zenithDeg/);
   });
 });

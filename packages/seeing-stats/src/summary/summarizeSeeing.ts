@@ -1,6 +1,8 @@
 import { SeeingInputError } from '../errors.js';
 import { ARCSEC_PER_RADIAN, REFERENCE_WAVELENGTH_NM, SEEING_CONSTANT } from '../physics/constants.js';
+import { bootstrapGroupFraction } from '../stats/bootstrapGroupFraction.js';
 import { bootstrapPooledMedianSorted } from '../stats/bootstrapPooledMedian.js';
+import { nightIntervalStatus, type NightIntervalStatus } from '../stats/nightIntervalStatus.js';
 import { sortPositive } from '../stats/argsortPositive.js';
 import { fitLogNormalToLogs, naturalLogs } from '../stats/fitLogNormal.js';
 import { ksDistanceLogNormalOfLogs } from '../stats/ksDistanceLogNormal.js';
@@ -8,12 +10,20 @@ import { normalCdf } from '../stats/normalCdf.js';
 import { percentileSorted } from '../stats/percentile.js';
 import { RankCapture } from './groupPercentiles.js';
 import { slotsOfKeys } from './groupValues.js';
+import { hemisphereSeasons, seasonIndexOfMonth, type SeasonCode, type SeasonName } from './hemisphereSeasons.js';
+import { seasonBalancedMedianSorted, type SeasonBalancedMedian } from './seasonBalancedMedian.js';
+import { summarizeTurbulenceParameter, type TurbulenceParameterSummary } from './summarizeTurbulenceParameter.js';
+import { summaryWarnings, type SummaryContext, type SummaryWarning } from './summaryWarnings.js';
 import { dayNumberLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './nightLabel.js';
 
 /** Accepted samples only, equal length; seeing at zenith and 500 nm. */
 export interface SampleColumns {
   timeMs: Float64Array;
   seeingArcsec: Float64Array;
+  /** Optional coherence time τ0 per sample, reduced to zenith and 500 nm (tau0ToReference); NaN where not logged. */
+  tau0Ms?: Float64Array;
+  /** Optional isoplanatic angle θ0 per sample, reduced to zenith and 500 nm (theta0ToReference); NaN where not logged. */
+  theta0Arcsec?: Float64Array;
 }
 
 export interface SummaryOptions {
@@ -27,10 +37,54 @@ export interface SummaryOptions {
   seed?: number;
   /** Number of log-spaced histogram bins; default 30. */
   histogramBins?: number;
+  /** Site latitude: names the seasons for the hemisphere (DJF is summer in the south); unnamed when absent. */
+  latitudeDeg?: number;
+  /** What the caller knows about the samples (pooled response sets, monitor heights, …), for warnings[]. */
+  context?: SummaryContext;
+}
+
+export interface SeasonStatistics {
+  code: SeasonCode;
+  /** Winter, spring, … in the site's hemisphere; null without a latitude. */
+  name: SeasonName | null;
+  months: [number, number, number];
+  samples: number;
+  nights: number;
+  /** Type-7 percentiles of the season's samples; null when the season has none. */
+  median: number | null;
+  p25: number | null;
+  p75: number | null;
 }
 
 export interface SeeingSummary {
-  seeing: { unit: 'arcsec'; wavelengthNm: 500; atZenith: true; mean: number; p10: number; p25: number; median: number; p75: number; p90: number; medianCi95: [number, number] };
+  seeing: {
+    unit: 'arcsec';
+    wavelengthNm: 500;
+    atZenith: true;
+    mean: number;
+    p10: number;
+    p25: number;
+    median: number;
+    p75: number;
+    p90: number;
+    /** 95 % whole-night bootstrap interval of the median; null below 10 nights (interval.reason says why). */
+    medianCi95: [number, number] | null;
+  };
+  /** Whether the 95 % intervals (medianCi95, fractionBelowCi95) are given, approximate (10–30 nights) or sound. */
+  interval: NightIntervalStatus;
+  /** Weighted median with every covered calendar month weighing the same, and the months not covered. */
+  seasonBalanced: SeasonBalancedMedian;
+  /** The four 3-month seasons (DJF, MAM, JJA, SON), named for the site's hemisphere. */
+  seasons: SeasonStatistics[];
+  /** Statistics over nights: type-7 median and quartiles of the per-night medians (each night counts once). */
+  nightlyMedians: { nights: number; median: number; p25: number; p75: number };
+  /** 95 % whole-night bootstrap interval of each fractionBelow; null below 10 nights. */
+  fractionBelowCi95: Record<string, [number, number] | null>;
+  /** Coherence time τ0 (ms) and isoplanatic angle θ0 (arcsec) at zenith and 500 nm, when the log carries them. */
+  tau0: (TurbulenceParameterSummary & { unit: 'ms' }) | null;
+  theta0: (TurbulenceParameterSummary & { unit: 'arcsec' }) | null;
+  /** What could mislead a reader of these figures, each with a code and a sentence (empty when nothing). */
+  warnings: SummaryWarning[];
   r0: { unit: 'cm'; p10: number; p25: number; median: number; p75: number; p90: number };
   lognormal: { mu: number; sigma: number; median: number; ks: number };
   fractionBelow: Record<string, number>;
@@ -48,6 +102,9 @@ export interface SeeingSummary {
     fractionBelow: string;
     night: string;
     hourly: string;
+    seasonBalanced: string;
+    seasons: string;
+    interval: string;
   };
 }
 
@@ -60,8 +117,12 @@ const CDF_POINTS = 200;
 /**
  * Statistics of accepted seeing samples (zenith, 500 nm): mean; type-7 percentiles 10/25/50/75/90 of seeing
  * and of r0 (r0 = 0.98 λ/ε per sample); a maximum-likelihood log-normal fit with its KS distance; the
- * fraction strictly below each threshold; monthly, hourly and nightly breakdowns; a 95% interval of the median
- * from a bootstrap over whole nights (samples within a night are correlated); chart data. Returns null for no samples.
+ * fraction strictly below each threshold; monthly, hourly and nightly breakdowns; 95% intervals of the median and
+ * of each fraction below from a bootstrap over whole nights (samples within a night are correlated), given from
+ * 10 nights on and called approximate up to 30 (nightIntervalStatus); the season-balanced median
+ * (seasonBalancedMedian), the four seasons of the site's hemisphere, the median and quartiles of the nightly
+ * medians; τ0 and θ0 percentiles when the columns carry them; warnings[] (summaryWarnings); chart data.
+ * Returns null for no samples.
  * Throws SeeingInputError when the columns differ in length or hold a value that is not a positive finite seeing.
  */
 export function summarizeSeeing(columns: SampleColumns, options: SummaryOptions = {}): SeeingSummary | null {
@@ -156,11 +217,59 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
   // Ordered through the night (from local noon), so an evening-to-morning chart reads left to right.
   hourly.sort((left, right) => ((left.hour + 12) % 24) - ((right.hour + 12) % 24));
 
-  const replicateMedians = bootstrapPooledMedianSorted(sorted, nightOfSorted, nightSizes, { replicates, seed }).sort();
-  const medianCi95: [number, number] = [percentileSorted(replicateMedians, 0.025), percentileSorted(replicateMedians, 0.975)];
+  // Intervals only from 10 nights on: below that the nominal 95 % covers far less (nightIntervalStatus).
+  const interval = nightIntervalStatus(nightCount);
+  const withInterval = interval.status !== 'too_few_nights';
+  let medianCi95: [number, number] | null = null;
+  if (withInterval) {
+    const replicateMedians = bootstrapPooledMedianSorted(sorted, nightOfSorted, nightSizes, { replicates, seed }).sort();
+    medianCi95 = [percentileSorted(replicateMedians, 0.025), percentileSorted(replicateMedians, 0.975)];
+  }
 
   const fractionBelow: Record<string, number> = {};
-  for (const threshold of thresholds) fractionBelow[thresholdKey(threshold)] = lowerBound(sorted, threshold) / count;
+  const fractionBelowCi95: Record<string, [number, number] | null> = {};
+  thresholds.forEach((threshold, index) => {
+    const below = lowerBound(sorted, threshold);
+    const key = thresholdKey(threshold);
+    fractionBelow[key] = below / count;
+    fractionBelowCi95[key] = null;
+    if (withInterval) {
+      // Its own replicate stream per threshold (seed + index + 1), so adding a threshold leaves the others as they were.
+      const replicateFractions = bootstrapGroupFraction(countBelowByNight(nightOfSorted, below, nightCount), nightSizes, { replicates, seed: seed + index + 1 }).sort();
+      fractionBelowCi95[key] = [percentileSorted(replicateFractions, 0.025), percentileSorted(replicateFractions, 0.975)];
+    }
+  });
+
+  // Calendar month (1–12) and season of each night, then of each sorted value, for the season figures.
+  const seasonList = hemisphereSeasons(options.latitudeDeg);
+  const monthOfYearOfNight = Int32Array.from(nightLabels, (label) => Number(label.slice(5, 7)));
+  const seasonOfNight = Int32Array.from(monthOfYearOfNight, (month) => seasonIndexOfMonth(month));
+  const seasonNights = new Int32Array(4);
+  const seasonSizes = new Int32Array(4);
+  seasonOfNight.forEach((season, slot) => {
+    seasonNights[season] = (seasonNights[season] ?? 0) + 1;
+    seasonSizes[season] = (seasonSizes[season] ?? 0) + (nightSizes[slot] ?? 0);
+  });
+  const seasonCapture = new RankCapture(seasonSizes, [0.5, 0.25, 0.75]);
+  const monthOfSorted = tagMonthsAndSeasons(sorted, nightOfSorted, monthOfYearOfNight, seasonOfNight, seasonCapture);
+  const seasonPercentiles = seasonCapture.percentiles();
+  const seasons: SeasonStatistics[] = seasonList.map((season, index) => {
+    const has = (seasonSizes[index] ?? 0) > 0;
+    const at = (column: number): number | null => (has ? (seasonPercentiles[index * 3 + column] ?? null) : null);
+    return { code: season.code, name: season.name, months: season.months, samples: seasonSizes[index] ?? 0, nights: seasonNights[index] ?? 0, median: at(0), p25: at(1), p75: at(2) };
+  });
+  const seasonBalanced = seasonBalancedMedianSorted(sorted, monthOfSorted);
+
+  const sortedNightMedians = Float64Array.from(nightMedians).sort();
+  const nightlyMedians = {
+    nights: nightCount,
+    median: percentileSorted(sortedNightMedians, 0.5),
+    p25: percentileSorted(sortedNightMedians, 0.25),
+    p75: percentileSorted(sortedNightMedians, 0.75),
+  };
+  const turbulenceOptions = { longitudeDeg: options.longitudeDeg, latitudeDeg: options.latitudeDeg };
+  const tau0 = columns.tau0Ms === undefined ? null : summarizeTurbulenceParameter(timeMs, requireLength(columns.tau0Ms, count, 'tau0Ms'), turbulenceOptions);
+  const theta0 = columns.theta0Arcsec === undefined ? null : summarizeTurbulenceParameter(timeMs, requireLength(columns.theta0Arcsec, count, 'theta0Arcsec'), turbulenceOptions);
 
   // r0 = 0.98 λ/ε per sample is decreasing in ε, so r0's ascending order is seeing's descending order.
   const r0ScaleCmArcsec = ((SEEING_CONSTANT * REFERENCE_WAVELENGTH_NM * 1e-9) * ARCSEC_PER_RADIAN) * 100;
@@ -188,8 +297,16 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
       medianCi95,
     },
     r0: { unit: 'cm', p10: r0Quantile(0.1), p25: r0Quantile(0.25), median: r0Quantile(0.5), p75: r0Quantile(0.75), p90: r0Quantile(0.9) },
+    interval,
+    seasonBalanced,
+    seasons,
+    nightlyMedians,
     lognormal: { mu: fit.mu, sigma: fit.sigma, median: fit.median, ks },
     fractionBelow,
+    fractionBelowCi95,
+    tau0: tau0 === null ? null : { unit: 'ms', ...tau0 },
+    theta0: theta0 === null ? null : { unit: 'arcsec', ...theta0 },
+    warnings: summaryWarnings({ nights: nightCount, longitudeGiven: options.longitudeDeg !== undefined, context: options.context }),
     nights: nightCount,
     monthly,
     hourly,
@@ -199,13 +316,50 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
     method: {
       seeingConstant: 0.98,
       percentile: 'linear (Hyndman-Fan type 7)',
-      bootstrap: `whole nights resampled with replacement, ${replicates} replicates, seed ${seed}, 2.5–97.5% percentile interval of the pooled median`,
+      bootstrap: withInterval
+        ? `whole nights resampled with replacement, ${replicates} replicates, seed ${seed}, 2.5–97.5% percentile interval of the pooled median and of each fraction below a threshold`
+        : `not run: ${interval.reason ?? 'too few nights'}`,
       lognormal: 'maximum likelihood on ln(seeing), sigma with divisor n; ks = Kolmogorov–Smirnov distance to the fit',
       fractionBelow: 'share of accepted samples with seeing strictly below the threshold',
       night: `date of (local solar time − 12 h), local solar time = UTC + longitude/15 h (${options.longitudeDeg === undefined ? 'no longitude given: UTC' : `longitude ${options.longitudeDeg}°`})`,
       hourly: 'local solar hour 0..23, listed from noon through the night',
+      seasonBalanced: SEASON_BALANCED_METHOD,
+      seasons: SEASONS_METHOD,
+      interval: INTERVAL_METHOD,
     },
   };
+}
+
+/** Method notes shared with callers that build an empty summary. */
+export const SEASON_BALANCED_METHOD = 'weighted median of all samples, each weighted by 1 / (samples in its calendar month, all years together, by night date), so every covered calendar month weighs the same';
+export const SEASONS_METHOD = 'meteorological 3-month seasons DJF, MAM, JJA, SON by night date, named for the hemisphere of the site latitude (unnamed without one)';
+export const INTERVAL_METHOD = 'no 95 % interval below 10 nights; 10–30 nights: approximate (coverage of the whole-night bootstrap measured by simulation, see the README)';
+
+/** Throws unless an optional column has one value per sample. */
+function requireLength(column: Float64Array, count: number, name: string): Float64Array {
+  if (column.length !== count) throw new SeeingInputError(`${name} must have one value per sample (${count}), got ${column.length}`);
+  return column;
+}
+
+/** Per night slot, how many of its values sit at sorted positions below `below` (i.e. are below the threshold). */
+function countBelowByNight(nightOfSorted: Int32Array, below: number, nightCount: number): Int32Array {
+  const counts = new Int32Array(nightCount);
+  for (let position = 0; position < below; position += 1) {
+    const night = nightOfSorted[position] ?? 0;
+    counts[night] = (counts[night] ?? 0) + 1;
+  }
+  return counts;
+}
+
+/** The calendar month of each sorted value; feeds each value to its season's percentile capture on the way. */
+function tagMonthsAndSeasons(sorted: Float64Array, nightOfSorted: Int32Array, monthOfNight: Int32Array, seasonOfNight: Int32Array, seasonCapture: RankCapture): Int32Array {
+  const monthOfSorted = new Int32Array(sorted.length);
+  for (let position = 0; position < sorted.length; position += 1) {
+    const night = nightOfSorted[position] ?? 0;
+    monthOfSorted[position] = monthOfNight[night] ?? 1;
+    seasonCapture.take(seasonOfNight[night] ?? 0, sorted[position] ?? Number.NaN);
+  }
+  return monthOfSorted;
 }
 
 /** "0.6", "0.8", "1.0": one decimal at least, so the keys match the documented JSON. */

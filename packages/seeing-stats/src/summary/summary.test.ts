@@ -101,9 +101,13 @@ describe('summarizeSeeing', () => {
     expect(summary.fractionBelow['0.6']).toBeCloseTo(0.3, 12);
     expect(Object.keys(summary.fractionBelow)).toEqual(['0.6', '0.8', '1.0']);
     expect(summary.nights).toBe(1);
-    // one night: every replicate is the night itself, so the interval collapses on the median
-    expect(summary.seeing.medianCi95[0]).toBeCloseTo(0.68, 12);
-    expect(summary.seeing.medianCi95[1]).toBeCloseTo(0.68, 12);
+    // One night gives no interval: resampling one night can only return that night, and a "95 % interval"
+    // collapsed onto the median covers the truth 0 % of the time (simulateIntervalCoverage). This test used to
+    // assert the collapsed interval [0.68, 0.68], which was the wrong answer.
+    expect(summary.seeing.medianCi95).toBeNull();
+    expect(summary.interval).toEqual({ status: 'too_few_nights', nights: 1, reason: 'too few nights for an interval (1 night)' });
+    expect(summary.fractionBelowCi95['0.6']).toBeNull();
+    expect(summary.warnings.map((warning) => warning.code)).toEqual(['too_few_nights', 'no_site_longitude']);
   });
   it('gives r0 percentiles equal to those of the per-sample r0 values (checked with jstat)', () => {
     const columns = campaign(1, 20, 0.8);

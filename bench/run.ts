@@ -12,6 +12,7 @@ export interface BenchmarkModule {
 const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   analyzer: () => import('./analyzer.ts'),
   ingest: () => import('./ingest.ts'),
+  intervalCoverage: () => import('./intervalCoverage.ts'),
 };
 
 function parseFlags(argv: readonly string[]): { rows: number; runs: number; out: string; only: string[] } {

@@ -4,12 +4,22 @@ import type { AnalyzerReport } from '@calmcrest/seeing-stats/node';
 const arcsec = (value: number): string => (Number.isFinite(value) ? `${value.toFixed(2)}″` : '–');
 const centimetres = (value: number): string => (Number.isFinite(value) ? `${value.toFixed(1)} cm` : '–');
 const percent = (fraction: number): string => `${(fraction * 100).toFixed(1)} %`;
+const milliseconds = (value: number): string => (Number.isFinite(value) ? `${value.toFixed(2)} ms` : '–');
+
+/** "95 % interval a – b, bootstrap over nights", marked approximate when it is, or why there is none. */
+function intervalWords(interval: [number, number] | null, reason: string | null, format: (value: number) => string): string {
+  if (interval === null) return reason ?? 'no interval';
+  const words = `95 % interval ${format(interval[0])} – ${format(interval[1])}, bootstrap over nights`;
+  return reason === null ? words : `${words}; ${reason}`;
+}
 
 /** The readable summary a field engineer reads before uploading: counts, statistics with units, rejected rows. */
 export function formatReport(report: AnalyzerReport, fileName: string, telescope: TelescopePrediction | null = null): string {
   const lines: string[] = [];
   const { samples } = report;
   lines.push(`Calmcrest log check: ${fileName}`);
+  // Warnings first and loud: each one can make the figures below mislead.
+  for (const warning of report.warnings) lines.push(`WARNING (${warning.code}): ${warning.message}`);
   const measure = report.monitor.apertureMm !== undefined && report.monitor.baselineMm !== undefined
     ? `D ${report.monitor.apertureMm} mm, B ${report.monitor.baselineMm} mm, `
     : '';
@@ -35,11 +45,13 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
   } else {
     const { seeing, r0, lognormal } = report;
     lines.push('Seeing at zenith, 500 nm (FWHM)');
-    lines.push(`  mean ${arcsec(seeing.mean)}   median ${arcsec(seeing.median)}  (95 % interval ${arcsec(seeing.medianCi95[0])} – ${arcsec(seeing.medianCi95[1])}, bootstrap over nights)`);
-    if (report.nights < 5) {
-      lines.push(`  (only ${report.nights} night${report.nights === 1 ? '' : 's'}: an interval from resampling nights cannot show night-to-night variation yet)`);
-    }
+    lines.push(`  mean ${arcsec(seeing.mean)}   median ${arcsec(seeing.median)}  (${intervalWords(seeing.medianCi95, report.interval.reason, arcsec)})`);
     lines.push(`  p10 ${arcsec(seeing.p10)}   p25 ${arcsec(seeing.p25)}   p75 ${arcsec(seeing.p75)}   p90 ${arcsec(seeing.p90)}`);
+    const balanced = report.seasonBalanced;
+    const missing = balanced.monthsMissing.length === 0 ? 'every calendar month covered' : `no samples in ${balanced.monthsMissing.join(', ')}`;
+    lines.push(`  season-balanced median ${arcsec(balanced.medianArcsec)} (each covered calendar month weighs the same; ${missing})`);
+    const nightly = report.nightlyMedians;
+    lines.push(`  over nights (median of each night, ${nightly.nights} nights): median ${arcsec(nightly.median)}   p25 ${arcsec(nightly.p25)}   p75 ${arcsec(nightly.p75)}`);
     lines.push(`Fried parameter r0 at zenith, 500 nm`);
     lines.push(`  p10 ${centimetres(r0.p10)}   p25 ${centimetres(r0.p25)}   median ${centimetres(r0.median)}   p75 ${centimetres(r0.p75)}   p90 ${centimetres(r0.p90)}`);
     lines.push(`Log-normal fit: median ${arcsec(lognormal.median)}, σ(ln) ${lognormal.sigma.toFixed(3)}, KS distance ${lognormal.ks.toFixed(3)}`);
@@ -48,8 +60,22 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
       lines.push(`Predicted long-exposure FWHM in ${size} at ${telescope.wavelengthNm} nm, zenith, outer scale ${telescope.outerScaleM} m:`);
       lines.push(`  p10 ${arcsec(telescope.p10)}   p25 ${arcsec(telescope.p25)}   median ${arcsec(telescope.median)}   p75 ${arcsec(telescope.p75)}   p90 ${arcsec(telescope.p90)}`);
     }
-    lines.push(`Time below: ${Object.entries(report.fractionBelow).map(([threshold, fraction]) => `${threshold}″ ${percent(fraction)}`).join('   ')}`);
+    lines.push('Time below (share of samples)');
+    for (const [threshold, fraction] of Object.entries(report.fractionBelow)) {
+      lines.push(`  ${`${threshold}″`.padEnd(6)} ${percent(fraction).padStart(7)}  (${intervalWords(report.fractionBelowCi95[threshold] ?? null, report.interval.reason, percent)})`);
+    }
+    for (const [label, figures, format] of [['Coherence time τ0 at zenith, 500 nm', report.tau0, milliseconds], ['Isoplanatic angle θ0 at zenith, 500 nm', report.theta0, arcsec]] as const) {
+      if (figures === null) continue;
+      lines.push(`${label} (${figures.samples} samples with a value)`);
+      lines.push(`  p10 ${format(figures.p10)}   p25 ${format(figures.p25)}   median ${format(figures.median)}   p75 ${format(figures.p75)}   p90 ${format(figures.p90)}`);
+      lines.push(`  by season: ${figures.seasons.map((season) => `${season.code}${season.name === null ? '' : ` (${season.name})`} ${season.median === null ? '–' : format(season.median)}`).join('   ')}`);
+    }
     lines.push('');
+    lines.push('By season (night dates)       samples   nights   median     p25     p75');
+    for (const season of report.seasons) {
+      const name = `${season.code}${season.name === null ? '' : ` (${season.name})`}`;
+      lines.push(`  ${name.padEnd(26)} ${String(season.samples).padStart(9)} ${String(season.nights).padStart(8)} ${arcsec(season.median ?? Number.NaN).padStart(8)} ${arcsec(season.p25 ?? Number.NaN).padStart(7)} ${arcsec(season.p75 ?? Number.NaN).padStart(7)}`);
+    }
     lines.push('By month (night dates)        samples   median     p25     p75');
     for (const month of report.monthly) {
       lines.push(`  ${month.month.padEnd(26)} ${String(month.samples).padStart(9)} ${arcsec(month.median).padStart(8)} ${arcsec(month.p25).padStart(7)} ${arcsec(month.p75).padStart(7)}`);

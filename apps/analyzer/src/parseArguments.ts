@@ -24,14 +24,16 @@ Checks a seeing-monitor log and prints seeing statistics at zenith and 500 nm.
 Monitor
   --aperture-mm D            sub-aperture diameter (needed for variance columns)
   --baseline-mm B            distance between sub-aperture centres (needed for variance columns)
-  --wavelength-nm L          wavelength the monitor measured at (default 500)
+  --wavelength-nm L          wavelength the monitor measured at (default 500; give it for seeing or r0 logs,
+                             else the output carries a warning)
   --pixel-scale-arcsec P     plate scale, for variances logged in pixel²
   --exposure-ms T            exposure time per frame (recorded in the output)
   --response SET             z-tilt (default) | g-tilt | sarazin-roddier
 Columns
   --map field=Header         the file's column "Header" holds field (repeatable), e.g. --map seeing_arcsec="FWHM [arcsec]"
 Filters
-  --site-lat DEG --site-lon DEG   site position (east positive); turns on the night filter
+  --site-lat DEG --site-lon DEG   site position (east positive); turns on the night filter and names nights
+                             and seasons by the site (without it nights split at 12:00 UTC: a warning)
   --site-elevation-m M       site elevation (optional)
   --sun-max-deg DEG          drop samples with the sun above this altitude (default -18)
   --max-zenith-deg DEG       drop samples farther than this from the zenith (default 60)
@@ -155,6 +157,7 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       ...(numbers.has('--max-zenith-deg') ? { maxZenithDeg: numbers.get('--max-zenith-deg') } : {}),
       ...(numbers.has('--min-flux') ? { minFlux: numbers.get('--min-flux') } : {}),
     },
+    wavelengthGiven: numbers.has('--wavelength-nm'),
     summary: {
       ...(thresholdsArcsec !== undefined ? { thresholdsArcsec } : {}),
       ...(replicates !== undefined ? { bootstrapReplicates: replicates } : {}),

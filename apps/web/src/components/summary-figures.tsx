@@ -29,7 +29,11 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
           <Figure
             label="Median seeing"
             value={formatArcsec(summary.seeing.median)}
-            detail={`95 % interval ${formatArcsec(summary.seeing.medianCi95[0])} – ${formatArcsec(summary.seeing.medianCi95[1])}`}
+            detail={
+              summary.seeing.medianCi95 === null
+                ? (summary.interval.reason ?? "no interval")
+                : `95 % interval ${formatArcsec(summary.seeing.medianCi95[0])} – ${formatArcsec(summary.seeing.medianCi95[1])}${summary.interval.status === "approximate" ? " (approximate: few nights)" : ""}`
+            }
           />
           <Figure label="Quartiles" value={`${formatArcsec(summary.seeing.p25)} – ${formatArcsec(summary.seeing.p75)}`} detail="25th to 75th percentile" />
           <Figure label="Median Fried parameter r0" value={`${formatNumber(summary.r0.median, 1)} cm`} detail={`quartiles ${formatNumber(summary.r0.p25, 1)} – ${formatNumber(summary.r0.p75, 1)} cm`} />

@@ -124,6 +124,28 @@ describe('analyzer on the sample logs', () => {
     expect(report.samples.rejectedByReason.sun_above_limit).toBeGreaterThan(100);
     expect(report.warnings.find((warning) => warning.code === 'longitude_sign')?.message).toMatch(/check the sign of the longitude \(east positive\)/);
   });
+  it('leaves out anisotropic samples under their own reason, and keeps them with --keep-anisotropic', () => {
+    // Two invented nights of variance samples, D 60 mm, B 200 mm. Isotropic rows have σt² = 0.7268 σl² (Tokovinin
+    // 2002 Z-tilt K_t/K_l at b = 3.333, seeing-physics.md §9 #6), so both axes give the same seeing. On the second
+    // night the wind shakes the monitor: σt² = 3 σl², the axes differ by (3 / 0.7268)^(3/5) = 2.34 > 1.3.
+    const folder = mkdtempSync(join(tmpdir(), 'calmcrest-analyzer-'));
+    const path = join(folder, 'wind-shaken.csv');
+    const rows = ['time_utc,var_long_arcsec2,var_trans_arcsec2,zenith_deg'];
+    for (let minute = 0; minute < 30; minute += 1) rows.push(`2025-05-01T02:${String(minute).padStart(2, '0')}:00Z,0.1000,0.07268,10`);
+    for (let minute = 0; minute < 40; minute += 1) rows.push(`2025-05-02T02:${String(minute).padStart(2, '0')}:00Z,0.3000,0.9000,10`);
+    writeFileSync(path, `${rows.join('\n')}\n`);
+    const report = analyzeJson(path, '--aperture-mm', '60', '--baseline-mm', '200');
+    expect(report.samples).toMatchObject({ read: 70, accepted: 30, rejected: 40 });
+    expect(report.samples.rejectedByReason).toEqual({ anisotropic: 40 });
+    expect(report.nights).toBe(1);
+    const kept = analyzeJson(path, '--aperture-mm', '60', '--baseline-mm', '200', '--keep-anisotropic');
+    expect(kept.samples).toMatchObject({ read: 70, accepted: 70, rejected: 0 });
+    // the shaken night, the longer one, moves the median: its samples are far worse than the calm night's
+    expect(kept.seeing.median).toBeGreaterThan(report.seeing.median * 1.5);
+    const text = analyze(path, '--aperture-mm', '60', '--baseline-mm', '200').stdout;
+    expect(text).toMatch(/anisotropic samples left out/);
+    expect(text).toMatch(/^  anisotropic +40$/m);
+  });
   it('with --json prints exactly one JSON document through the npm script', () => {
     const result = spawnSync('npm', ['run', '--silent', 'analyze', '--', sample('r0-cm.csv'), '--json'], { cwd: repoRoot, encoding: 'utf8' });
     expect(result.status, result.stderr).toBe(0);

@@ -27,12 +27,13 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
   const filterWords = [`zenith ≤ ${report.filters.maxZenithDeg}°`];
   filterWords.push(report.filters.nightFilter ? `sun ≤ ${report.filters.sunMaxDeg}°` : 'no night filter (give --site-lat and --site-lon)');
   if (report.filters.minFlux !== null) filterWords.push(`flux ≥ ${report.filters.minFlux}`);
+  filterWords.push(report.filters.leaveOutAnisotropic === false ? 'anisotropic samples kept (flagged)' : 'anisotropic samples left out');
   lines.push(`Filters: ${filterWords.join(', ')}`);
   lines.push('');
   lines.push(`Rows read ${samples.read}: accepted ${samples.accepted}, rejected ${samples.rejected}`);
   const reasons = Object.entries(samples.rejectedByReason).sort((left, right) => right[1] - left[1]);
   for (const [reason, count] of reasons) lines.push(`  ${reason.padEnd(16)} ${String(count).padStart(8)}`);
-  if (samples.anisotropic > 0) lines.push(`  (${samples.anisotropic} accepted samples flagged anisotropic: their two axes disagree)`);
+  if (samples.anisotropic > 0) lines.push(`  (${samples.anisotropic} accepted samples flagged anisotropic, kept by --keep-anisotropic: their two axes disagree)`);
   if (samples.exposureCorrected + samples.exposureNotCorrectedNoisy > 0) {
     lines.push(`Exposure time: ${samples.exposureCorrected} accepted samples extrapolated to zero exposure from the τ and 2τ variances (ε(τ)^1.75 ε(2τ)^-0.75, Tokovinin 2002)`);
     lines.push(`  ${samples.exposureNotCorrectedNoisy} accepted samples left uncorrected as noise-dominated (ε(2τ) > ε(τ) on an axis)`);

@@ -37,6 +37,13 @@ describe('analyzer arguments', () => {
     expect(parsed.options.monitor).toEqual({ wavelengthNm: 500, response: 'z-tilt' });
     expect(parsed.options.site).toBeUndefined();
     expect(parsed.options.mapping).toBeUndefined();
+    expect(parsed.options.filters).toEqual({});
+    expect(parsed.options.wavelengthGiven).toBe(false);
+  });
+  it('switch the anisotropy filter off with --keep-anisotropic and note a given wavelength', () => {
+    const parsed = parseArguments(['log.csv', '--keep-anisotropic', '--wavelength-nm', '500']);
+    expect(parsed.options.filters).toEqual({ leaveOutAnisotropic: false });
+    expect(parsed.options.wavelengthGiven).toBe(true);
   });
   it('refuse what they cannot use, saying what is wrong', () => {
     expect(() => parseArguments(['log.csv', '--pixel-scale'])).toThrow(new UsageError('Unknown flag --pixel-scale. Run with --help for the list of flags.'));

@@ -38,6 +38,7 @@ Filters
   --sun-max-deg DEG          drop samples with the sun above this altitude (default -18)
   --max-zenith-deg DEG       drop samples farther than this from the zenith (default 60)
   --min-flux F               drop samples with a flux below F
+  --keep-anisotropic         keep samples whose two axes disagree beyond the set ratio (left out by default)
 Statistics
   --thresholds A,B,C         seeing thresholds for the "fraction below" lines (default 0.6,0.8,1.0)
   --replicates N             night-bootstrap replicates (default 1000)
@@ -87,6 +88,7 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
   let help = false;
   let response: ResponseSet = 'z-tilt';
   let thresholdsArcsec: number[] | undefined;
+  let keepAnisotropic = false;
   for (let index = 0; index < argv.length; index += 1) {
     const argument = argv[index] ?? '';
     const equals = argument.startsWith('--') ? argument.indexOf('=') : -1;
@@ -99,6 +101,7 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       return argv[index];
     };
     if (flag === '--json') json = true;
+    else if (flag === '--keep-anisotropic') keepAnisotropic = true;
     else if (flag === '--help' || flag === '-h') help = true;
     else if (NUMBER_FLAGS.has(flag)) numbers.set(flag, readNumberFlag(flag, takeValue()));
     else if (flag === '--response') {
@@ -156,6 +159,7 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       ...(numbers.has('--sun-max-deg') ? { sunMaxDeg: numbers.get('--sun-max-deg') } : {}),
       ...(numbers.has('--max-zenith-deg') ? { maxZenithDeg: numbers.get('--max-zenith-deg') } : {}),
       ...(numbers.has('--min-flux') ? { minFlux: numbers.get('--min-flux') } : {}),
+      ...(keepAnisotropic ? { leaveOutAnisotropic: false } : {}),
     },
     wavelengthGiven: numbers.has('--wavelength-nm'),
     summary: {

@@ -23,6 +23,7 @@ export const REJECT_REASONS = [
   "zenith_limit",
   "sun_above_limit",
   "low_flux",
+  "anisotropic",
   "excluded_window",
 ] as const;
 export type RejectReasonName = (typeof REJECT_REASONS)[number];

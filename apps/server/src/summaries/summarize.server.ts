@@ -37,7 +37,7 @@ export interface SelectedSamples {
 }
 
 /** Why a stored sample is left out of a summary, as counted in `samples.rejectedByReason`. */
-const REJECTION_REASONS = ["excluded_window", "zenith_limit", "sun_above_limit", "low_flux"] as const;
+const REJECTION_REASONS = ["excluded_window", "zenith_limit", "sun_above_limit", "low_flux", "anisotropic"] as const;
 const NO_REJECTION = 255;
 
 /** One campaign's part of a query: its stored samples in the time range, and which of them are accepted. */

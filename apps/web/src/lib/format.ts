@@ -50,6 +50,7 @@ const REASON_LABELS: Record<string, string> = {
   zenith_limit: "beyond zenith limit",
   sun_above_limit: "sun too high",
   low_flux: "flux too low",
+  anisotropic: "axes disagree (anisotropic)",
   excluded_window: "in an excluded window",
 };
 

@@ -33,7 +33,7 @@ export type RowRejectReason =
   | 'non_decimal_number'
   | 'non_physical'
   | 'implausible_seeing';
-export type FilterRejectReason = 'zenith_limit' | 'sun_above_limit' | 'low_flux';
+export type FilterRejectReason = 'zenith_limit' | 'sun_above_limit' | 'low_flux' | 'anisotropic';
 export type RejectReason = RowRejectReason | FilterRejectReason | 'duplicate_time' | 'excluded_window';
 
 export interface LogSample {

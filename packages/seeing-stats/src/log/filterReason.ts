@@ -7,18 +7,27 @@ export interface FilterSettings {
   sunMaxDeg: number;
   /** Samples with a known flux below this are dropped; null = no flux filter. */
   minFlux: number | null;
+  /**
+   * Leave out samples flagged anisotropic (their longitudinal and transverse estimates differ by more than the set
+   * ratio, as on a wind-shaken night); true when absent. Counted under the reason 'anisotropic'.
+   */
+  leaveOutAnisotropic?: boolean;
 }
 
-export const DEFAULT_FILTERS: FilterSettings = { maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null };
+export const DEFAULT_FILTERS: FilterSettings = { maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null, leaveOutAnisotropic: true };
 
 /**
- * The first filter a sample fails, in the order zenith limit, sun altitude, flux; null when it passes.
+ * The first filter a sample fails, in the order zenith limit, sun altitude, flux, anisotropy; null when it passes.
  * The sun filter applies only when the sample has a sun altitude (a site was given), the flux filter only
- * when the sample has a flux. Boundaries pass: zenith exactly at the limit, sun exactly at the limit, flux equal to the minimum.
+ * when the sample has a flux, the anisotropy filter only when the sample says whether it is anisotropic (the
+ * flag comes from variance inputs; a caller that does not know it leaves it out). Boundaries pass: zenith exactly
+ * at the limit, sun exactly at the limit, flux equal to the minimum.
+ * Example: filterReason({ zenithDeg: 20, sunAltDeg: -30, flux: null, anisotropic: true }, DEFAULT_FILTERS) → 'anisotropic'.
  */
-export function filterReason(sample: Pick<LogSample, 'zenithDeg' | 'sunAltDeg' | 'flux'>, filters: FilterSettings): FilterRejectReason | null {
+export function filterReason(sample: Pick<LogSample, 'zenithDeg' | 'sunAltDeg' | 'flux'> & { anisotropic?: boolean }, filters: FilterSettings): FilterRejectReason | null {
   if (sample.zenithDeg > filters.maxZenithDeg) return 'zenith_limit';
   if (sample.sunAltDeg !== null && sample.sunAltDeg > filters.sunMaxDeg) return 'sun_above_limit';
   if (filters.minFlux !== null && sample.flux !== null && sample.flux < filters.minFlux) return 'low_flux';
+  if (sample.anisotropic === true && filters.leaveOutAnisotropic !== false) return 'anisotropic';
   return null;
 }

@@ -33,7 +33,11 @@ export interface AnalyzerReport extends SeeingSummary {
     accepted: number;
     rejected: number;
     rejectedByReason: Record<string, number>;
-    /** Accepted samples whose longitudinal and transverse estimates disagree by more than the set ratio (kept, flagged). */
+    /**
+     * Accepted samples whose longitudinal and transverse estimates disagree by more than the set ratio: 0 unless
+     * the anisotropy filter is off (--keep-anisotropic), which keeps them flagged; otherwise they are counted in
+     * rejectedByReason.anisotropic.
+     */
     anisotropic: number;
     /** Accepted samples extrapolated to zero exposure from interlaced exposures (0 without 2x variance columns). */
     exposureCorrected: number;
@@ -51,7 +55,7 @@ export interface AnalyzerReport extends SeeingSummary {
 }
 
 const MAX_LISTED_REJECTIONS = 100;
-const FILTER_CODES: readonly FilterRejectReason[] = ['zenith_limit', 'sun_above_limit', 'low_flux'];
+const FILTER_CODES: readonly FilterRejectReason[] = ['zenith_limit', 'sun_above_limit', 'low_flux', 'anisotropic'];
 const DUPLICATE_CODE = 255;
 /** GrowableColumns.exposure codes: index 0 = no interlaced columns. */
 const EXPOSURE_CODES: readonly (ExposureCorrection | null)[] = [null, 'applied', 'not_applied_noisy'];
@@ -209,6 +213,8 @@ function describeLateRejection(reason: RejectReason, timeMs: number, filters: Fi
       return `sun above ${filters.sunMaxDeg}° at the site`;
     case 'low_flux':
       return `flux below the minimum ${String(filters.minFlux)}`;
+    case 'anisotropic':
+      return 'longitudinal and transverse seeing disagree beyond the set ratio (anisotropic; keep such samples with --keep-anisotropic)';
     default:
       return reason;
   }

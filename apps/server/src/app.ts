@@ -4,6 +4,7 @@ import { fileURLToPath } from "node:url";
 import express, { type Express } from "express";
 import type { AppContext } from "./context";
 import { apiNotFoundHandler, errorHandler } from "./http/errors";
+import { securityHeaders } from "./http/security-headers";
 import { loadSession, originCheck } from "./http/session";
 import { apiRouters } from "./routes/index";
 
@@ -13,10 +14,11 @@ export function createApp(context: AppContext): Express {
   const app = express();
   app.disable("x-powered-by");
   app.set("trust proxy", "loopback");
+  app.use(securityHeaders(context.env));
 
   const api = express.Router();
   api.use(express.json({ limit: "1mb" }));
-  api.use(originCheck);
+  api.use(originCheck(context.env.allowedOrigins));
   api.use(loadSession(context.lucia));
   for (const routes of apiRouters(context)) api.use(routes.mount, routes.router);
   api.use(apiNotFoundHandler);

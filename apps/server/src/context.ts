@@ -1,5 +1,6 @@
 import type { AppDatabase } from "./db/database.server";
 import type { AppLucia } from "./auth/lucia.server";
+import type { SessionAdapter } from "./auth/session-adapter.server";
 import type { Env } from "./env.server";
 import type { IngestQueue } from "./ingest/ingest-queue.server";
 import type { Store } from "./store/index";
@@ -10,6 +11,8 @@ export interface AppContext {
   env: Env;
   db: AppDatabase;
   lucia: AppLucia;
+  /** Lucia's session storage (deferred writes while an ingest holds the write lock). */
+  sessionStore: SessionAdapter;
   /** Every query and write of the application tables (routes -> store -> engine). */
   store: Store;
   /** Background ingest of stored uploads, one at a time. */

@@ -5,11 +5,24 @@ import { z } from "zod";
 const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   PORT: z.coerce.number().int().min(1).max(65535).default(4173),
-  HOST: z.string().default("0.0.0.0"),
+  /** Loopback by default: a demo server is not reachable from the network unless someone says so. */
+  HOST: z.string().min(1).default("127.0.0.1"),
+  /**
+   * The address people open Calmcrest at (scheme, host and port), e.g. https://calmcrest.example.org. State-changing
+   * requests must carry exactly this Origin. Unset: the local address http://localhost:PORT (127.0.0.1 and [::1] too).
+   */
+  CALMCREST_PUBLIC_URL: z
+    .string()
+    .url("CALMCREST_PUBLIC_URL must be a full address such as https://calmcrest.example.org")
+    .refine((value) => /^https?:\/\//i.test(value), "CALMCREST_PUBLIC_URL must start with http:// or https://")
+    .optional(),
   CALMCREST_DATA_DIR: z.string().min(1).default("./data"),
   DEMO_PASSWORD: z.string().min(8, "DEMO_PASSWORD must have at least 8 characters").default("calmcrest-demo"),
-  /** Skip the demo scenario's seeing logs (users are still seeded); used by fast tests. */
-  CALMCREST_SEED: z.enum(["full", "users", "none"]).default("full"),
+  /**
+   * What to seed into an empty database: `full` demo scenario, `users` demo users only, `none`. Unset, the demo
+   * scenario is seeded only when the server listens on loopback (the demo users have a published password).
+   */
+  CALMCREST_SEED: z.enum(["full", "users", "none"]).optional(),
   /** Optional online map tiles, e.g. https://tiles.example.org/{z}/{x}/{y}.png. Off by default: the app ships its own outlines. */
   CALMCREST_TILE_URL: z.string().url().optional(),
   CALMCREST_TILE_ATTRIBUTION: z.string().optional(),
@@ -17,7 +30,37 @@ const envSchema = z.object({
   CALMCREST_MAX_UPLOAD_MB: z.coerce.number().positive().default(256),
 });
 
-export type Env = z.infer<typeof envSchema> & { dataDir: string; maxUploadBytes: number };
+type ParsedEnv = z.infer<typeof envSchema>;
+
+export type Env = Omit<ParsedEnv, "CALMCREST_SEED"> & {
+  dataDir: string;
+  maxUploadBytes: number;
+  /** The seed mode in force (explicit, or derived from HOST when CALMCREST_SEED is unset). */
+  CALMCREST_SEED: "full" | "users" | "none";
+  /** Whether CALMCREST_SEED was set explicitly. */
+  seedExplicit: boolean;
+  /** Whether HOST is a loopback address (only this machine can connect). */
+  listensOnLoopback: boolean;
+  /** The origins (scheme://host:port) state-changing requests may come from. */
+  allowedOrigins: string[];
+  /** The configured public origin, or null when the local default is in use. */
+  publicOrigin: string | null;
+};
+
+/** True for addresses only this machine can reach: 127.0.0.0/8, ::1 and the name localhost. */
+export function isLoopbackHost(host: string): boolean {
+  const bare = host.replace(/^\[|\]$/g, "").toLowerCase();
+  return bare === "localhost" || bare === "::1" || /^127(\.\d{1,3}){3}$/.test(bare) || bare === "::ffff:127.0.0.1";
+}
+
+/** The origins a Calmcrest page may have: the configured public origin, or the loopback names of this port. */
+function originsFor(publicUrl: string | undefined, port: number): { allowedOrigins: string[]; publicOrigin: string | null } {
+  if (publicUrl) {
+    const origin = new URL(publicUrl).origin;
+    return { allowedOrigins: [origin], publicOrigin: origin };
+  }
+  return { allowedOrigins: ["localhost", "127.0.0.1", "[::1]"].map((host) => `http://${host}:${port}`), publicOrigin: null };
+}
 
 export function parseEnv(source: Record<string, string | undefined> = process.env): Env {
   const parsed = envSchema.safeParse(source);
@@ -26,9 +69,14 @@ export function parseEnv(source: Record<string, string | undefined> = process.en
     throw new Error(`Calmcrest cannot start: the environment has invalid settings:\n${lines.join("\n")}`);
   }
   const env = parsed.data;
+  const listensOnLoopback = isLoopbackHost(env.HOST);
   return {
     ...env,
     dataDir: resolve(env.CALMCREST_DATA_DIR),
     maxUploadBytes: Math.round(env.CALMCREST_MAX_UPLOAD_MB * 1024 * 1024),
+    CALMCREST_SEED: env.CALMCREST_SEED ?? (listensOnLoopback ? "full" : "none"),
+    seedExplicit: env.CALMCREST_SEED !== undefined,
+    listensOnLoopback,
+    ...originsFor(env.CALMCREST_PUBLIC_URL, env.PORT),
   };
 }

@@ -6,7 +6,7 @@ try {
   const env = parseEnv();
   const context = await createContext(env);
   const server = await listen(context);
-  console.log(`Calmcrest is serving at http://localhost:${env.PORT} (data in ${env.dataDir})`);
+  console.log(`Calmcrest is serving at ${env.publicOrigin ?? `http://localhost:${env.PORT}`} (listening on ${env.HOST}:${env.PORT}, data in ${env.dataDir})`);
   const stop = () => {
     server.close();
     void context.close().then(() => process.exit(0));

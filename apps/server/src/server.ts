@@ -1,11 +1,13 @@
 import type { Server } from "node:http";
 import { createApp } from "./app";
 import { createLucia } from "./auth/lucia.server";
+import { prepareSignInCheck } from "./auth/passwords.server";
+import { SessionAdapter } from "./auth/session-adapter.server";
 import type { AppContext } from "./context";
 import { openDatabase } from "./db/database.server";
 import type { Env } from "./env.server";
 import { IngestQueue, recoverUploads } from "./ingest/ingest-queue.server";
-import { seedIfEmpty } from "./seed/index";
+import { seedIfEmpty, warnAboutReachableDemo } from "./seed/index";
 import { createStore, WriteGate } from "./store/index";
 import { SampleCache } from "./summaries/sample-cache.server";
 
@@ -22,27 +24,35 @@ export const startupSteps: ((context: AppContext) => Promise<void>)[] = [
 /** Opens the database (migrating it), seeds an empty one, and returns the context the app runs on. */
 export async function createContext(env: Env): Promise<AppContext> {
   const db = await openDatabase(env.dataDir);
-  const lucia = createLucia(db.sqlite, { secureCookies: env.NODE_ENV === "production" });
   const samples = new SampleCache(db.sqlite);
   const gate = new WriteGate();
   const store = createStore(db, samples, gate);
   let closing: Promise<void> | undefined;
   const ingest = new IngestQueue(store, gate, { dbFile: db.file, dataDir: env.dataDir, allowTestHooks: env.NODE_ENV === "test" });
+  // Session writes never wait on the main thread for an ingest's write lock; deferred ones land through the write gate.
+  const sessionStore = new SessionAdapter(db.file, (write) => gate.withSlot(write));
+  const lucia = createLucia(sessionStore, { secureCookies: env.NODE_ENV === "production" });
   const context: AppContext = {
     env,
     db,
     lucia,
+    sessionStore,
     store,
     ingest,
     samples,
     close: () => {
       // Idempotent: a test may close a context early (a simulated restart) and again in afterAll.
-      closing ??= ingest.stop().then(() => db.close());
+      closing ??= ingest.stop().then(() => {
+        sessionStore.close();
+        return db.close();
+      });
       return closing;
     },
   };
   for (const step of startupSteps) await step(context);
+  await prepareSignInCheck();
   await seedIfEmpty(context);
+  await warnAboutReachableDemo(context);
   return context;
 }
 

@@ -11,14 +11,25 @@ import { parseEnv } from "./env.server";
 import { createContext } from "./server";
 
 export const DEMO_PASSWORD_FOR_TESTS = "test-password-1";
+/** The public address test servers are configured with (CALMCREST_PUBLIC_URL). */
+export const TEST_PUBLIC_URL = "http://calmcrest.test";
 /** Headers of a request made by a Calmcrest page served from this server: pass to `.set()` on every POST/PATCH/DELETE. */
-export const SAME_ORIGIN = { Origin: "http://calmcrest.test", Host: "calmcrest.test" } as const;
+export const SAME_ORIGIN = { Origin: TEST_PUBLIC_URL, Host: "calmcrest.test" } as const;
 
 /**
  * A fresh server on a fresh temporary data directory, with the demo users (and, if asked, the demo scenario).
  * Removed after the test file. Never touches ./data.
  */
-export async function createTestServer(options: { seed?: "users" | "full" | "none"; env?: Record<string, string>; dataDir?: string } = {}) {
+export async function createTestServer(
+  options: {
+    /** null leaves CALMCREST_SEED unset (the default rule by HOST). */
+    seed?: "users" | "full" | "none" | null;
+    /** null leaves CALMCREST_PUBLIC_URL unset (the local default); otherwise TEST_PUBLIC_URL unless given. */
+    publicUrl?: string | null;
+    env?: Record<string, string>;
+    dataDir?: string;
+  } = {},
+) {
   // A given dataDir reopens an existing data directory (a restart); its first owner removes it.
   const ownsDataDir = options.dataDir === undefined;
   const dataDir = options.dataDir ?? mkdtempSync(join(tmpdir(), "calmcrest-test-"));
@@ -26,7 +37,8 @@ export async function createTestServer(options: { seed?: "users" | "full" | "non
     NODE_ENV: "test",
     CALMCREST_DATA_DIR: dataDir,
     DEMO_PASSWORD: DEMO_PASSWORD_FOR_TESTS,
-    CALMCREST_SEED: options.seed ?? "users",
+    ...(options.seed === null ? {} : { CALMCREST_SEED: options.seed ?? "users" }),
+    ...(options.publicUrl === null ? {} : { CALMCREST_PUBLIC_URL: options.publicUrl ?? TEST_PUBLIC_URL }),
     ...options.env,
   });
   const context: AppContext = await createContext(env);

@@ -1,7 +1,7 @@
 import type { RequestHandler } from "express";
-import { verifyRequestOrigin, type Session, type User } from "lucia";
+import type { Session, User } from "lucia";
 import type { Role } from "@calmcrest/contracts";
-import type { AppLucia } from "../auth/lucia.server";
+import { sessionIdOf, type AppLucia } from "../auth/lucia.server";
 import { HttpError } from "./errors";
 
 declare global {
@@ -16,36 +16,54 @@ declare global {
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
-/**
- * Rejects state-changing requests whose Origin is not this server (cross-site request forgery guard).
- * Browsers send Origin on every POST/PATCH/DELETE made by fetch, so a missing header is rejected too.
- */
-export const originCheck: RequestHandler = (req, _res, next) => {
-  if (SAFE_METHODS.has(req.method)) return next();
-  const origin = req.headers.origin;
-  const host = req.headers.host;
-  if (!origin || !host || !verifyRequestOrigin(origin, [host])) {
-    return next(
-      new HttpError(
-        403,
-        "bad_origin",
-        "This request did not come from a Calmcrest page on this server (its Origin header is missing or belongs to another site). Reload Calmcrest and try again.",
-      ),
-    );
+/** The origin (scheme://host:port, lower case, default port dropped) of an Origin header, or null if it is not one. */
+function originOf(header: string): string | null {
+  try {
+    const url = new URL(header);
+    return url.protocol === "http:" || url.protocol === "https:" ? url.origin : null;
+  } catch {
+    return null;
   }
-  next();
-};
+}
 
-/** Reads the session cookie, validates it, refreshes it when Lucia says so, and puts user/session in res.locals. */
+/**
+ * Rejects state-changing requests whose Origin is not the configured public origin of Calmcrest (cross-site request
+ * forgery guard). Scheme, host and port are compared with CALMCREST_PUBLIC_URL (or the local address), never with
+ * the request's own Host header, which the sender chooses. Browsers send Origin on every POST/PATCH/DELETE made by
+ * fetch, so a missing header is rejected too.
+ */
+export function originCheck(allowedOrigins: readonly string[]): RequestHandler {
+  const allowed = new Set(allowedOrigins.map((origin) => originOf(origin) ?? origin));
+  return (req, _res, next) => {
+    if (SAFE_METHODS.has(req.method)) return next();
+    const header = req.headers.origin;
+    const origin = header ? originOf(header) : null;
+    if (!origin || !allowed.has(origin)) {
+      return next(
+        new HttpError(
+          403,
+          "bad_origin",
+          "This request did not come from a Calmcrest page on this server (its Origin header is missing or belongs to another site). Reload Calmcrest and try again. Administrators: CALMCREST_PUBLIC_URL must be the address people open Calmcrest at.",
+        ),
+      );
+    }
+    next();
+  };
+}
+
+/**
+ * Reads the session cookie (a token), validates the session stored under the token's hash, refreshes it when
+ * Lucia says so (never waiting for SQLite's write lock: see SessionAdapter), and puts user/session in res.locals.
+ */
 export function loadSession(lucia: AppLucia): RequestHandler {
   return async (req, res, next) => {
     res.locals.user = null;
     res.locals.session = null;
-    const sessionId = lucia.readSessionCookie(req.headers.cookie ?? "");
-    if (!sessionId) return next();
+    const token = lucia.readSessionCookie(req.headers.cookie ?? "");
+    if (!token) return next();
     try {
-      const { session, user } = await lucia.validateSession(sessionId);
-      if (session?.fresh) res.append("Set-Cookie", lucia.createSessionCookie(session.id).serialize());
+      const { session, user } = await lucia.validateSession(sessionIdOf(token));
+      if (session?.fresh) res.append("Set-Cookie", lucia.createSessionCookie(token).serialize());
       if (!session) res.append("Set-Cookie", lucia.createBlankSessionCookie().serialize());
       res.locals.user = user;
       res.locals.session = session;

@@ -1,0 +1,128 @@
+import Database from "better-sqlite3";
+import request from "supertest";
+import { describe, expect, it, vi } from "vitest";
+import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createTestServer } from "../test-support";
+import { sessionIdOf } from "./lucia.server";
+import { argon2 } from "./passwords.server";
+
+const { app, context } = await createTestServer();
+
+/** The token in a response's calmcrest_session cookie. */
+function cookieToken(response: request.Response): string {
+  const match = /calmcrest_session=([^;]+)/.exec(String(response.headers["set-cookie"]));
+  if (!match?.[1]) throw new Error(`no session cookie in ${String(response.headers["set-cookie"])}`);
+  return match[1];
+}
+
+async function signIn(role = "lead") {
+  const response = await request(app).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: `${role}@calmcrest.test`, password: DEMO_PASSWORD_FOR_TESTS });
+  expect(response.status).toBe(200);
+  return cookieToken(response);
+}
+
+const DAY_S = 24 * 60 * 60;
+
+describe("session ids are stored hashed", () => {
+  it("keeps only the SHA-256 of the cookie's token in the session table", async () => {
+    const token = await signIn();
+    const rows = await context.db.knex("session").select<{ id: string }[]>("id");
+    const ids = rows.map((row) => row.id);
+    expect(ids).not.toContain(token);
+    expect(ids.some((id) => id.includes(token))).toBe(false);
+    expect(ids).toContain(sessionIdOf(token));
+    // SHA-256 of "abc" (FIPS 180-2, appendix B.1).
+    expect(sessionIdOf("abc")).toBe("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+  });
+
+  it("does not accept a stored id as a cookie (a copy of the database signs nobody in)", async () => {
+    const token = await signIn();
+    const stolen = sessionIdOf(token);
+    const response = await request(app).get("/api/me").set("Cookie", `calmcrest_session=${stolen}`);
+    expect(response.status).toBe(401);
+    const ok = await request(app).get("/api/me").set("Cookie", `calmcrest_session=${token}`);
+    expect(ok.status).toBe(200);
+  });
+});
+
+describe("sign-in with an unknown e-mail", () => {
+  it("runs one Argon2 verification, as a wrong password does", async () => {
+    const verify = vi.spyOn(argon2, "verify");
+    const unknown = await request(app).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "nobody@calmcrest.test", password: "wrong-password" });
+    expect(unknown.status).toBe(401);
+    expect(verify).toHaveBeenCalledTimes(1);
+    const wrong = await request(app).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "lead@calmcrest.test", password: "wrong-password" });
+    expect(wrong.status).toBe(401);
+    expect(verify).toHaveBeenCalledTimes(2);
+    // The unknown e-mail was checked against a real Argon2id hash (the dummy), not skipped.
+    expect(String(verify.mock.calls[0]?.[0])).toMatch(/^\$argon2id\$/);
+    expect(unknown.body).toEqual(wrong.body);
+  });
+});
+
+describe("session refresh and sign-in while another connection holds the write lock", () => {
+  it("answer at once, and the refresh and the new session land once the lock is free", async () => {
+    const token = await signIn("engineer");
+    const id = sessionIdOf(token);
+    // A session 8 days old (of 14): past half its life, so Lucia refreshes it on the next request.
+    const staleExpiresS = Math.floor(Date.now() / 1000) + 6 * DAY_S;
+    await context.db.knex("session").where({ id }).update({ expires_at: staleExpiresS });
+
+    // Like an ingest: another connection holds SQLite's write lock in an open transaction.
+    const holder = new Database(context.db.file);
+    holder.pragma("busy_timeout = 5000");
+    holder.exec("BEGIN IMMEDIATE");
+    holder.prepare("UPDATE upload SET error = error WHERE 0").run();
+    try {
+      const startedMs = performance.now();
+      const me = await request(app).get("/api/me").set("Cookie", `calmcrest_session=${token}`);
+      const refreshMs = performance.now() - startedMs;
+      expect(me.status).toBe(200);
+      // The refreshed cookie is sent at once, with the same token.
+      expect(cookieToken(me)).toBe(token);
+      expect(refreshMs).toBeLessThan(1000);
+
+      const signInStartedMs = performance.now();
+      const otherToken = await signIn("committee");
+      expect(performance.now() - signInStartedMs).toBeLessThan(1000);
+      // The new session works before it is in the database.
+      expect((await request(app).get("/api/me").set("Cookie", `calmcrest_session=${otherToken}`)).status).toBe(200);
+
+      expect(context.sessionStore.pendingWrites()).toBe(2);
+      const stored = holder.prepare("SELECT expires_at FROM session WHERE id = ?").get(id) as { expires_at: number };
+      expect(stored.expires_at).toBe(staleExpiresS);
+      expect(holder.prepare("SELECT count(*) AS n FROM session WHERE id = ?").get(sessionIdOf(otherToken))).toEqual({ n: 0 });
+    } finally {
+      holder.exec("COMMIT");
+      holder.close();
+    }
+    await context.sessionStore.settled();
+    expect(context.sessionStore.pendingWrites()).toBe(0);
+    const refreshed = await context.db.knex("session").where({ id }).first<{ expires_at: number }>();
+    expect(refreshed.expires_at).toBeGreaterThan(staleExpiresS + 7 * DAY_S);
+  });
+
+  it("queue behind a running ingest and land when it commits, while requests keep answering", async () => {
+    const token = await signIn("admin");
+    const id = sessionIdOf(token);
+    const staleExpiresS = Math.floor(Date.now() / 1000) + 5 * DAY_S;
+    await context.db.knex("session").where({ id }).update({ expires_at: staleExpiresS });
+    // A sign-out while the write slot is taken by an ingest: acquireWriteSlot is what an ingest's turn looks like
+    // from the main thread; here the slot is held by a "writer" for 300 ms.
+    const release = await context.ingest.acquireWriteSlot();
+    const holder = new Database(context.db.file);
+    holder.exec("BEGIN IMMEDIATE");
+    setTimeout(() => {
+      holder.exec("COMMIT");
+      holder.close();
+      release();
+    }, 300);
+    const startedMs = performance.now();
+    const out = await request(app).post("/api/auth/sign-out").set(SAME_ORIGIN).set("Cookie", `calmcrest_session=${token}`).send({});
+    expect(out.status).toBe(200);
+    expect(performance.now() - startedMs).toBeLessThan(250);
+    // Signed out at once, although the delete is still pending.
+    expect((await request(app).get("/api/me").set("Cookie", `calmcrest_session=${token}`)).status).toBe(401);
+    await context.sessionStore.settled();
+    expect(await context.db.knex("session").where({ id }).first()).toBeUndefined();
+  });
+});

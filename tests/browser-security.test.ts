@@ -1,0 +1,88 @@
+import { createServer, type Server } from "node:http";
+import type { AddressInfo } from "node:net";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_PASSWORD, openBrowser, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
+
+// The built app under its content security policy in a real chromium: every screen loads with no CSP violation,
+// including map tiles from a configured tile host on another origin (a local stand-in tile server).
+let server: RunningServer;
+let browser: BrowserSession;
+let tiles: Server;
+let tileRequests = 0;
+
+// A 1×1 transparent PNG (the smallest valid PNG; common practice for placeholder tiles).
+const PNG = Buffer.from("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNkYPhfDwAChwGA60e6kgAAAABJRU5ErkJggg==", "base64");
+
+beforeAll(async () => {
+  tiles = createServer((_req, res) => {
+    tileRequests += 1;
+    res.writeHead(200, { "Content-Type": "image/png" }).end(PNG);
+  });
+  await new Promise<void>((resolve) => tiles.listen(0, "127.0.0.1", resolve));
+  const tilePort = (tiles.address() as AddressInfo).port;
+  server = await startServer({ seed: "users", env: { CALMCREST_TILE_URL: `http://127.0.0.1:${tilePort}/{z}/{x}/{y}.png`, CALMCREST_TILE_ATTRIBUTION: "Test tiles" } });
+  browser = await openBrowser();
+  // Every CSP violation the page reports, whether or not chromium also logs it.
+  await browser.context.addInitScript(() => {
+    const violations: string[] = [];
+    Object.assign(window, { cspViolations: violations });
+    document.addEventListener("securitypolicyviolation", (event) => violations.push(`${event.violatedDirective} ${event.blockedURI}`));
+  });
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+  await new Promise((resolve) => tiles?.close(resolve));
+});
+
+async function violations(): Promise<string[]> {
+  return browser.page.evaluate(() => (window as unknown as { cspViolations?: string[] }).cspViolations ?? []);
+}
+
+describe("the built app under its content security policy", () => {
+  it("is served with a CSP that allows no inline script", async () => {
+    const response = await fetch(`${server.url}/sign-in`);
+    const csp = response.headers.get("content-security-policy") ?? "";
+    expect(csp).toMatch(/script-src 'self'(;|$)/);
+    expect(csp).not.toMatch(/unsafe-inline|unsafe-eval/);
+    expect(csp).toMatch(/frame-ancestors 'none'/);
+    const html = await response.text();
+    // The built page has no inline script for the policy to block.
+    expect(html).not.toMatch(/<script(?![^>]*\bsrc=)[^>]*>/);
+  });
+
+  it("loads sign-in, the map with tiles from the configured host, and a site page with no CSP violation", async () => {
+    const { page } = browser;
+    const signInAnswer = await fetch(`${server.url}/api/auth/sign-in`, {
+      method: "POST",
+      headers: { "Content-Type": "application/json", Origin: server.url },
+      body: JSON.stringify({ email: "lead@calmcrest.test", password: DEMO_PASSWORD }),
+    });
+    const cookie = (signInAnswer.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
+    const created = await fetch(`${server.url}/api/sites`, {
+      method: "POST",
+      headers: { "Content-Type": "application/json", Origin: server.url, Cookie: cookie },
+      body: JSON.stringify({ name: "Policy Knoll", latitude: -24.6, longitude: -70.4, elevationM: 2900 }),
+    });
+    expect(created.status).toBe(201);
+    const site = (await created.json()) as { id: number };
+
+    await signIn(page, server.url, "lead");
+    await page.goto(`${server.url}/sites`);
+    await page.locator(".leaflet-container").first().waitFor();
+    await expect.poll(() => tileRequests, { timeout: 15_000 }).toBeGreaterThan(0);
+    await expect.poll(() => page.locator("img.leaflet-tile-loaded").count(), { timeout: 15_000 }).toBeGreaterThan(0);
+    await screenshot(page, "security-map-with-tiles");
+    expect(await violations()).toEqual([]);
+
+    await page.goto(`${server.url}/sites/${site.id}`);
+    await page.getByRole("heading", { level: 1 }).waitFor();
+    await page.waitForLoadState("networkidle");
+    expect(await violations()).toEqual([]);
+  });
+
+  it("saw no page errors or console errors (CSP violations are console errors in chromium)", () => {
+    expect(browser.problems).toEqual([]);
+  });
+});

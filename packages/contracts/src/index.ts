@@ -8,3 +8,4 @@ export * from "./summaries";
 export * from "./users";
 export * from "./samples";
 export * from "./config";
+export * from "./csv";

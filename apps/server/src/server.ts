@@ -7,12 +7,17 @@ import type { AppContext } from "./context";
 import { openDatabase } from "./db/database.server";
 import type { Env } from "./env.server";
 import { IngestQueue, recoverUploads } from "./ingest/ingest-queue.server";
+import { cleanLeftovers, describeLeftovers } from "./uploads/leftovers.server";
 import { seedIfEmpty, warnAboutReachableDemo } from "./seed/index";
 import { createStore, WriteGate } from "./store/index";
 import { SampleCache } from "./summaries/sample-cache.server";
 
 // Start-up hooks other areas register (for example: mark uploads left half-done by a dead process).
 export const startupSteps: ((context: AppContext) => Promise<void>)[] = [
+  async ({ store, env }) => {
+    const cleaned = describeLeftovers(await cleanLeftovers(store, env.dataDir));
+    if (cleaned) console.log(cleaned);
+  },
   async ({ store, ingest }) => {
     const { interrupted, requeued } = await recoverUploads(store, ingest);
     if (interrupted + requeued > 0) {

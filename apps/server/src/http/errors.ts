@@ -51,7 +51,37 @@ export const apiNotFoundHandler: RequestHandler = (req, res) => {
   res.status(404).json(errorBody("not_found", `There is no API route ${req.method} ${req.originalUrl}. Check the address.`));
 };
 
+const CUT_OFF = "The upload ended before its form did: the transfer was cut off or the request body is incomplete. Nothing was stored; send the file again.";
+const BAD_PART_HEADER =
+  "A part header of the upload form is malformed (for example a NUL or another control character in the file name). Nothing was stored; rename the file to plain letters, digits, dots and dashes and send it again.";
+
+/** The multipart reader's (busboy's, through multer) errors: each is a fault of the request, not of the server. */
+const MULTIPART_PROBLEMS = new Map<string, string>([
+  ["Multipart: Boundary not found", "The request says multipart/form-data but names no boundary, so its parts cannot be found. Send the file as a multipart form (a browser or `curl -F file=@log.csv` does this); do not set the Content-Type header by hand."],
+  ["Unexpected end of form", CUT_OFF],
+  ["Unexpected end of file", CUT_OFF],
+  ["Request aborted", CUT_OFF],
+  ["Request closed", CUT_OFF],
+  ["Malformed part header", BAD_PART_HEADER],
+  ["Malformed content disposition", BAD_PART_HEADER],
+  ["Malformed content type", "The request's Content-Type header is malformed. Send the file as a multipart form (field \"file\")."],
+  ["Missing Content-Type", "The request has no Content-Type header. Send the file as a multipart form (field \"file\")."],
+  ["Malformed urlencoded form", "The request's form body is malformed. Send the file as a multipart form (field \"file\")."],
+]);
+
+/** A 400 for an error of the multipart reader, or null when `thrown` is something else. */
+export function multipartProblem(thrown: unknown): HttpError | null {
+  if (!(thrown instanceof Error) || thrown instanceof HttpError) return null;
+  const message = MULTIPART_PROBLEMS.get(thrown.message) ?? (thrown.message.startsWith("Unsupported content type:") ? "The request's Content-Type is not a form. Send the file as a multipart form (field \"file\")." : undefined);
+  return message ? new HttpError(400, "bad_upload", message) : null;
+}
+
 export const errorHandler: ErrorRequestHandler = (thrown, _req, res, _next) => {
+  const multipart = multipartProblem(thrown);
+  if (multipart) {
+    res.status(400).json(errorBody(multipart.code, multipart.message));
+    return;
+  }
   if (thrown instanceof HttpError) {
     res.status(thrown.status).json(errorBody(thrown.code, thrown.message, thrown.fields));
     return;

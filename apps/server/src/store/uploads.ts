@@ -91,6 +91,12 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
     duplicateOf,
 
     /** The upload, if the user may do `action` in its campaign; an upload of a campaign one cannot see does not exist for them (404). */
+    /** The sha256 of every upload (lower case): the raw files the data directory must keep. */
+    async storedSha256s(): Promise<Set<string>> {
+      const shas = await knex()("upload").distinct("sha256").pluck<string[]>("sha256");
+      return new Set(shas.map((sha) => sha.toLowerCase()));
+    },
+
     async forUser(user: User, uploadId: number, action: CampaignAction): Promise<UploadRow> {
       const row = await byId(uploadId);
       if (!row) throw notFound("That upload");

@@ -45,6 +45,15 @@ async function checkHeader(head: string, monitor: MonitorSettings, mapping: Colu
   }
 }
 
+/** True when `text` has a C0 control character (NUL, tab, newline, …) or DEL: never part of a real file name. */
+function hasControlCharacter(text: string): boolean {
+  for (let index = 0; index < text.length; index += 1) {
+    const code = text.charCodeAt(index);
+    if (code < 0x20 || code === 0x7f) return true;
+  }
+  return false;
+}
+
 export type AcceptResult = RecordResult;
 
 /**
@@ -60,6 +69,14 @@ export async function acceptUpload(
   const { campaign, file } = input;
   const { store } = context;
   try {
+    if (hasControlCharacter(input.fileName)) {
+      throw new HttpError(
+        400,
+        "bad_file_name",
+        "The file name contains a control character (for example NUL). Nothing was stored; rename the file to plain letters, digits, dots and dashes and send it again.",
+        { file: ["The file name contains a control character."] },
+      );
+    }
     // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
     let mapping: ColumnMapping;
     try {

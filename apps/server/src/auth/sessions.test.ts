@@ -1,7 +1,9 @@
 import Database from "better-sqlite3";
 import request from "supertest";
 import { describe, expect, it, vi } from "vitest";
-import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createTestServer } from "../test-support";
+import type { UploadStatus } from "@calmcrest/contracts";
+import { createSiteAndCampaign, postUpload, waitForUpload } from "../routes/test-helpers";
+import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createTestServer, signedInAgent } from "../test-support";
 import { sessionIdOf } from "./lucia.server";
 import { argon2 } from "./passwords.server";
 
@@ -101,28 +103,60 @@ describe("session refresh and sign-in while another connection holds the write l
     expect(refreshed.expires_at).toBeGreaterThan(staleExpiresS + 7 * DAY_S);
   });
 
-  it("queue behind a running ingest and land when it commits, while requests keep answering", async () => {
+  it("during a real ingest's write transaction: a stale session's request, a sign-in and a sign-out answer at once; the writes land after its commit", async () => {
+    const lead = await signedInAgent(app, "lead");
+    const { campaign } = await createSiteAndCampaign(lead);
     const token = await signIn("admin");
     const id = sessionIdOf(token);
+    const leaving = await signIn("engineer");
     const staleExpiresS = Math.floor(Date.now() / 1000) + 5 * DAY_S;
     await context.db.knex("session").where({ id }).update({ expires_at: staleExpiresS });
-    // A sign-out while the write slot is taken by an ingest: acquireWriteSlot is what an ingest's turn looks like
-    // from the main thread; here the slot is held by a "writer" for 300 ms.
-    const release = await context.ingest.acquireWriteSlot();
-    const holder = new Database(context.db.file);
-    holder.exec("BEGIN IMMEDIATE");
-    setTimeout(() => {
-      holder.exec("COMMIT");
-      holder.close();
-      release();
-    }, 300);
-    const startedMs = performance.now();
-    const out = await request(app).post("/api/auth/sign-out").set(SAME_ORIGIN).set("Cookie", `calmcrest_session=${token}`).send({});
-    expect(out.status).toBe(200);
-    expect(performance.now() - startedMs).toBeLessThan(250);
-    // Signed out at once, although the delete is still pending.
-    expect((await request(app).get("/api/me").set("Cookie", `calmcrest_session=${token}`)).status).toBe(401);
+
+    // The ingest sleeps inside its open write transaction (as a slow disk or a huge file would) for 3 s.
+    context.ingest.testHooks.pauseAfterSamples = { samples: 20, ms: 3000 };
+    const rows = Array.from({ length: 60 }, (_, index) => `${new Date(Date.UTC(2031, 0, 1, 3, index)).toISOString()},0.8,10`);
+    const uploadId = (await postUpload(lead, campaign.id, Buffer.from(["time_utc,seeing_arcsec,zenith_deg", ...rows, ""].join("\n")))).body.upload.id as number;
+    while (((await lead.get(`/api/uploads/${uploadId}`)).body as UploadStatus).status !== "ingesting") await new Promise((resolve) => setTimeout(resolve, 10));
+    // Wait until the worker holds the write lock: a probe's BEGIN IMMEDIATE then fails at once with SQLITE_BUSY.
+    const probe = new Database(context.db.file);
+    probe.pragma("busy_timeout = 0");
+    for (;;) {
+      try {
+        probe.exec("BEGIN IMMEDIATE");
+        probe.exec("ROLLBACK");
+      } catch {
+        break;
+      }
+      await new Promise((resolve) => setTimeout(resolve, 10));
+    }
+    probe.close();
+    try {
+      const timed = async <T>(call: () => Promise<T>): Promise<[T, number]> => {
+        const startedMs = performance.now();
+        const result = await call();
+        return [result, performance.now() - startedMs];
+      };
+      const [me, meMs] = await timed(() => request(app).get("/api/me").set("Cookie", `calmcrest_session=${token}`));
+      expect(me.status).toBe(200);
+      expect(cookieToken(me)).toBe(token);
+      expect(meMs).toBeLessThan(300);
+      // A sign-in costs one Argon2 verification (tens of ms), never the ingest's remaining second.
+      const [, signInMs] = await timed(() => signIn("committee"));
+      expect(signInMs).toBeLessThan(700);
+      const [out, outMs] = await timed(() => request(app).post("/api/auth/sign-out").set(SAME_ORIGIN).set("Cookie", `calmcrest_session=${leaving}`).send({}));
+      expect(out.status).toBe(200);
+      expect(outMs).toBeLessThan(300);
+      // Signed out at once, although the delete waits for the ingest.
+      expect((await request(app).get("/api/me").set("Cookie", `calmcrest_session=${leaving}`)).status).toBe(401);
+      expect(((await lead.get(`/api/uploads/${uploadId}`)).body as UploadStatus).status).toBe("ingesting");
+      expect(context.sessionStore.pendingWrites()).toBe(3);
+    } finally {
+      context.ingest.testHooks.pauseAfterSamples = undefined;
+    }
+    expect((await waitForUpload(lead, uploadId)).samples.accepted).toBe(60);
     await context.sessionStore.settled();
-    expect(await context.db.knex("session").where({ id }).first()).toBeUndefined();
+    const refreshed = await context.db.knex("session").where({ id }).first<{ expires_at: number }>();
+    expect(refreshed.expires_at).toBeGreaterThan(staleExpiresS + 7 * DAY_S);
+    expect(await context.db.knex("session").where({ id: sessionIdOf(leaving) }).first()).toBeUndefined();
   });
 });

@@ -101,10 +101,11 @@ describe("uploading a log", () => {
     expect(csv.status).toBe(200);
     expect(csv.headers["content-type"]).toMatch(/text\/csv/);
     const rows = csv.text.trimEnd().split("\n");
-    expect(rows[0]).toBe("line,reason,message,raw_line");
+    // Every cell quoted, the header too (spreadsheet-safe CSV, issue 8).
+    expect(rows[0]).toBe('"line","reason","message","raw_line"');
     expect(rows).toHaveLength(1 + done.samples.rejected);
     expect(done.rejectedRows).toHaveLength(done.samples.rejected);
-    for (const rejected of done.rejectedRows) expect(csv.text).toContain(`${rejected.line},${rejected.reason},`);
+    for (const rejected of done.rejectedRows) expect(csv.text).toContain(`"${rejected.line}","${rejected.reason}",`);
     // The raw text of an unreadable row comes back as it was in the file.
     expect(csv.text).toContain("yesterday evening");
   });

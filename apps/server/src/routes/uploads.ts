@@ -2,7 +2,7 @@ import { access } from "node:fs/promises";
 import type { RequestHandler } from "express";
 import multer from "multer";
 import { LogFormatError, previewLog, SeeingInputError, type ColumnMapping } from "@calmcrest/seeing-stats";
-import { columnMappingSchema, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
+import { columnMappingSchema, spreadsheetSafeCsv, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
@@ -43,11 +43,6 @@ function parseMappingField(value: unknown): ColumnMapping | undefined {
     });
   }
   return parseOr400(columnMappingSchema, parsed, "The mapping");
-}
-
-function csvCell(value: string | number): string {
-  const text = String(value);
-  return /[",\r\n]/.test(text) ? `"${text.replaceAll('"', '""')}"` : text;
 }
 
 /** Runs a multer middleware and turns its errors into the API's JSON errors (413 names the limit in MB). */
@@ -173,15 +168,17 @@ export function uploadRoutes(context: AppContext): ApiRouter {
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
     const safeName = row.file_name.replace(/[^\w.-]+/g, "_");
     res.setHeader("Content-Disposition", `attachment; filename="rejected-${row.id}-${safeName}.csv"`);
-    let buffer = "line,reason,message,raw_line\n";
-    for (const [line, reason, message, rawLine] of store.uploads.rejectedRows(row.id)) {
-      buffer += `${line},${csvCell(reason)},${csvCell(message)},${csvCell(rawLine)}\n`;
-      if (buffer.length > 64 * 1024) {
-        res.write(buffer);
-        buffer = "";
+    // Spreadsheet-safe: a raw line from the uploaded file may start with = or @ (spreadsheetSafeCsv).
+    res.write(spreadsheetSafeCsv([["line", "reason", "message", "raw_line"]]));
+    let batch: [number, string, string, string][] = [];
+    for (const rejected of store.uploads.rejectedRows(row.id)) {
+      batch.push(rejected);
+      if (batch.length === 2000) {
+        res.write(spreadsheetSafeCsv(batch));
+        batch = [];
       }
     }
-    res.end(buffer);
+    res.end(spreadsheetSafeCsv(batch));
   });
 
   routes.route("POST", "/:id/retry", { access: FIELD_ROLES, campaignAction: "upload" }, async (req, res) => {

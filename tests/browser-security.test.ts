@@ -23,10 +23,12 @@ beforeAll(async () => {
   server = await startServer({ seed: "users", env: { CALMCREST_TILE_URL: `http://127.0.0.1:${tilePort}/{z}/{x}/{y}.png`, CALMCREST_TILE_ATTRIBUTION: "Test tiles" } });
   browser = await openBrowser();
   // Every CSP violation the page reports, whether or not chromium also logs it.
+  // (Runs in the page; typed by hand because the tests compile without the DOM library.)
   await browser.context.addInitScript(() => {
-    const violations: string[] = [];
-    Object.assign(window, { cspViolations: violations });
-    document.addEventListener("securitypolicyviolation", (event) => violations.push(`${event.violatedDirective} ${event.blockedURI}`));
+    type CspEvent = { violatedDirective: string; blockedURI: string };
+    const page = globalThis as unknown as { cspViolations: string[]; document: { addEventListener(type: string, listener: (event: CspEvent) => void): void } };
+    page.cspViolations = [];
+    page.document.addEventListener("securitypolicyviolation", (event) => page.cspViolations.push(`${event.violatedDirective} ${event.blockedURI}`));
   });
 });
 
@@ -37,7 +39,7 @@ afterAll(async () => {
 });
 
 async function violations(): Promise<string[]> {
-  return browser.page.evaluate(() => (window as unknown as { cspViolations?: string[] }).cspViolations ?? []);
+  return browser.page.evaluate(() => (globalThis as unknown as { cspViolations?: string[] }).cspViolations ?? []);
 }
 
 describe("the built app under its content security policy", () => {

@@ -114,7 +114,7 @@ describe("session refresh and sign-in while another connection holds the write l
 
     // The ingest sleeps inside its open write transaction (as a slow disk or a huge file would) for 3 s.
     context.ingest.testHooks.pauseAfterSamples = { samples: 20, ms: 3000 };
-    const rows = Array.from({ length: 60 }, (_, index) => `${new Date(Date.UTC(2031, 0, 1, 3, index)).toISOString()},0.8,10`);
+    const rows = Array.from({ length: 60 }, (_, index) => `${new Date(Date.UTC(2025, 0, 1, 3, index)).toISOString()},0.8,10`);
     const uploadId = (await postUpload(lead, campaign.id, Buffer.from(["time_utc,seeing_arcsec,zenith_deg", ...rows, ""].join("\n")))).body.upload.id as number;
     while (((await lead.get(`/api/uploads/${uploadId}`)).body as UploadStatus).status !== "ingesting") await new Promise((resolve) => setTimeout(resolve, 10));
     // Wait until the worker holds the write lock: a probe's BEGIN IMMEDIATE then fails at once with SQLITE_BUSY.

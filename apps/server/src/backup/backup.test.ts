@@ -30,13 +30,13 @@ describe("npm run backup during an ingest, then npm run restore", () => {
     const { app, context, dataDir } = await createTestServer();
     const lead = await signedInAgent(app, "lead");
     const { campaign } = await createSiteAndCampaign(lead);
-    const first = log(300, "2031-01-01T00:00:00Z");
+    const first = log(300, "2025-01-01T00:00:00Z");
     const done = await waitForUpload(lead, (await postUpload(lead, campaign.id, first, "first.csv")).body.upload.id);
     expect(done.samples.accepted).toBe(300);
 
     // The second upload's ingest holds its write transaction open (a slow disk) while the backup runs.
     context.ingest.testHooks.pauseAfterSamples = { samples: 100, ms: 1500 };
-    const second = log(400, "2031-02-01T00:00:00Z");
+    const second = log(400, "2025-02-01T00:00:00Z");
     const secondId = (await postUpload(lead, campaign.id, second, "second.csv")).body.upload.id as number;
     for (;;) {
       const status = (await lead.get(`/api/uploads/${secondId}`)).body.status as string;
@@ -80,7 +80,7 @@ describe("npm run backup during an ingest, then npm run restore", () => {
   it("refuses to restore into a data directory that has anything in it, and changes nothing there", async () => {
     const { app, dataDir } = await createTestServer({ seed: "users" });
     await signedInAgent(app, "lead");
-    const { folder } = await backupDataDir(dataDir, join(scratch, "refuse"), new Date("2031-05-01T02:00:00Z"));
+    const { folder } = await backupDataDir(dataDir, join(scratch, "refuse"), new Date("2025-05-01T02:00:00Z"));
     const occupied = join(scratch, "occupied");
     mkdirSync(occupied, { recursive: true });
     writeFileSync(join(occupied, "notes.txt"), "keep me");
@@ -91,7 +91,7 @@ describe("npm run backup during an ingest, then npm run restore", () => {
   it("refuses a folder that is not a backup, and a damaged one, leaving the target empty", async () => {
     await expect(restoreBackup(scratch, join(scratch, "never"))).rejects.toThrow(/not a Calmcrest backup/);
     const { dataDir } = await createTestServer({ seed: "users" });
-    const { folder } = await backupDataDir(dataDir, join(scratch, "damaged"), new Date("2031-05-01T03:00:00Z"));
+    const { folder } = await backupDataDir(dataDir, join(scratch, "damaged"), new Date("2025-05-01T03:00:00Z"));
     writeFileSync(join(folder, DATABASE_FILE), "not a database");
     const target = join(scratch, "damaged-target");
     await expect(restoreBackup(folder, target)).rejects.toThrow(/damaged/);

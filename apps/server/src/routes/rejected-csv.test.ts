@@ -38,7 +38,7 @@ const HOSTILE_LINES = [
 describe("rejected.csv with hostile rows", () => {
   it("quotes every cell and prefixes every cell that starts with = + - @ tab or CR, so no spreadsheet runs it", async () => {
     const { campaign } = await createSiteAndCampaign(lead);
-    const text = ["time_utc,seeing_arcsec,zenith_deg", "2031-01-01T03:00:00Z,0.81,10", ...HOSTILE_LINES, "2031-01-01T03:05:00Z,0.85,10", ""].join("\n");
+    const text = ["time_utc,seeing_arcsec,zenith_deg", "2025-01-01T03:00:00Z,0.81,10", ...HOSTILE_LINES, "2025-01-01T03:05:00Z,0.85,10", ""].join("\n");
     const done = await waitForUpload(lead, (await postUpload(lead, campaign.id, Buffer.from(text), "hostile.csv")).body.upload.id);
     expect(done.samples.accepted).toBe(2);
     expect(done.samples.rejected).toBe(HOSTILE_LINES.length);

@@ -6,7 +6,7 @@ import { createSiteAndCampaign, postUpload, waitForUpload } from "../routes/test
 import { createTestServer, signedInAgent } from "../test-support";
 import { rawFilePath, tmpDir } from "./raw-files.server";
 
-const LOG = "time_utc,seeing_arcsec,zenith_deg\n2031-01-01T03:00:00Z,0.81,10\n2031-01-01T03:01:00Z,0.83,10\n";
+const LOG = "time_utc,seeing_arcsec,zenith_deg\n2025-01-01T03:00:00Z,0.81,10\n2025-01-01T03:01:00Z,0.83,10\n";
 
 describe("start-up cleaning of what a killed server left behind", () => {
   it("removes unfinished .part transfers and raw files no upload refers to, keeps every recorded raw file, and logs it", async () => {
@@ -21,7 +21,7 @@ describe("start-up cleaning of what a killed server left behind", () => {
     // A transfer killed mid-way, and a file stored by an upload killed before its row was written.
     mkdirSync(tmpDir(first.dataDir), { recursive: true });
     writeFileSync(join(tmpDir(first.dataDir), "1764000000000-killed.part"), "time_utc,seeing_arcsec\n2031-01-01");
-    const orphanText = "time_utc,seeing_arcsec\n2031-02-01T03:00:00Z,0.9\n";
+    const orphanText = "time_utc,seeing_arcsec\n2025-02-01T03:00:00Z,0.9\n";
     const orphanSha = createHash("sha256").update(orphanText).digest("hex");
     mkdirSync(join(first.dataDir, "uploads", orphanSha.slice(0, 2)), { recursive: true });
     writeFileSync(rawFilePath(first.dataDir, orphanSha), orphanText);

@@ -6,6 +6,11 @@ try {
   const env = parseEnv();
   const context = await createContext(env);
   const server = await listen(context);
+  if (!env.listensOnLoopback && !env.publicOrigin) {
+    console.warn(
+      `Calmcrest: HOST=${env.HOST} is reachable from other machines, but CALMCREST_PUBLIC_URL is not set, so only pages opened at http://localhost:${env.PORT} may sign in or change anything. Set CALMCREST_PUBLIC_URL to the address people open Calmcrest at.`,
+    );
+  }
   console.log(`Calmcrest is serving at ${env.publicOrigin ?? `http://localhost:${env.PORT}`} (listening on ${env.HOST}:${env.PORT}, data in ${env.dataDir})`);
   const stop = () => {
     server.close();

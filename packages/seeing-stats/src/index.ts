@@ -97,6 +97,21 @@ export { hemisphereSeasons, seasonIndexOfMonth, SEASON_CODES, type Season, type 
 export { summarizeTurbulenceParameter, type TurbulenceParameterSummary } from './summary/summarizeTurbulenceParameter.js';
 export { summaryWarnings, type SummaryWarning, type SummaryWarningCode, type SummaryContext } from './summary/summaryWarnings.js';
 export { checkLongitudeSign, type LongitudeSignCheck } from './summary/checkLongitudeSign.js';
+export {
+  selectSamples,
+  selectRun,
+  selectRuns,
+  lowerBoundTime,
+  SELECTION_REASONS,
+  type StoredSampleColumns,
+  type ExcludedWindow,
+  type SampleRun,
+  type SortedSampleRun,
+  type SampleQuery,
+  type SelectionReason,
+  type RunSelection,
+  type SelectedSamples,
+} from './summary/selectSamples.js';
 export { compareSeeing, type SiteComparison } from './summary/compareSeeing.js';
 export { pairNights, type NightPairing, type PairedNight, type PairingOptions } from './summary/pairNights.js';
 export { comparePairedNights, type PairedComparison } from './summary/comparePairedNights.js';

@@ -118,15 +118,3 @@ export class SampleCache {
     return rows;
   }
 }
-
-/** First index whose time is >= timeMs (times ascending). */
-export function lowerBoundTime(times: Float64Array, count: number, timeMs: number): number {
-  let low = 0;
-  let high = count;
-  while (low < high) {
-    const middle = (low + high) >>> 1;
-    if ((times[middle] ?? Number.POSITIVE_INFINITY) < timeMs) low = middle + 1;
-    else high = middle;
-  }
-  return low;
-}

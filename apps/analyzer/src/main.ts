@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // Calmcrest's command-line log check: field engineers run it before uploading, with the same engine the server uses.
 import { basename } from 'node:path';
-import { LogFormatError, predictTelescopeFwhm, SeeingInputError, type TelescopePrediction } from '@calmcrest/seeing-stats';
+import { describeLogFormatError, LogFormatError, predictTelescopeFwhm, SeeingInputError, type TelescopePrediction } from '@calmcrest/seeing-stats';
 import { analyzeLog } from '@calmcrest/seeing-stats/node';
 import { formatReport } from './formatReport.ts';
 import { parseArguments, USAGE, UsageError } from './parseArguments.ts';
@@ -35,8 +35,8 @@ async function main(argv: readonly string[]): Promise<number> {
     return 0;
   } catch (error) {
     if (error instanceof LogFormatError) {
-      const where = error.line === null ? '' : ` (line ${error.line})`;
-      return fail(`${parsed.file}${where}: ${error.message}`, error.hint);
+      const { problem, hint } = describeLogFormatError(error);
+      return fail(`${parsed.file}: ${problem}`, hint);
     }
     if (error instanceof SeeingInputError) return fail(error.message, 'Check the flag values; --help lists them with their units.');
     throw error;

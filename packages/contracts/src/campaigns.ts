@@ -1,15 +1,13 @@
-import { LOG_FIELDS } from "@calmcrest/seeing-stats";
+import { LOG_FIELDS, RESPONSE_SETS, RESPONSE_SET_LABELS, type ResponseSet } from "@calmcrest/seeing-stats";
 import { z } from "zod";
 import type { UploadListItem } from "./uploads";
 
-/** Response-coefficient sets for turning image-motion variances into r0 (stored per campaign). */
-export const RESPONSE_SETS = ["z-tilt", "g-tilt", "sarazin-roddier"] as const;
-export type ResponseSetName = (typeof RESPONSE_SETS)[number];
-export const RESPONSE_SET_LABELS: Record<ResponseSetName, string> = {
-  "z-tilt": "Tokovinin 2002, Z-tilt",
-  "g-tilt": "Tokovinin 2002, G-tilt",
-  "sarazin-roddier": "Sarazin & Roddier 1990",
-};
+/**
+ * Response-coefficient sets for turning image-motion variances into r0 (stored per campaign): the engine's names
+ * and its one label table, so the API, the forms and the analyzer say the same.
+ */
+export { RESPONSE_SETS, RESPONSE_SET_LABELS };
+export type ResponseSetName = ResponseSet;
 
 export const CAMPAIGN_STATUSES = ["planned", "running", "finished"] as const;
 export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];

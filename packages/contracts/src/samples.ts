@@ -1,12 +1,14 @@
 import { z } from "zod";
-import { summaryQuerySchema } from "./summaries";
+import { summaryQueryShape, summaryQueryRangeCheck } from "./summaries";
 
 /**
  * Query of `GET /api/campaigns/:id/samples` and `GET /api/sites/:id/samples`: the summary filters, plus an optional
  * night ('YYYY-MM-DD', the engine's nightLabel at the site) and a cap on the points returned.
  * Used by the charts that need single samples: seeing through one night, longitudinal against transverse seeing.
  */
-export const samplesQuerySchema = summaryQuerySchema.extend({
+export const samplesQuerySchema = z
+  .object({
+    ...summaryQueryShape,
   night: z
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/, "night must be a date like 2026-03-01 (the evening the night starts).")
@@ -17,7 +19,8 @@ export const samplesQuerySchema = summaryQuerySchema.extend({
     .min(10, "maxPoints must be a whole number between 10 and 5000.")
     .max(5000, "maxPoints must be a whole number between 10 and 5000.")
     .optional(),
-});
+  })
+  .refine(...summaryQueryRangeCheck);
 export type SamplesQuery = z.infer<typeof samplesQuerySchema>;
 
 /** One accepted sample (zenith, 500 nm). Per-axis values are null for logs that give seeing or r0 directly. */

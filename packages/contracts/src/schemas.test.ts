@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { columnMappingSchema, createCampaignSchema, monitorSettingsSchema } from "./campaigns";
 import { signInSchema } from "./auth";
+import { samplesQuerySchema } from "./samples";
 import { summaryQuerySchema } from "./summaries";
 
 describe("signInSchema", () => {
@@ -54,5 +55,20 @@ describe("summaryQuerySchema", () => {
   it("reads numbers from query strings and checks their range", () => {
     expect(summaryQuerySchema.parse({ maxZenithDeg: "45", sunMaxDeg: "-12" })).toMatchObject({ maxZenithDeg: 45, sunMaxDeg: -12 });
     expect(summaryQuerySchema.safeParse({ maxZenithDeg: "95" }).success).toBe(false);
+  });
+
+  it("uses the engine's limits: a zenith limit of exactly 90 degrees passes, 0 does not", () => {
+    expect(summaryQuerySchema.safeParse({ maxZenithDeg: "90" }).success).toBe(true);
+    const zero = summaryQuerySchema.safeParse({ maxZenithDeg: "0" });
+    expect(zero.error?.issues[0]?.message).toMatch(/more than 0, at most 90/);
+  });
+
+  it("refuses a window whose end is before its start, naming to; a bare to date includes its whole day", () => {
+    const inverted = summaryQuerySchema.safeParse({ from: "2025-03-02", to: "2025-03-01" });
+    expect(inverted.success).toBe(false);
+    expect(inverted.error?.issues.map((issue) => issue.path.join("."))).toEqual(["to"]);
+    expect(summaryQuerySchema.safeParse({ from: "2025-03-01", to: "2025-03-01" }).success).toBe(true);
+    expect(summaryQuerySchema.safeParse({ from: "2025-03-01T22:00:00Z", to: "2025-03-01" }).success).toBe(true);
+    expect(samplesQuerySchema.safeParse({ from: "2025-03-02T00:00:01Z", to: "2025-03-01" }).success).toBe(false);
   });
 });

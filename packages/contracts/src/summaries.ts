@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { isoInstantSchema } from "./campaigns";
+import { FILTER_LIMIT_MESSAGES, filterSettingAllowed } from "@calmcrest/seeing-stats";
+import { instantMs, isoInstantSchema } from "./campaigns";
 import type { ResponseSetName } from "./campaigns";
 import type { SampleCounts } from "./uploads";
 import type { SeeingSummary } from "@calmcrest/seeing-stats";
@@ -15,13 +16,38 @@ const optionalNumber = (name: string, unit: string) =>
  * `from`/`to`: ISO dates or date-times (UTC); samples with from <= time < to. A bare `to` date includes that whole day.
  * Filter settings default to the seeing engine's DEFAULT_FILTERS (60 deg, -18 deg, no flux limit).
  */
-export const summaryQuerySchema = z.object({
+const DAY_MS = 86_400_000;
+
+/** The end of a `to` bound: a bare date includes that whole day. */
+export function rangeEndMs(to: string): number {
+  return instantMs(to) + (to.length === 10 ? DAY_MS : 0);
+}
+
+/** The summary query's fields, for schemas that extend it (the samples query). */
+export const summaryQueryShape = {
   from: isoInstantSchema.optional(),
   to: isoInstantSchema.optional(),
-  maxZenithDeg: optionalNumber("maxZenithDeg", "degrees").refine((v) => v === undefined || (v > 0 && v <= 90), "maxZenithDeg must be between 0 and 90 degrees."),
-  sunMaxDeg: optionalNumber("sunMaxDeg", "degrees").refine((v) => v === undefined || (v >= -90 && v <= 90), "sunMaxDeg must be between -90 and 90 degrees."),
+  // The engine's filter limits (filterLimits.ts), so the API refuses what the analyzer refuses.
+  maxZenithDeg: optionalNumber("maxZenithDeg", "degrees").refine((v) => v === undefined || filterSettingAllowed("maxZenithDeg", v), FILTER_LIMIT_MESSAGES.maxZenithDeg),
+  sunMaxDeg: optionalNumber("sunMaxDeg", "degrees").refine((v) => v === undefined || filterSettingAllowed("sunMaxDeg", v), FILTER_LIMIT_MESSAGES.sunMaxDeg),
   minFlux: optionalNumber("minFlux", "flux units"),
-});
+};
+
+/**
+ * from <= to: an inverted range is refused, naming `to`. A bare `to` date is the whole of that day, so it must
+ * end after `from` (from 2025-03-02 to 2025-03-01 is refused; from and to the same day is that day).
+ */
+const fromNotAfterTo = (value: { from?: string | undefined; to?: string | undefined }) => {
+  if (value.from === undefined || value.to === undefined) return true;
+  const fromMs = instantMs(value.from);
+  return value.to.length === 10 ? fromMs < rangeEndMs(value.to) : fromMs <= instantMs(value.to);
+};
+const FROM_AFTER_TO = { message: "to must not be before from: the window must end on or after its first day.", path: ["to"] };
+
+/** The from <= to check, for schemas built on summaryQueryShape. */
+export const summaryQueryRangeCheck = [fromNotAfterTo, FROM_AFTER_TO] as const;
+
+export const summaryQuerySchema = z.object(summaryQueryShape).refine(...summaryQueryRangeCheck);
 export type SummaryQuery = z.infer<typeof summaryQuerySchema>;
 
 /** Statistics of accepted samples, at zenith and 500 nm: exactly the seeing engine's SeeingSummary (one definition). */

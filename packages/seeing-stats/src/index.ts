@@ -2,10 +2,18 @@
 
 // Errors: the one failure contract.
 export { SeeingInputError, LogFormatError } from './errors.js';
+export { describeLogFormatError, type LogFormatDescription } from './describeLogFormatError.js';
 
 // Physics: DIMM response, Fried parameter, seeing, normalisation to zenith and 500 nm, corrections.
 export { ARCSEC_PER_RADIAN, SEEING_CONSTANT, REFERENCE_WAVELENGTH_NM } from './physics/constants.js';
-export { responseCoefficients, RESPONSE_SETS, RESPONSE_SET_NAMES, type ResponseSet, type ResponseCoefficients } from './physics/responseCoefficients.js';
+export {
+  responseCoefficients,
+  RESPONSE_SETS,
+  RESPONSE_SET_LABELS,
+  RESPONSE_SET_NAMES,
+  type ResponseSet,
+  type ResponseCoefficients,
+} from './physics/responseCoefficients.js';
 export { r0FromVariance } from './physics/r0FromVariance.js';
 export { varianceFromR0 } from './physics/varianceFromR0.js';
 export { seeingFromR0 } from './physics/seeingFromR0.js';
@@ -64,6 +72,7 @@ export {
   type MeasureSource,
 } from './log/createRowReader.js';
 export { filterReason, DEFAULT_FILTERS, type FilterSettings } from './log/filterReason.js';
+export { FILTER_LIMIT_MESSAGES, filterSettingAllowed, validateFilters } from './log/filterLimits.js';
 export { previewLog, isCommentOrBlank, type LogPreview } from './log/previewLog.js';
 export {
   LineSplitter,

@@ -1,7 +1,7 @@
 import { createReadStream } from "node:fs";
 import { parentPort } from "node:worker_threads";
 import Database from "better-sqlite3";
-import { LogFormatError } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, LogFormatError } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import { tune } from "../db/tune.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
@@ -28,10 +28,7 @@ function post(message: FromWorker): void {
 
 /** Describes a failure for the person who uploaded the file. */
 function describe(error: unknown): string {
-  if (error instanceof LogFormatError) {
-    const where = error.line === null ? "" : ` (line ${error.line})`;
-    return `${error.message}${where}. ${error.hint}`.trim();
-  }
+  if (error instanceof LogFormatError) return describeLogFormatError(error).text;
   if (error instanceof Error) return error.message;
   return String(error);
 }

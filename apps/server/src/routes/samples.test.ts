@@ -42,4 +42,13 @@ describe("single samples for charts", () => {
     expect((await engineer.get(`/api/sites/${site.id}/samples`)).status).toBe(404);
     expect((await lead.get(`/api/campaigns/${campaign.id}/samples?night=last-tuesday`)).status).toBe(400);
   });
+
+  it("answers 400 naming `to` for a window that ends before it starts, on the summary and samples routes alike", async () => {
+    for (const path of [`/api/campaigns/${campaign.id}/summary`, `/api/sites/${site.id}/samples`]) {
+      const response = await lead.get(`${path}?from=2025-06-02&to=2025-06-01`);
+      expect(response.status).toBe(400);
+      expect(Object.keys(response.body.error.fields)).toEqual(["to"]);
+      expect(response.body.error.message).toMatch(/to must not be before from/);
+    }
+  });
 });

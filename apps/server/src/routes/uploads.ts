@@ -1,7 +1,7 @@
 import { access } from "node:fs/promises";
 import type { RequestHandler } from "express";
 import multer from "multer";
-import { LogFormatError, previewLog, SeeingInputError, type ColumnMapping } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type ColumnMapping } from "@calmcrest/seeing-stats";
 import { columnMappingSchema, spreadsheetSafeCsv, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.server";
@@ -9,7 +9,7 @@ import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
 import { monitorOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
-import { acceptUpload, formatProblem } from "../uploads/accept-upload.server";
+import { acceptUpload } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
 
 declare global {
@@ -114,7 +114,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
       };
       res.json(answer);
     } catch (error) {
-      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
+      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       if (error instanceof SeeingInputError) throw new HttpError(400, "invalid_input", error.message);
       throw error;
     }

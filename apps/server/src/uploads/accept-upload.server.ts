@@ -1,6 +1,6 @@
 import { open } from "node:fs/promises";
 import { Readable } from "node:stream";
-import { LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
@@ -9,11 +9,6 @@ import { discardTemporary, storeRawFile, type HashedFile } from "./raw-files.ser
 
 /** Enough of a stored file to check its header and mapping before queueing it. */
 const HEADER_CHECK_BYTES = 64 * 1024;
-
-/** Text of a LogFormatError for a person: what is wrong, where, how to fix it. */
-export function formatProblem(error: LogFormatError): string {
-  return `${error.message}${error.line === null ? "" : ` (line ${error.line})`}. ${error.hint}`.trim();
-}
 
 /** The first bytes of a file as text (a cut multi-byte character at the end is harmless for a header check). */
 async function readHead(path: string): Promise<string> {
@@ -85,7 +80,7 @@ export async function acceptUpload(
       // Store the mapping actually used: the one sent, or the engine's proposal from the headers.
       mapping = input.mapping ?? previewLog(head, { monitor: monitorOf(campaign), maxRows: 0 }).proposedMapping;
     } catch (error) {
-      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", formatProblem(error));
+      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       throw error;
     }
 

@@ -1,6 +1,7 @@
 import { afterEach, describe, expect, it } from "vitest";
 import { cleanup, fireEvent, render, screen } from "@testing-library/react";
 import { createMemoryRouter, RouterProvider, useSearchParams } from "react-router-dom";
+import { DEFAULT_FILTERS } from "@calmcrest/seeing-stats";
 import { FilterPanel } from "./filter-panel";
 
 function AddressProbe() {
@@ -52,6 +53,21 @@ describe("FilterPanel", () => {
     fireEvent.click(screen.getByRole("button", { name: "Apply" }));
     expect(screen.getByText(/between 0 and 90 degrees/)).toBeTruthy();
     expect(screen.getByTestId("address").textContent).toBe("");
+  });
+
+  it("refuses a window that ends before it starts (the shared schema's check), leaving the address alone", () => {
+    renderAt("/sites/3");
+    fireEvent.change(screen.getByLabelText(/From/), { target: { value: "2026-02-10" } });
+    fireEvent.change(screen.getByLabelText(/To/), { target: { value: "2026-02-01" } });
+    fireEvent.click(screen.getByRole("button", { name: "Apply" }));
+    expect(screen.getByText(/must end on or after its first day/)).toBeTruthy();
+    expect(screen.getByTestId("address").textContent).toBe("");
+  });
+
+  it("shows the engine's default filters as the placeholders of empty fields", () => {
+    renderAt("/sites/3");
+    expect((screen.getByLabelText(/Zenith limit/) as HTMLInputElement).placeholder).toBe(String(DEFAULT_FILTERS.maxZenithDeg));
+    expect((screen.getByLabelText(/Sun limit/) as HTMLInputElement).placeholder).toBe(String(DEFAULT_FILTERS.sunMaxDeg));
   });
 
   it("clears every filter on reset", () => {

@@ -1,16 +1,18 @@
 import { useState, type FormEvent } from "react";
 import { useSearchParams } from "react-router-dom";
 import { summaryQuerySchema, type SummaryQuery } from "@calmcrest/contracts";
+import { DEFAULT_FILTERS } from "@calmcrest/seeing-stats";
 import { FILTER_PARAM_NAMES, filtersFromParams, hasFilters, paramsWithFilters, type FilterParamName } from "../lib/filter-params";
 
 type Draft = Record<FilterParamName, string>;
 
+// Placeholders show the engine's defaults (what applies when a field is left empty).
 const FIELDS: { name: FilterParamName; label: string; unit?: string; type: "date" | "number"; placeholder?: string; help: string; step?: string }[] = [
   { name: "from", label: "From", type: "date", help: "First night included (UTC date)." },
   { name: "to", label: "To", type: "date", help: "Last day included (UTC date)." },
-  { name: "maxZenithDeg", label: "Zenith limit", unit: "°", type: "number", placeholder: "60", help: "Samples pointed further from the zenith are set aside.", step: "any" },
-  { name: "sunMaxDeg", label: "Sun limit", unit: "°", type: "number", placeholder: "-18", help: "Samples taken with the sun higher than this are set aside.", step: "any" },
-  { name: "minFlux", label: "Flux minimum", unit: "counts", type: "number", placeholder: "none", help: "Samples of fainter stars are set aside.", step: "any" },
+  { name: "maxZenithDeg", label: "Zenith limit", unit: "°", type: "number", placeholder: String(DEFAULT_FILTERS.maxZenithDeg), help: "Samples pointed further from the zenith are set aside.", step: "any" },
+  { name: "sunMaxDeg", label: "Sun limit", unit: "°", type: "number", placeholder: String(DEFAULT_FILTERS.sunMaxDeg), help: "Samples taken with the sun higher than this are set aside.", step: "any" },
+  { name: "minFlux", label: "Flux minimum", unit: "counts", type: "number", placeholder: DEFAULT_FILTERS.minFlux === null ? "none" : String(DEFAULT_FILTERS.minFlux), help: "Samples of fainter stars are set aside.", step: "any" },
 ];
 
 const draftFrom = (filters: SummaryQuery): Draft =>
@@ -43,10 +45,6 @@ function FilterForm({ filters, linkProblems, onApply }: { filters: SummaryQuery;
     const parsed = summaryQuerySchema.safeParse(values);
     if (!parsed.success) {
       setErrors(Object.fromEntries(parsed.error.issues.map((issue) => [String(issue.path[0] ?? "form"), issue.message])));
-      return;
-    }
-    if (parsed.data.from && parsed.data.to && parsed.data.from > parsed.data.to) {
-      setErrors({ to: "The window must end on or after its first day." });
       return;
     }
     setErrors({});

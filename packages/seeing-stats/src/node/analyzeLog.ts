@@ -1,8 +1,9 @@
 import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
-import { LogFormatError, SeeingInputError, requireRange } from '../errors.js';
+import { LogFormatError } from '../errors.js';
 import type { ColumnMapping } from '../log/logFields.js';
 import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filterReason.js';
+import { validateFilters } from '../log/filterLimits.js';
 import { chooseMeasure, EXPOSURE_CORRECTION_METHOD, interlacedFields, type ExposureCorrection, type FilterRejectReason, type MonitorSettings, type RejectReason } from '../log/createRowReader.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
 import { RESPONSE_SET_NAMES } from '../physics/responseCoefficients.js';
@@ -69,9 +70,7 @@ const EXPOSURE_CODES: readonly (ExposureCorrection | null)[] = [null, 'applied',
  */
 export async function analyzeLog(input: NodeJS.ReadableStream | string, options: AnalyzeOptions): Promise<AnalyzerReport> {
   const filters: FilterSettings = { ...DEFAULT_FILTERS, ...options.filters };
-  requireRange(filters.maxZenithDeg, 'maxZenithDeg', 0, 90, 'degrees', true);
-  requireRange(filters.sunMaxDeg, 'sunMaxDeg', -90, 90, 'degrees', true);
-  if (filters.minFlux !== null && !Number.isFinite(filters.minFlux)) throw new SeeingInputError(`minFlux must be a finite number of counts, got ${String(filters.minFlux)}`);
+  validateFilters(filters);
   const stream = typeof input === 'string' ? await openLog(input) : input;
   const kept = new GrowableColumns();
   const rejectedByReason: Record<string, number> = {};

@@ -1,15 +1,23 @@
 import { requirePositive, SeeingInputError } from '../errors.js';
 
-export type ResponseSet = 'z-tilt' | 'g-tilt' | 'sarazin-roddier';
+/** The coefficient sets, by the names the API, the analyzer's --response and the database use. */
+export const RESPONSE_SETS = ['z-tilt', 'g-tilt', 'sarazin-roddier'] as const;
+export type ResponseSet = (typeof RESPONSE_SETS)[number];
 
-export const RESPONSE_SETS: readonly ResponseSet[] = ['z-tilt', 'g-tilt', 'sarazin-roddier'];
-
-/** Human-readable name of each coefficient set, written into reports so a number always says how it was made. */
-export const RESPONSE_SET_NAMES: Record<ResponseSet, string> = {
-  'z-tilt': 'Tokovinin 2002 Z-tilt (PASP 114, 1156)',
-  'g-tilt': 'Tokovinin 2002 G-tilt (PASP 114, 1156)',
-  'sarazin-roddier': 'Sarazin & Roddier 1990 (A&A 227, 294)',
+/** The one label table: each set's short label (screens) and the publication its coefficients come from. */
+const RESPONSE_SET_TABLE: Record<ResponseSet, { label: string; source: string }> = {
+  'z-tilt': { label: 'Tokovinin 2002, Z-tilt', source: 'PASP 114, 1156' },
+  'g-tilt': { label: 'Tokovinin 2002, G-tilt', source: 'PASP 114, 1156' },
+  'sarazin-roddier': { label: 'Sarazin & Roddier 1990', source: 'A&A 227, 294' },
 };
+
+/** Short label of each set, e.g. "Tokovinin 2002, Z-tilt" (the API's responseName, the forms' choices). */
+export const RESPONSE_SET_LABELS = Object.fromEntries(RESPONSE_SETS.map((set) => [set, RESPONSE_SET_TABLE[set].label])) as Record<ResponseSet, string>;
+
+/** Label with its source, written into reports so a number always says how it was made, e.g. "Tokovinin 2002, Z-tilt (PASP 114, 1156)". */
+export const RESPONSE_SET_NAMES = Object.fromEntries(
+  RESPONSE_SETS.map((set) => [set, `${RESPONSE_SET_TABLE[set].label} (${RESPONSE_SET_TABLE[set].source})`]),
+) as Record<ResponseSet, string>;
 
 export interface ResponseCoefficients {
   longitudinal: number;

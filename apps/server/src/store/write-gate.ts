@@ -1,6 +1,6 @@
 /**
  * Who may write to SQLite now: main-thread writers or the ingest worker, never both (see
- * docs/decisions/0005-write-slot.md). better-sqlite3 is synchronous, so a main-thread write that met the
+ * docs/decisions/0006-write-slot.md). better-sqlite3 is synchronous, so a main-thread write that met the
  * ingest's write lock would wait inside SQLite's busy handler and freeze the whole event loop (progress polls
  * included) until the ingest commits. Main-thread writers therefore wait here, asynchronously, while an ingest
  * holds the gate; the next ingest starts only once the main-thread writes in progress are done.

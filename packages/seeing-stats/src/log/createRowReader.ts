@@ -293,7 +293,7 @@ export function createRowReader(options: {
       SEEING_CONSTANT * wavelengthM * (wavelengthM * wavelengthM * apertureM ** (-1 / 3) * coefficient) ** (-3 / 5) * ARCSEC_PER_RADIAN ** (1 - 6 / 5) * toReferenceSeeing;
     longFactor = axisFactor(coefficients.longitudinal);
     transFactor = axisFactor(coefficients.transverse);
-    if (measure === 'variance_px2') varianceToArcsec2 = (monitor.pixelScaleArcsec ?? 1) ** 2;
+    if (measure === 'variance_px2' && monitor.pixelScaleArcsec !== undefined) varianceToArcsec2 = monitor.pixelScaleArcsec ** 2;
   }
   const measureName = measure === 'seeing' ? 'seeing_arcsec' : measure === 'r0' ? 'r0_cm' : measure === 'variance_px2' ? 'var_…_px2' : 'var_…_arcsec2';
 

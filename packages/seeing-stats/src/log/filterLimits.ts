@@ -6,14 +6,17 @@ import type { FilterSettings } from './filterReason.js';
  * same values: the zenith limit in (0°, 90°] (0 would keep nothing; beyond 90° is below the horizon), the sun limit
  * in [−90°, 90°], a minimum flux finite when given.
  */
+/** The numeric settings with a range (leaveOutAnisotropic is a plain switch). */
+type LimitedFilter = 'maxZenithDeg' | 'sunMaxDeg' | 'minFlux';
+
 export const FILTER_LIMIT_MESSAGES = {
   maxZenithDeg: 'maxZenithDeg must be between 0 and 90 degrees (more than 0, at most 90).',
   sunMaxDeg: 'sunMaxDeg must be between -90 and 90 degrees.',
   minFlux: 'minFlux must be a finite number of flux units.',
-} as const satisfies Record<keyof FilterSettings, string>;
+} as const satisfies Record<LimitedFilter, string>;
 
 /** Whether one filter setting is allowed (see FILTER_LIMIT_MESSAGES). */
-export function filterSettingAllowed<Name extends keyof FilterSettings>(name: Name, value: FilterSettings[Name]): boolean {
+export function filterSettingAllowed<Name extends LimitedFilter>(name: Name, value: FilterSettings[Name]): boolean {
   if (value === null) return name === 'minFlux';
   if (typeof value !== 'number' || !Number.isFinite(value)) return false;
   if (name === 'maxZenithDeg') return value > 0 && value <= 90;

@@ -29,6 +29,8 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
   if (report.filters.minFlux !== null) filterWords.push(`flux ≥ ${report.filters.minFlux}`);
   filterWords.push(report.filters.leaveOutAnisotropic === false ? 'anisotropic samples kept (flagged)' : 'anisotropic samples left out');
   lines.push(`Filters: ${filterWords.join(', ')}`);
+  const window = report.plausibility;
+  lines.push(`Plausible: seeing ${window.minSeeingArcsec}″–${window.maxSeeingArcsec}″ (zenith, 500 nm), times ${window.earliestTimeUtc.slice(0, 10)} to ${window.latestTimeUtc.slice(0, 10)}`);
   lines.push('');
   lines.push(`Rows read ${samples.read}: accepted ${samples.accepted}, rejected ${samples.rejected}`);
   const reasons = Object.entries(samples.rejectedByReason).sort((left, right) => right[1] - left[1]);

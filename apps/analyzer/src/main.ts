@@ -1,13 +1,15 @@
 #!/usr/bin/env node
 // Calmcrest's command-line log check: field engineers run it before uploading, with the same engine the server uses.
 import { basename } from 'node:path';
-import { describeLogFormatError, LogFormatError, predictTelescopeFwhm, SeeingInputError, type TelescopePrediction } from '@calmcrest/seeing-stats';
+import { describeLogFormatError, LogFormatError, predictTelescopeFwhm, READING_WARNING_CODES, SeeingInputError, type TelescopePrediction } from '@calmcrest/seeing-stats';
 import { analyzeLog } from '@calmcrest/seeing-stats/node';
 import { formatReport } from './formatReport.ts';
 import { parseArguments, USAGE, UsageError } from './parseArguments.ts';
 
 const EXIT_NO_SAMPLES = 1;
 const EXIT_UNUSABLE = 2;
+/** Analysed, but the file lost lines or many rows (readingWarnings): the statistics may not stand for the log. */
+const EXIT_WARNINGS = 3;
 
 async function main(argv: readonly string[]): Promise<number> {
   let parsed;
@@ -28,11 +30,15 @@ async function main(argv: readonly string[]): Promise<number> {
       parsed.telescope !== null && report.samples.accepted > 0 ? predictTelescopeFwhm(report.seeing, parsed.telescope) : null;
     if (parsed.json) process.stdout.write(`${JSON.stringify(telescope === null ? report : { ...report, telescope })}\n`);
     else process.stdout.write(formatReport(report, basename(parsed.file), telescope));
+    // Warnings about the file itself are in the report (JSON "warnings"); stderr repeats them so a script's log
+    // shows them too, and they set the exit code: the statistics may not stand for the log.
+    const fileWarnings = report.warnings.filter((warning) => (READING_WARNING_CODES as readonly string[]).includes(warning.code));
+    for (const warning of fileWarnings) process.stderr.write(`calmcrest analyze: warning (${warning.code}): ${warning.message}\n`);
     if (report.samples.accepted === 0) {
       if (parsed.json) process.stderr.write('No sample was accepted; see rejectedByReason and rejectedRows.\n');
       return EXIT_NO_SAMPLES;
     }
-    return 0;
+    return fileWarnings.length > 0 ? EXIT_WARNINGS : 0;
   } catch (error) {
     if (error instanceof LogFormatError) {
       const { problem, hint } = describeLogFormatError(error);

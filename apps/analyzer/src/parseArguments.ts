@@ -39,6 +39,9 @@ Filters
   --max-zenith-deg DEG       drop samples farther than this from the zenith (default 60)
   --min-flux F               drop samples with a flux below F
   --keep-anisotropic         keep samples whose two axes disagree beyond the set ratio (left out by default)
+Plausibility (rows outside are rejected as implausible_seeing / implausible_time)
+  --min-plausible-seeing-arcsec S  lowest plausible seeing at zenith, 500 nm (default 0.05)
+  --max-plausible-seeing-arcsec S  highest plausible seeing at zenith, 500 nm (default 10)
 Statistics
   --thresholds A,B,C         seeing thresholds for the "fraction below" lines (default 0.6,0.8,1.0)
   --replicates N             night-bootstrap replicates (default 1000)
@@ -51,7 +54,8 @@ Output
   --json                     print exactly one JSON document on stdout
   --help                     this text
 
-Exit codes: 0 analysed; 1 analysed but no sample was accepted; 2 the file or the flags cannot be used.`;
+Exit codes: 0 analysed; 1 analysed but no sample was accepted; 2 the file or the flags cannot be used;
+3 analysed with warnings (lines that could not be split, or over 10 % of rows unusable; see "warnings").`;
 
 const NUMBER_FLAGS = new Set([
   '--aperture-mm',
@@ -65,6 +69,8 @@ const NUMBER_FLAGS = new Set([
   '--sun-max-deg',
   '--max-zenith-deg',
   '--min-flux',
+  '--min-plausible-seeing-arcsec',
+  '--max-plausible-seeing-arcsec',
   '--replicates',
   '--seed',
   '--telescope-wavelength-nm',
@@ -162,6 +168,10 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       ...(keepAnisotropic ? { leaveOutAnisotropic: false } : {}),
     },
     wavelengthGiven: numbers.has('--wavelength-nm'),
+    plausibility: {
+      ...(numbers.has('--min-plausible-seeing-arcsec') ? { minSeeingArcsec: numbers.get('--min-plausible-seeing-arcsec') } : {}),
+      ...(numbers.has('--max-plausible-seeing-arcsec') ? { maxSeeingArcsec: numbers.get('--max-plausible-seeing-arcsec') } : {}),
+    },
     summary: {
       ...(thresholdsArcsec !== undefined ? { thresholdsArcsec } : {}),
       ...(replicates !== undefined ? { bootstrapReplicates: replicates } : {}),

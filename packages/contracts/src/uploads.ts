@@ -55,6 +55,11 @@ export interface UploadListItem {
   status: UploadStatusName;
   /** Ingest-time counts: read = data rows in the file; accepted = samples stored. */
   samples: SampleCounts;
+  /**
+   * For a done upload, problems that did not stop the ingest but must be seen: lines that could not be split
+   * into fields, or more than 10 % of the rows unusable (the engine's readingWarnings). [] when clean or not done.
+   */
+  warnings: { code: "lines_not_split" | "many_rows_unusable" | "no_data_rows"; message: string }[];
   error: string | null;
   finishedAt: string | null;
 }

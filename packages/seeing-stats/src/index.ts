@@ -88,6 +88,7 @@ export {
   type SplitResult,
 } from './log/splitLog.js';
 export { LogTextReader, SNIFF_CHARS, type LogTextHandlers } from './log/readLogText.js';
+export { readingWarnings, WARN_UNUSABLE_SHARE, READING_WARNING_CODES, type ReadingWarning, type ReadingWarningCode } from './log/readingWarnings.js';
 
 // Summaries: one site, two sites compared, nights.
 export {

@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import type { User } from "lucia";
-import type { ColumnMapping } from "@calmcrest/seeing-stats";
+import { readingWarnings, type ColumnMapping } from "@calmcrest/seeing-stats";
 import type { ColumnMappingInput, RejectReasonName, SampleCounts, UploadListItem, UploadStatus, UploadStatusName } from "@calmcrest/contracts";
 import type { CampaignAction } from "../access/access.server";
 import { HttpError, notFound } from "../http/errors";
@@ -41,6 +41,7 @@ export function uploadCounts(row: UploadRow): SampleCounts {
 }
 
 export function uploadListItem(row: UploadRow): UploadListItem {
+  const samples = uploadCounts(row);
   return {
     id: row.id,
     campaignId: row.campaign_id,
@@ -51,7 +52,8 @@ export function uploadListItem(row: UploadRow): UploadListItem {
     uploadedAt: row.uploaded_at,
     mapping: JSON.parse(row.mapping) as ColumnMappingInput,
     status: row.status,
-    samples: uploadCounts(row),
+    samples,
+    warnings: row.status === "done" ? readingWarnings(samples) : [],
     error: row.error,
     finishedAt: row.finished_at,
   };

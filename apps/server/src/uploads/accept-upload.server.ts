@@ -1,43 +1,42 @@
-import { open } from "node:fs/promises";
-import { Readable } from "node:stream";
-import { describeLogFormatError, LogFormatError, previewLog, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import { createReadStream } from "node:fs";
+import { describeLogFormatError, LogFormatError, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
 import { monitorOf, type CampaignRow, type RecordResult } from "../store/index";
 import { discardTemporary, storeRawFile, type HashedFile } from "./raw-files.server";
 
-/** Enough of a stored file to check its header and mapping before queueing it. */
-const HEADER_CHECK_BYTES = 64 * 1024;
-
-/** The first bytes of a file as text (a cut multi-byte character at the end is harmless for a header check). */
-async function readHead(path: string): Promise<string> {
-  const handle = await open(path, "r");
-  try {
-    const buffer = Buffer.alloc(HEADER_CHECK_BYTES);
-    const { bytesRead } = await handle.read(buffer, 0, HEADER_CHECK_BYTES, 0);
-    return buffer.subarray(0, bytesRead).toString("utf8");
-  } finally {
-    await handle.close();
-  }
-}
-
-/** Thrown by the header check's handlers to stop reading once the first data row shows the file is readable. */
+/** Thrown by the header check's handlers to stop reading once the header and mapping are known to work. */
 class HeaderChecked extends Error {}
 
 /**
- * Reads the start of the file through the same streaming reader the ingest uses, stopping at the first data
- * row: binary files, empty files and mappings that cannot work throw the engine's LogFormatError (with its line).
+ * Reads the start of the stored file through the same streaming reader the ingest uses and stops as soon as the
+ * header line has been read and its mapping checked (however long the header, up to the engine's line limit):
+ * binary, UTF-16 and empty files, repeated or unsplittable headers and mappings that cannot work throw the
+ * engine's LogFormatError (with its line). Gives the mapping the ingest will use: the one sent, or the proposal.
  */
-async function checkHeader(head: string, monitor: MonitorSettings, mapping: ColumnMapping | undefined): Promise<void> {
+async function checkHeader(path: string, monitor: MonitorSettings, mapping: ColumnMapping | undefined): Promise<ColumnMapping> {
+  let used: ColumnMapping | null = null;
   const stop = () => {
     throw new HeaderChecked();
   };
+  const stream = createReadStream(path, { highWaterMark: 64 * 1024 });
   try {
-    await streamLog(Readable.from([head]), { monitor, ...(mapping ? { mapping } : {}) }, { onSample: stop, onReject: stop });
+    await streamLog(stream, { monitor, ...(mapping ? { mapping } : {}) }, {
+      onHeader(_headers, checked) {
+        used = checked;
+        stop();
+      },
+      onSample: stop,
+      onReject: stop,
+    });
   } catch (error) {
     if (!(error instanceof HeaderChecked)) throw error;
+  } finally {
+    stream.destroy();
   }
+  if (used === null) throw new LogFormatError("The file has no header line.", { line: null, hint: "Start the log with a line of column names such as time_utc,seeing_arcsec,zenith_deg." });
+  return used;
 }
 
 /** True when `text` has a C0 control character (NUL, tab, newline, …) or DEL: never part of a real file name. */
@@ -75,10 +74,8 @@ export async function acceptUpload(
     // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
     let mapping: ColumnMapping;
     try {
-      const head = await readHead(file.path);
-      await checkHeader(head, monitorOf(campaign), input.mapping);
       // Store the mapping actually used: the one sent, or the engine's proposal from the headers.
-      mapping = input.mapping ?? previewLog(head, { monitor: monitorOf(campaign), maxRows: 0 }).proposedMapping;
+      mapping = await checkHeader(file.path, monitorOf(campaign), input.mapping);
     } catch (error) {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       throw error;

@@ -23,7 +23,9 @@ const STATUS_STYLES: Record<string, string> = {
   ingesting: "bg-paper text-ink",
 };
 
-export function UploadStatusBadge({ status }: { status: string }) {
+/** The status word; a done upload with warnings reads "done, with warnings" in the warning colour. */
+export function UploadStatusBadge({ status, warned = false }: { status: string; warned?: boolean }) {
+  if (status === "done" && warned) return <span className="rounded-full bg-warn-pale px-2 py-0.5 text-xs font-semibold text-warn">done, with warnings</span>;
   return <span className={`rounded-full px-2 py-0.5 text-xs font-semibold ${STATUS_STYLES[status] ?? "bg-paper"}`}>{status}</span>;
 }
 
@@ -72,7 +74,12 @@ const uploadColumns = [
     header: "Status",
     cell: (cell) => (
       <span>
-        <UploadStatusBadge status={cell.getValue()} />
+        <UploadStatusBadge status={cell.getValue()} warned={cell.row.original.warnings.length > 0} />
+        {cell.row.original.warnings.map((warning) => (
+          <span key={warning.code} role="note" className="mt-1 block max-w-64 rounded bg-warn-pale px-1.5 py-0.5 text-xs text-warn">
+            Warning: {warning.message}
+          </span>
+        ))}
         {cell.row.original.error ? <span className="mt-1 block max-w-64 text-xs text-bad">{cell.row.original.error}</span> : null}
         {cell.getValue() === "failed" || cell.getValue() === "interrupted" ? <RetryButton upload={cell.row.original} /> : null}
       </span>

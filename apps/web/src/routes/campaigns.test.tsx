@@ -17,6 +17,7 @@ const upload = (id: number, status: UploadListItem["status"], fileName: string):
   mapping: {},
   status,
   samples: status === "done" ? { read: 100, accepted: 97, rejected: 3, rejectedByReason: { non_physical: 2, missing_value: 1 } } : { read: 0, accepted: 0, rejected: 0, rejectedByReason: {} },
+  warnings: [],
   error: status === "failed" ? "Line 812: the disk filled up." : null,
   finishedAt: null,
 });
@@ -108,6 +109,18 @@ describe("campaign page", () => {
     await waitFor(() => expect(calls).toContain("POST /api/uploads/2/retry"));
     await screen.findByText("queued");
     expect(screen.queryByRole("button", { name: "Read it again" })).toBeNull();
+  });
+
+  it("marks a done upload with warnings as such, shows each warning and labels the new reasons in plain words", () => {
+    const warned = upload(1, "done", "trip-1.csv");
+    warned.samples = { read: 40, accepted: 39, rejected: 1, rejectedByReason: { unterminated_quote: 1 } };
+    warned.warnings = [{ code: "lines_not_split", message: "1 line could not be split into fields (unterminated_quote 1); the export is damaged there: see the rejected rows for the line numbers." }];
+    uploads = [warned];
+    renderPage();
+    const table = screen.getByRole("table", { name: "Uploads of this campaign" });
+    expect(within(table).getByText("done, with warnings")).toBeTruthy();
+    expect(within(table).getByRole("note").textContent).toMatch(/^Warning: 1 line could not be split/);
+    expect(within(table).getByText("1 quote not closed on its line")).toBeTruthy();
   });
 
   it("says what to do when nothing is uploaded yet", async () => {

@@ -278,7 +278,7 @@ export function rejectNonText(sample: string): void {
   const startsWithUtf16Mark = checked.startsWith('\uFFFD\uFFFD');
   const halfLength = checked.length / 2;
   const nulsOnOneSide = Math.max(evenNuls, oddNuls) > halfLength * 0.6 && Math.min(evenNuls, oddNuls) < halfLength * 0.05;
-  if (nulsOnOneSide || (startsWithUtf16Mark && evenNuls + oddNuls > 0)) {
+  if (nulsOnOneSide || (startsWithUtf16Mark && evenNuls + oddNuls > checked.length * 0.2)) {
     throw new LogFormatError('The file is UTF-16 text; Calmcrest reads UTF-8.', {
       line: 1,
       hint: 'Save it as UTF-8 (in a spreadsheet: "CSV UTF-8"; in a text editor: encoding UTF-8) and pick it again.',

@@ -4,7 +4,20 @@ import { LogFormatError } from '../errors.js';
 import type { ColumnMapping } from '../log/logFields.js';
 import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filterReason.js';
 import { validateFilters } from '../log/filterLimits.js';
-import { chooseMeasure, EXPOSURE_CORRECTION_METHOD, interlacedFields, type ExposureCorrection, type FilterRejectReason, type MonitorSettings, type RejectReason } from '../log/createRowReader.js';
+import {
+  chooseMeasure,
+  defaultPlausibility,
+  EXPOSURE_CORRECTION_METHOD,
+  interlacedFields,
+  validatePlausibility,
+  type ExposureCorrection,
+  type FilterRejectReason,
+  type MonitorSettings,
+  type PlausibilityWindow,
+  type RejectReason,
+} from '../log/createRowReader.js';
+import { readingWarnings, type ReadingWarning } from '../log/readingWarnings.js';
+import type { SummaryWarning } from '../summary/summaryWarnings.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
 import { RESPONSE_SET_NAMES } from '../physics/responseCoefficients.js';
 import { nightIntervalStatus } from '../stats/nightIntervalStatus.js';
@@ -23,12 +36,14 @@ export interface AnalyzeOptions {
   monitor: MonitorSettings;
   site?: SiteLocation;
   filters?: Partial<FilterSettings>;
+  /** Overrides of the engine's plausibility window (seeing 0.05″–10″, times 1990 to now + 1 day). */
+  plausibility?: Partial<PlausibilityWindow>;
   summary?: SummaryOptions;
   /** False when the monitor's wavelength was not given but defaulted to 500 nm: a seeing or r0 log then gets a warning. Default true. */
   wavelengthGiven?: boolean;
 }
 
-export interface AnalyzerReport extends SeeingSummary {
+export interface AnalyzerReport extends Omit<SeeingSummary, 'warnings'> {
   samples: {
     read: number;
     accepted: number;
@@ -52,7 +67,14 @@ export interface AnalyzerReport extends SeeingSummary {
   monitor: MonitorSettings & { responseName: string };
   method: SeeingSummary['method'] & { exposureCorrection: string };
   filters: FilterSettings & { nightFilter: boolean };
-  file: { headers: string[]; delimiter: string; mapping: ColumnMapping };
+  /** The plausibility window rows were checked against (times as ISO 8601 UTC). */
+  plausibility: { minSeeingArcsec: number; maxSeeingArcsec: number; earliestTimeUtc: string; latestTimeUtc: string };
+  /**
+   * Warnings about the file (readingWarnings: lines not split, many rows unusable, no rows) first, then the
+   * summary's own (summaryWarnings); each { code, message }.
+   */
+  warnings: (ReadingWarning | SummaryWarning)[];
+  file: { headers: string[]; delimiter: string; mapping: ColumnMapping; rowsRead: number; linesTotal: number };
 }
 
 const MAX_LISTED_REJECTIONS = 100;
@@ -71,6 +93,8 @@ const EXPOSURE_CODES: readonly (ExposureCorrection | null)[] = [null, 'applied',
 export async function analyzeLog(input: NodeJS.ReadableStream | string, options: AnalyzeOptions): Promise<AnalyzerReport> {
   const filters: FilterSettings = { ...DEFAULT_FILTERS, ...options.filters };
   validateFilters(filters);
+  const plausibility: PlausibilityWindow = { ...defaultPlausibility(), ...options.plausibility };
+  validatePlausibility(plausibility);
   const stream = typeof input === 'string' ? await openLog(input) : input;
   const kept = new GrowableColumns();
   const rejectedByReason: Record<string, number> = {};
@@ -84,7 +108,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
   let timesAscending = true;
   let previousTimeMs = Number.NEGATIVE_INFINITY;
 
-  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site }, {
+  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility }, {
     onSample(sample, line) {
       const reason = filterReason(sample, filters);
       if (sample.timeMs <= previousTimeMs) timesAscending = false;
@@ -173,6 +197,13 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
     rejectedRows,
     monitor: { ...options.monitor, responseName: RESPONSE_SET_NAMES[options.monitor.response] },
     filters: { ...filters, nightFilter: options.site !== undefined },
+    plausibility: {
+      minSeeingArcsec: plausibility.minSeeingArcsec,
+      maxSeeingArcsec: plausibility.maxSeeingArcsec,
+      earliestTimeUtc: new Date(plausibility.earliestTimeMs).toISOString(),
+      latestTimeUtc: new Date(plausibility.latestTimeMs).toISOString(),
+    },
+    warnings: [...readingWarnings({ read: file.rowsRead, rejectedByReason }), ...summary.warnings],
     file,
   };
 }

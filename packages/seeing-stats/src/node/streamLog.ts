@@ -18,6 +18,8 @@ export interface StreamLogOptions {
 }
 
 export interface StreamLogHandlers {
+  /** The header line was read and the mapping (given or proposed) checked; before any row. */
+  onHeader?(headers: readonly string[], mapping: ColumnMapping): void;
   /**
    * A readable row. `fields` and `delimiter` give the row's text back (`fields.join(delimiter)`) for a caller that
    * rejects it later, e.g. as a duplicate; passed as they are so accepted rows cost no string building.
@@ -62,6 +64,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
         });
       }
       readRow = createRowReader({ headers, mapping, monitor: options.monitor, site: options.site, delimiter, plausibility: options.plausibility });
+      handlers.onHeader?.(headers, mapping);
     },
     row(fields, line, text) {
       if (readRow === null) return;

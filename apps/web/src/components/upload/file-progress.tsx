@@ -46,6 +46,11 @@ function Counts({ upload }: { upload: UploadListItem }) {
         {" · "}
         {formatNumber(upload.samples.read)} rows read
       </p>
+      {upload.warnings.map((warning) => (
+        <p key={warning.code} role="note" className="rounded bg-warn-pale px-2 py-1 text-warn">
+          <span className="font-semibold">Warning:</span> {warning.message}
+        </p>
+      ))}
       {reasons.length > 0 ? (
         <ul className="text-ink-soft" aria-label="Rejected by reason">
           {reasons.map(([reason, count]) => (

@@ -19,7 +19,7 @@ export interface ReadingWarning {
 export const READING_WARNING_CODES: readonly ReadingWarningCode[] = ['lines_not_split', 'many_rows_unusable', 'no_data_rows'];
 
 /** Reasons that are choices of the person analysing (filters, excluded windows), never a sign of a bad file. */
-const CHOSEN_REASONS = new Set(['zenith_limit', 'sun_above_limit', 'low_flux', 'excluded_window']);
+const CHOSEN_REASONS = new Set(['zenith_limit', 'sun_above_limit', 'low_flux', 'anisotropic', 'excluded_window']);
 
 function listCounts(entries: [string, number][]): string {
   return entries

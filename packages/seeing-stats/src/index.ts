@@ -127,3 +127,16 @@ export { pairNights, type NightPairing, type PairedNight, type PairingOptions } 
 export { comparePairedNights, type PairedComparison } from './summary/comparePairedNights.js';
 export { predictTelescopeFwhm, type TelescopePrediction } from './summary/predictTelescopeFwhm.js';
 export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './summary/nightLabel.js';
+
+// Comparing sites: verdict sentences, the nightly-difference histogram, warnings for a side-by-side table.
+export { describePairedVerdict, formatPValue, formatSignedArcsec } from './compare/describePairedVerdict.js';
+export { differenceHistogram, type DifferenceBin } from './compare/differenceHistogram.js';
+export {
+  comparisonWarnings,
+  MINIMUM_OVERLAP_MONTHS,
+  THIN_MONTH_NIGHTS,
+  type ComparisonWarning,
+  type ComparisonWarningCode,
+  type ComparisonWarnings,
+  type ComparedSiteFacts,
+} from './compare/comparisonWarnings.js';

@@ -9,3 +9,4 @@ export * from "./users";
 export * from "./samples";
 export * from "./config";
 export * from "./csv";
+export * from "./comparisons";

@@ -31,6 +31,10 @@ const other = (await lead.post(`/api/sites/${site.id}/campaigns`).set(SAME_ORIGI
 const engineerId = await userIdOf(context, "engineer@calmcrest.test");
 const committeeId = await userIdOf(context, "committee@calmcrest.test");
 await admin.post(`/api/campaigns/${mine.id}/members`).set(SAME_ORIGIN).send({ userId: engineerId });
+// A second site with a campaign of the engineer's, so every field role has two sites to compare.
+const secondSite = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ name: "Matrix Spur", latitude: -25.1, longitude: -68.2, elevationM: 3900 })).body as SiteDetail;
+const secondMine = (await lead.post(`/api/sites/${secondSite.id}/campaigns`).set(SAME_ORIGIN).send({ name: "Mine too", monitor })).body as CampaignDetail;
+await admin.post(`/api/campaigns/${secondMine.id}/members`).set(SAME_ORIGIN).send({ userId: engineerId });
 
 let fileCounter = 0;
 /** A small readable log, different bytes each time (so no upload is a duplicate of another). */
@@ -80,6 +84,7 @@ const cases: RouteCase[] = [
   { route: "PATCH /api/sites/:id", send: (r) => as(r).patch(`/api/sites/${site.id}`).set(SAME_ORIGIN).send({ notes: `by ${r}` }), ok: 200 },
   { route: "GET /api/sites/:id/summary", send: (r) => as(r).get(`/api/sites/${site.id}/summary`), ok: 200 },
   { route: "GET /api/sites/:id/samples", send: (r) => as(r).get(`/api/sites/${site.id}/samples`), ok: 200 },
+  { route: "GET /api/comparisons", send: (r) => as(r).get(`/api/comparisons?sites=${site.id},${secondSite.id}`), ok: 200 },
   { route: "POST /api/sites/:id/campaigns", send: (r) => as(r).post(`/api/sites/${site.id}/campaigns`).set(SAME_ORIGIN).send({ name: `By ${r}`, monitor }), ok: 201 },
   { route: "GET /api/campaigns/:id", campaign: "mine", send: (r) => as(r).get(`/api/campaigns/${mine.id}`), ok: 200 },
   { route: "GET /api/campaigns/:id", campaign: "other", send: (r) => as(r).get(`/api/campaigns/${other.id}`), ok: 200 },

@@ -2,6 +2,7 @@ import type { AppContext } from "../context";
 import type { ApiRouter, RouteTableEntry } from "../http/route-table";
 import { authRoutes, meRoutes } from "./auth";
 import { campaignRoutes } from "./campaigns";
+import { comparisonRoutes } from "./comparisons";
 import { configRoutes, healthRoutes } from "./config";
 import { siteRoutes } from "./sites";
 import { campaignUploadRoutes, uploadRoutes } from "./uploads";
@@ -16,6 +17,7 @@ export const apiRouteModules: ((context: AppContext) => ApiRouter)[] = [
   meRoutes,
   siteRoutes,
   campaignRoutes,
+  comparisonRoutes,
   campaignUploadRoutes,
   uploadRoutes,
   userRoutes,

@@ -131,6 +131,16 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
     },
 
     /** Rows rejected at ingest by the campaigns' finished uploads, by reason. */
+    /** The finished uploads of these campaigns (their samples are the ones summaries use), by campaign and id. */
+    async doneOf(campaignIds: readonly number[]): Promise<{ id: number; campaignId: number; fileName: string; sha256: string; samplesAccepted: number }[]> {
+      const rows = await knex()("upload")
+        .whereIn("campaign_id", campaignIds)
+        .andWhere({ status: "done" })
+        .orderBy([{ column: "campaign_id" }, { column: "id" }])
+        .select<{ id: number; campaign_id: number; file_name: string; sha256: string; samples_accepted: number }[]>("id", "campaign_id", "file_name", "sha256", "samples_accepted");
+      return rows.map((row) => ({ id: row.id, campaignId: row.campaign_id, fileName: row.file_name, sha256: row.sha256, samplesAccepted: row.samples_accepted }));
+    },
+
     async ingestRejections(campaignIds: readonly number[]): Promise<IngestRejections> {
       const rows = await knex()("upload")
         .whereIn("campaign_id", campaignIds)

@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import * as usersAndSessions from "./20261201_0001_users_and_sessions";
 import * as sitesCampaignsUploads from "./20261202_0001_sites_campaigns_uploads";
 import * as hashSessionIds from "./20261203_0001_hash_session_ids";
+import * as outbox from "./20261205_0001_outbox";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -14,6 +15,7 @@ const migrations: [name: string, migration: Migration][] = [
   ["20261201_0001_users_and_sessions", usersAndSessions],
   ["20261202_0001_sites_campaigns_uploads", sitesCampaignsUploads],
   ["20261203_0001_hash_session_ids", hashSessionIds],
+  ["20261205_0001_outbox", outbox],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -3,6 +3,7 @@ import type { AppLucia } from "./auth/lucia.server";
 import type { SessionAdapter } from "./auth/session-adapter.server";
 import type { Env } from "./env.server";
 import type { IngestQueue } from "./ingest/ingest-queue.server";
+import type { MailSender } from "./mail/sender.server";
 import type { Store } from "./store/index";
 import type { SampleCache } from "./summaries/sample-cache.server";
 
@@ -19,6 +20,8 @@ export interface AppContext {
   ingest: IngestQueue;
   /** Per-campaign sample columns for summaries, loaded from SQLite on first use. */
   samples: SampleCache;
+  /** Sends the outbox's messages after their transaction commits (store.outbox, queueMail). */
+  mail: MailSender;
   /** Stops the ingest worker and closes the database. */
   close(): Promise<void>;
 }

@@ -7,6 +7,8 @@ import type { AppContext } from "./context";
 import { openDatabase } from "./db/database.server";
 import type { Env } from "./env.server";
 import { IngestQueue, recoverUploads } from "./ingest/ingest-queue.server";
+import { startMail } from "./mail/index";
+import type { MailTransport } from "./mail/transport.server";
 import { cleanLeftovers, describeLeftovers } from "./uploads/leftovers.server";
 import { seedIfEmpty, warnAboutReachableDemo } from "./seed/index";
 import { createStore, WriteGate } from "./store/index";
@@ -27,7 +29,7 @@ export const startupSteps: ((context: AppContext) => Promise<void>)[] = [
 ];
 
 /** Opens the database (migrating it), seeds an empty one, and returns the context the app runs on. */
-export async function createContext(env: Env): Promise<AppContext> {
+export async function createContext(env: Env, options: { mailTransport?: MailTransport } = {}): Promise<AppContext> {
   const db = await openDatabase(env.dataDir);
   const samples = new SampleCache(db.sqlite);
   const gate = new WriteGate();
@@ -36,6 +38,7 @@ export async function createContext(env: Env): Promise<AppContext> {
   const ingest = new IngestQueue(store, gate, { dbFile: db.file, dataDir: env.dataDir, allowTestHooks: env.NODE_ENV === "test" });
   // Session writes never wait on the main thread for an ingest's write lock; deferred ones land through the write gate.
   const sessionStore = new SessionAdapter(db.file, (write) => gate.withSlot(write));
+  const mail = startMail(env, store, options.mailTransport ? { transport: options.mailTransport } : {});
   const lucia = createLucia(sessionStore, { secureCookies: env.NODE_ENV === "production" });
   const context: AppContext = {
     env,
@@ -45,9 +48,10 @@ export async function createContext(env: Env): Promise<AppContext> {
     store,
     ingest,
     samples,
+    mail,
     close: () => {
       // Idempotent: a test may close a context early (a simulated restart) and again in afterAll.
-      closing ??= ingest.stop().then(() => {
+      closing ??= Promise.all([ingest.stop(), mail.stop()]).then(() => {
         sessionStore.close();
         return db.close();
       });

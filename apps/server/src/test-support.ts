@@ -8,6 +8,7 @@ import { afterAll } from "vitest";
 import { createApp } from "./app";
 import type { AppContext } from "./context";
 import { parseEnv } from "./env.server";
+import type { MailTransport } from "./mail/transport.server";
 import { createContext } from "./server";
 
 export const DEMO_PASSWORD_FOR_TESTS = "test-password-1";
@@ -28,6 +29,8 @@ export async function createTestServer(
     publicUrl?: string | null;
     env?: Record<string, string>;
     dataDir?: string;
+    /** A transport in place of the configured one (e.g. one that fails, to test retries). */
+    mailTransport?: MailTransport;
   } = {},
 ) {
   // A given dataDir reopens an existing data directory (a restart); its first owner removes it.
@@ -41,7 +44,7 @@ export async function createTestServer(
     ...(options.publicUrl === null ? {} : { CALMCREST_PUBLIC_URL: options.publicUrl ?? TEST_PUBLIC_URL }),
     ...options.env,
   });
-  const context: AppContext = await createContext(env);
+  const context: AppContext = await createContext(env, options.mailTransport ? { mailTransport: options.mailTransport } : {});
   const app: Express = createApp(context);
   afterAll(async () => {
     await context.close();

@@ -13,8 +13,10 @@ describe("navigation by role", () => {
   });
 
   it("lets admins manage people and read sites", () => {
-    expect(navFor("admin").map((item) => item.to)).toEqual(["/sites", "/reports", "/admin/people"]);
+    expect(navFor("admin").map((item) => item.to)).toEqual(["/sites", "/reports", "/admin/people", "/admin/outbox"]);
     expect(mayUse("admin", "/admin/people")).toBe(true);
+    expect(mayUse("admin", "/admin/outbox")).toBe(true);
+    expect(mayUse("lead", "/admin/outbox")).toBe(false);
     expect(mayUse("lead", "/admin/people")).toBe(false);
   });
 

@@ -12,6 +12,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: "/upload", label: "Upload logs", roles: ["lead", "engineer"] },
   { to: "/reports", label: "Reports", roles: ["admin", "lead", "committee"] },
   { to: "/admin/people", label: "People and access", roles: ["admin"] },
+  { to: "/admin/outbox", label: "Outbox", roles: ["admin"] },
 ];
 
 export const navFor = (role: Role) => NAV_ITEMS.filter((item) => item.roles.includes(role));

@@ -9,6 +9,7 @@ import { RouteError } from "./routes/route-error";
 import { SignInPage } from "./routes/sign-in";
 import { configQuery, sitesQuery } from "./api/sites";
 import { usersQuery } from "./api/users";
+import { outboxQuery } from "./api/outbox";
 import { campaignLoader, siteLoader } from "./route-loaders";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
@@ -46,6 +47,15 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         return null;
       },
       lazy: async () => ({ Component: (await import("./routes/admin.people")).PeoplePage }),
+    },
+    {
+      path: "admin/outbox",
+      loader: async (args) => {
+        await roleLoader(queryClient, ["admin"])(args);
+        await queryClient.ensureQueryData(outboxQuery);
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/admin.outbox")).OutboxPage }),
     },
     { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
   ];

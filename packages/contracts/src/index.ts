@@ -10,3 +10,5 @@ export * from "./samples";
 export * from "./config";
 export * from "./csv";
 export * from "./comparisons";
+export * from "./outbox";
+export * from "./markdown";

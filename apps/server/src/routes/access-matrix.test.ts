@@ -170,6 +170,7 @@ const cases: RouteCase[] = [
     send: (r) => as(r).post("/api/users").set(SAME_ORIGIN).send({ email: `made-by-${r ?? "nobody"}@calmcrest.test`, name: "Made", role: "engineer", password: "a-long-password" }),
     ok: 201,
   },
+  { route: "GET /api/outbox", send: (r) => as(r).get("/api/outbox"), ok: 200 },
   { route: "PATCH /api/users/:id", send: (r) => as(r).patch(`/api/users/${committeeId}`).set(SAME_ORIGIN).send({ role: "committee" }), ok: 200 },
 ];
 

@@ -4,6 +4,7 @@ import { authRoutes, meRoutes } from "./auth";
 import { campaignRoutes } from "./campaigns";
 import { comparisonRoutes } from "./comparisons";
 import { configRoutes, healthRoutes } from "./config";
+import { outboxRoutes } from "./outbox";
 import { siteRoutes } from "./sites";
 import { campaignUploadRoutes, uploadRoutes } from "./uploads";
 import { userRoutes } from "./users";
@@ -21,6 +22,7 @@ export const apiRouteModules: ((context: AppContext) => ApiRouter)[] = [
   campaignUploadRoutes,
   uploadRoutes,
   userRoutes,
+  outboxRoutes,
 ];
 
 export function apiRouters(context: AppContext): ApiRouter[] {

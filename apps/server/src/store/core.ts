@@ -8,7 +8,7 @@ export interface AuditEntry {
   /** The acting user; null for the system (start-up recovery, the demo seed's own steps). */
   userId: string | null;
   action: string;
-  targetType: "site" | "campaign" | "upload" | "exclusion" | "member" | "user";
+  targetType: "site" | "campaign" | "upload" | "exclusion" | "member" | "user" | "report" | "comment";
   targetId: string | number;
   details?: Record<string, unknown>;
 }

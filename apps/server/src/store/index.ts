@@ -5,6 +5,7 @@ import { campaignsStore } from "./campaigns";
 import { StoreCore } from "./core";
 import { exclusionsStore } from "./exclusions";
 import { membershipsStore } from "./memberships";
+import { outboxStore } from "./outbox";
 import { sitesStore } from "./sites";
 import { uploadsStore } from "./uploads";
 import { usersStore } from "./users";
@@ -30,6 +31,8 @@ export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGa
     uploads: uploadsStore(core, { campaignForUser: campaigns.forUser }),
     users: usersStore(core),
     audit: auditStore(core),
+    /** E-mail waiting to be sent or sent; `queueMail(trx, …)` queues one inside a write (store/outbox.ts). */
+    outbox: outboxStore(core),
   };
 }
 
@@ -44,3 +47,4 @@ export { exclusionView, type ExclusionRow } from "./exclusions";
 export { visibleCampaignIds } from "./memberships";
 export type { UserRow } from "./users";
 export type { AuditRow } from "./audit";
+export { queueMail, type QueuedMail } from "./outbox";

@@ -3,6 +3,7 @@ import * as usersAndSessions from "./20261201_0001_users_and_sessions";
 import * as sitesCampaignsUploads from "./20261202_0001_sites_campaigns_uploads";
 import * as hashSessionIds from "./20261203_0001_hash_session_ids";
 import * as outbox from "./20261205_0001_outbox";
+import * as campaignDataVersion from "./20261205_0002_campaign_data_version";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -16,6 +17,7 @@ const migrations: [name: string, migration: Migration][] = [
   ["20261202_0001_sites_campaigns_uploads", sitesCampaignsUploads],
   ["20261203_0001_hash_session_ids", hashSessionIds],
   ["20261205_0001_outbox", outbox],
+  ["20261205_0002_campaign_data_version", campaignDataVersion],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

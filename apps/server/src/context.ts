@@ -6,6 +6,7 @@ import type { IngestQueue } from "./ingest/ingest-queue.server";
 import type { MailSender } from "./mail/sender.server";
 import type { Store } from "./store/index";
 import type { SampleCache } from "./summaries/sample-cache.server";
+import type { SummaryService } from "./summaries/summary-service.server";
 
 /** What every route module receives. */
 export interface AppContext {
@@ -22,6 +23,11 @@ export interface AppContext {
   samples: SampleCache;
   /** Sends the outbox's messages after their transaction commits (store.outbox, queueMail). */
   mail: MailSender;
+  /**
+   * Summaries, site-list briefs and sample series: cached by data version, computed off the main thread. Other
+   * computations over samples (a comparison) register a task in summaries/tasks.server.ts and call compute().
+   */
+  summaries: SummaryService;
   /** Stops the ingest worker and closes the database. */
   close(): Promise<void>;
 }

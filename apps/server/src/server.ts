@@ -13,6 +13,8 @@ import { cleanLeftovers, describeLeftovers } from "./uploads/leftovers.server";
 import { seedIfEmpty, warnAboutReachableDemo } from "./seed/index";
 import { createStore, WriteGate } from "./store/index";
 import { SampleCache } from "./summaries/sample-cache.server";
+import { dataVersionListener } from "./summaries/data-version.server";
+import { SummaryService } from "./summaries/summary-service.server";
 
 // Start-up hooks other areas register (for example: mark uploads left half-done by a dead process).
 export const startupSteps: ((context: AppContext) => Promise<void>)[] = [
@@ -34,6 +36,9 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
   const samples = new SampleCache(db.sqlite);
   const gate = new WriteGate();
   const store = createStore(db, samples, gate);
+  // Every change to a campaign's samples, exclusions or withdrawals raises its data version in the same transaction.
+  store.onChange(dataVersionListener());
+  const summaries = new SummaryService({ dbFile: db.file, sqlite: db.sqlite });
   let closing: Promise<void> | undefined;
   const ingest = new IngestQueue(store, gate, { dbFile: db.file, dataDir: env.dataDir, allowTestHooks: env.NODE_ENV === "test" });
   // Session writes never wait on the main thread for an ingest's write lock; deferred ones land through the write gate.
@@ -49,9 +54,10 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
     ingest,
     samples,
     mail,
+    summaries,
     close: () => {
       // Idempotent: a test may close a context early (a simulated restart) and again in afterAll.
-      closing ??= Promise.all([ingest.stop(), mail.stop()]).then(() => {
+      closing ??= Promise.all([ingest.stop(), mail.stop(), summaries.close()]).then(() => {
         sessionStore.close();
         return db.close();
       });

@@ -4,6 +4,7 @@ import Database from "better-sqlite3";
 import { describeLogFormatError, LogFormatError } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import { tune } from "../db/tune.server";
+import { BUMP_DATA_VERSION_SQL } from "../summaries/data-version.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
 // Runs in a worker thread so the HTTP server stays responsive while a large file is parsed and written, and so
@@ -117,6 +118,8 @@ async function ingest(job: IngestJob): Promise<void> {
       },
     );
     finish.run(result.rowsRead, accepted, JSON.stringify(rejectedByReason), JSON.stringify(result.mapping), new Date().toISOString(), uploadId);
+    // The campaign's samples changed: its data version rises in this same commit (cached summaries of it lapse).
+    db.prepare(BUMP_DATA_VERSION_SQL).run(campaignId);
     db.exec("COMMIT");
     post({ type: "done", uploadId, rowsRead: result.rowsRead, accepted, rejectedByReason });
   } catch (error) {

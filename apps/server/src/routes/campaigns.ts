@@ -4,8 +4,6 @@ import { FIELD_ROLES, routeId } from "../access/access.server";
 import { parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
-import { sampleSeries } from "../summaries/sample-series.server";
-import { buildSummary, resolveQuery } from "../summaries/summarize.server";
 
 /**
  * /api/campaigns/:id and what hangs off one campaign (exclusions, members, summary, samples). Committee members
@@ -13,7 +11,7 @@ import { buildSummary, resolveQuery } from "../summaries/summarize.server";
  * action named beside the route (not visible: 404; visible but not allowed: 403).
  */
 export function campaignRoutes(context: AppContext): ApiRouter {
-  const { store, samples } = context;
+  const { store, summaries } = context;
   const routes = new ApiRouter("/campaigns");
   const campaignId = (value: string | string[] | undefined) => routeId(value, "That campaign");
 
@@ -72,15 +70,15 @@ export function campaignRoutes(context: AppContext): ApiRouter {
     const campaign = await store.campaigns.forUser(currentUser(res.locals), campaignId(req.params.id), "read");
     const query = parseOr400(summaryQuerySchema, req.query, "The summary query");
     const site = await store.campaigns.siteOf(campaign);
-    const ingestRejections = await store.uploads.ingestRejections([campaign.id]);
-    res.json(buildSummary(samples, { kind: "campaign", site, campaigns: [campaign], resolved: resolveQuery(query), ingestRejections }));
+    const json = await summaries.summary({ kind: "campaign", site, campaigns: [campaign], query, ingestRejections: () => store.uploads.ingestRejections([campaign.id]) });
+    res.type("json").send(json);
   });
 
   routes.route("GET", "/:id/samples", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
     const campaign = await store.campaigns.forUser(currentUser(res.locals), campaignId(req.params.id), "read");
     const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
     const site = await store.campaigns.siteOf(campaign);
-    res.json(sampleSeries(samples, [campaign.id], site.longitude, query));
+    res.type("json").send(await summaries.series([campaign.id], site.longitude, query));
   });
 
   return routes;

@@ -6,22 +6,20 @@ import { parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
 import { siteListItem, type SiteRow } from "../store/index";
-import { buildSummary, resolveQuery, siteBrief } from "../summaries/summarize.server";
-import { sampleSeries } from "../summaries/sample-series.server";
 
 /** /api/sites: the candidate sites, their summaries and samples, and new campaigns at a site. */
 export function siteRoutes(context: AppContext): ApiRouter {
-  const { store, samples } = context;
+  const { store, summaries } = context;
   const routes = new ApiRouter("/sites");
 
-  function listItem(site: SiteRow, campaignIds: number[]): SiteListItem {
-    return siteListItem(site, campaignIds.length, campaignIds.length === 0 ? null : siteBrief(samples, site, campaignIds));
+  async function listItem(site: SiteRow, campaignIds: number[]): Promise<SiteListItem> {
+    return siteListItem(site, campaignIds.length, campaignIds.length === 0 ? null : await summaries.brief(site, campaignIds));
   }
 
   async function siteDetail(user: User, siteId: number): Promise<SiteDetail> {
     const { site, campaignIds } = await store.sites.forUser(user, siteId);
     return {
-      ...listItem(site, campaignIds),
+      ...(await listItem(site, campaignIds)),
       createdAt: site.created_at,
       updatedAt: site.updated_at,
       campaigns: await store.campaigns.listItems(campaignIds),
@@ -31,7 +29,7 @@ export function siteRoutes(context: AppContext): ApiRouter {
   // Committee members read published reports only (403); everyone else is checked per item.
   routes.route("GET", "/", { access: FIELD_ROLES }, async (_req, res) => {
     const visible = await store.sites.listVisible(currentUser(res.locals));
-    res.json(visible.map(({ site, campaignIds }) => listItem(site, campaignIds)));
+    res.json(await Promise.all(visible.map(({ site, campaignIds }) => listItem(site, campaignIds))));
   });
 
   routes.route("POST", "/", { access: ["admin", "lead"] }, async (req, res) => {
@@ -57,14 +55,14 @@ export function siteRoutes(context: AppContext): ApiRouter {
     const { site, campaignIds } = await store.sites.forUser(currentUser(res.locals), routeId(req.params.id, "That site"));
     const query = parseOr400(summaryQuerySchema, req.query, "The summary query");
     const campaigns = await store.campaigns.listByIds(campaignIds);
-    const ingestRejections = await store.uploads.ingestRejections(campaignIds);
-    res.json(buildSummary(samples, { kind: "site", site, campaigns, resolved: resolveQuery(query), ingestRejections }));
+    const json = await summaries.summary({ kind: "site", site, campaigns, query, ingestRejections: () => store.uploads.ingestRejections(campaignIds) });
+    res.type("json").send(json);
   });
 
   routes.route("GET", "/:id/samples", { access: FIELD_ROLES }, async (req, res) => {
     const { site, campaignIds } = await store.sites.forUser(currentUser(res.locals), routeId(req.params.id, "That site"));
     const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
-    res.json(sampleSeries(samples, campaignIds, site.longitude, query));
+    res.type("json").send(await summaries.series(campaignIds, site.longitude, query));
   });
 
   routes.route("POST", "/:id/campaigns", { access: ["admin", "lead"] }, async (req, res) => {

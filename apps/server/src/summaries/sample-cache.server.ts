@@ -1,6 +1,7 @@
 import type Database from "better-sqlite3";
 import { sortPositive, type SortedSeeing } from "@calmcrest/seeing-stats";
 import type { SiteSummaryBrief } from "@calmcrest/contracts";
+import { readDataVersions } from "./data-version.server";
 
 /**
  * A campaign's stored samples as columns in time order (typed arrays: about 40 bytes a sample).
@@ -29,25 +30,113 @@ interface CampaignEntry {
   exclusions: ExclusionWindow[];
   /** The seeing column's sort (the engine's sortPositive), made on first use; it does not depend on any query. */
   seeingSort: SortedSeeing | null;
+  /** The campaign's data version these columns were read at (campaign_data_version; -1 when read without one). */
+  version: number;
+  /** Bytes of the typed arrays held (columns, and the sort once made). */
+  bytes: number;
+}
+
+/** About 60 bytes a sample: seven Float64 columns; the seeing sort adds 12 more (Float64 values and Uint32 order). */
+const COLUMN_COUNT = 7;
+
+function columnBytes(count: number): number {
+  return count * COLUMN_COUNT * Float64Array.BYTES_PER_ELEMENT;
+}
+
+/** What sync() read in one SQLite read snapshot: the data version of each campaign, in the order asked. */
+export interface CampaignSnapshot {
+  versions: number[];
 }
 
 /**
- * Loads each campaign's samples from SQLite once and keeps them until an ingest into that campaign finishes or
- * its exclusions change. Summaries are computed fresh from these columns on every request.
+ * Loads each campaign's samples from SQLite once and keeps them until they change. Summaries are computed from
+ * these columns; filters and exclusions are applied per request. With a byte limit, the least recently used
+ * campaigns are dropped once the columns held exceed it (never the ones the current computation uses, so one
+ * summary over campaigns larger than the limit still works and holds them only while it runs).
  */
 export class SampleCache {
   private readonly campaigns = new Map<number, CampaignEntry>();
   /** Short site summaries for the site list, keyed by site and visible campaigns; cleared on any change. */
   readonly briefs = new Map<string, SiteSummaryBrief | null>();
+  private readonly maxBytes: number;
+  private heldBytes = 0;
+  /** Campaigns the running computation uses: never evicted until unpin(). */
+  private readonly pinned = new Set<number>();
 
-  constructor(private readonly sqlite: Database.Database) {}
+  constructor(
+    private readonly sqlite: Database.Database,
+    options: { maxBytes?: number } = {},
+  ) {
+    this.maxBytes = options.maxBytes ?? Number.POSITIVE_INFINITY;
+  }
+
+  /** Bytes of sample columns (and sorts) held now. */
+  get bytesHeld(): number {
+    return this.heldBytes;
+  }
+
+  /** Campaign ids held now, least recently used first (for tests and the memory figures). */
+  heldCampaigns(): number[] {
+    return [...this.campaigns.keys()];
+  }
 
   private entry(campaignId: number): CampaignEntry {
     const cached = this.campaigns.get(campaignId);
-    if (cached) return cached;
-    const entry: CampaignEntry = { columns: this.loadColumns(campaignId), exclusions: this.loadExclusions(campaignId), seeingSort: null };
+    if (cached) {
+      // Map order is the LRU order: move it to the end.
+      this.campaigns.delete(campaignId);
+      this.campaigns.set(campaignId, cached);
+      return cached;
+    }
+    const columns = this.loadColumns(campaignId);
+    const entry: CampaignEntry = { columns, exclusions: this.loadExclusions(campaignId), seeingSort: null, version: -1, bytes: columnBytes(columns.timeMs.length) };
     this.campaigns.set(campaignId, entry);
+    this.heldBytes += entry.bytes;
+    this.evict();
     return entry;
+  }
+
+  private drop(campaignId: number): void {
+    const entry = this.campaigns.get(campaignId);
+    if (!entry) return;
+    this.campaigns.delete(campaignId);
+    this.heldBytes -= entry.bytes;
+  }
+
+  private evict(): void {
+    if (this.heldBytes <= this.maxBytes) return;
+    // Deleting from a Map while iterating it is safe: the loop goes on with the next key.
+    for (const campaignId of this.campaigns.keys()) {
+      if (this.heldBytes <= this.maxBytes) return;
+      if (!this.pinned.has(campaignId)) this.drop(campaignId);
+    }
+  }
+
+  /**
+   * Brings these campaigns up to their committed data version in ONE read snapshot (a campaign whose version
+   * moved is read again, with its exclusions), so columns, exclusions and versions describe the same committed
+   * state. Pins the campaigns until unpin(): call it when the computation is done.
+   */
+  sync(campaignIds: readonly number[]): CampaignSnapshot {
+    for (const campaignId of campaignIds) this.pinned.add(campaignId);
+    const read = this.sqlite.transaction((): CampaignSnapshot => {
+      const versions = readDataVersions(this.sqlite, campaignIds);
+      campaignIds.forEach((campaignId, index) => {
+        const version = versions[index] ?? 0;
+        const held = this.campaigns.get(campaignId);
+        if (held && held.version !== version) this.drop(campaignId);
+        this.entry(campaignId).version = version;
+      });
+      return { versions };
+    });
+    // A deferred transaction: no lock is taken until the first read, and a read never waits for a writer (WAL).
+    return read();
+  }
+
+  /** The computation that pinned these campaigns is done: they may be evicted again. */
+  unpin(campaignIds: readonly number[]): void {
+    for (const campaignId of campaignIds) this.pinned.delete(campaignId);
+    this.evict();
   }
 
   columns(campaignId: number): CampaignColumns {
@@ -67,13 +156,17 @@ export class SampleCache {
     if (entry.seeingSort === null) {
       const { seeingArcsec, count } = entry.columns;
       entry.seeingSort = sortPositive(seeingArcsec.subarray(0, count));
+      const sortBytes = entry.seeingSort.sorted.byteLength + entry.seeingSort.order.byteLength;
+      entry.bytes += sortBytes;
+      this.heldBytes += sortBytes;
+      this.evict();
     }
     return entry.seeingSort;
   }
 
   /** Call after an ingest into the campaign commits or its exclusions change. */
   invalidate(campaignId: number): void {
-    this.campaigns.delete(campaignId);
+    this.drop(campaignId);
     this.briefs.clear();
   }
 

@@ -131,6 +131,13 @@ export function buildSummary(cache: SampleCache, input: SummaryInput): SummaryRe
 export function siteBrief(cache: SampleCache, site: SiteRow, campaignIds: readonly number[]): SiteSummaryBrief | null {
   const key = `${site.id}:${campaignIds.join(",")}`;
   if (cache.briefs.has(key)) return cache.briefs.get(key) ?? null;
+  const brief = computeSiteBrief(cache, site, campaignIds);
+  cache.briefs.set(key, brief);
+  return brief;
+}
+
+/** The short summary for the site list, computed fresh (the summary service caches it by data version). */
+export function computeSiteBrief(cache: SampleCache, site: SiteRow, campaignIds: readonly number[]): SiteSummaryBrief | null {
   const resolved = resolveQuery({});
   const selected = selectSamples(cache, campaignIds, resolved);
   // The list needs no interval, so the bootstrap is kept tiny; the percentiles are exact either way.
@@ -139,9 +146,7 @@ export function siteBrief(cache: SampleCache, site: SiteRow, campaignIds: readon
     selected.presorted,
     { longitudeDeg: site.longitude, bootstrapReplicates: 10 },
   );
-  const brief: SiteSummaryBrief | null = statistics
+  return statistics
     ? { samples: selected.seeingArcsec.length, nights: statistics.nights, median: statistics.seeing.median, p25: statistics.seeing.p25, p75: statistics.seeing.p75 }
     : null;
-  cache.briefs.set(key, brief);
-  return brief;
 }

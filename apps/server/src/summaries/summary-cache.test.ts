@@ -1,0 +1,189 @@
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
+import Database from "better-sqlite3";
+import { describe, expect, it } from "vitest";
+import type { SummaryResponse } from "@calmcrest/contracts";
+import { createSiteAndCampaign, DATA_SAMPLES, postUpload, waitForUpload } from "../routes/test-helpers";
+import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
+import { BUMP_DATA_VERSION_SQL, readDataVersions } from "./data-version.server";
+import { SampleCache } from "./sample-cache.server";
+import { SummaryService } from "./summary-service.server";
+
+const { app, context } = await createTestServer();
+const lead = await signedInAgent(app, "lead");
+const nativeLog = join(DATA_SAMPLES, "native-arcsec2.csv");
+const lines = readFileSync(nativeLog, "utf8").trimEnd().split("\n");
+const headerIndex = lines.findIndex((line) => line.startsWith("time_utc"));
+const header = lines.slice(0, headerIndex + 1);
+const rows = lines.slice(headerIndex + 1);
+
+/** A log of the native sample's rows from..to (so two parts of it never share a time). */
+function part(from: number, to: number): Buffer {
+  return Buffer.from(`${[...header, ...rows.slice(from, to)].join("\n")}\n`);
+}
+
+async function summaryOf(campaignId: number): Promise<SummaryResponse> {
+  const response = await lead.get(`/api/campaigns/${campaignId}/summary`);
+  expect(response.status).toBe(200);
+  return response.body as SummaryResponse;
+}
+
+async function campaignWithSamples(from: number, to: number) {
+  const { site, campaign } = await createSiteAndCampaign(lead);
+  const upload = await waitForUpload(lead, (await postUpload(lead, campaign.id, part(from, to), `rows-${from}-${to}.csv`)).body.upload.id);
+  expect(upload.status).toBe("done");
+  return { site, campaign, upload };
+}
+
+describe("the summary cache", () => {
+  it("answers a repeated summary from the cache, and gives new numbers after every change of samples or exclusions", async () => {
+    const { campaign, upload } = await campaignWithSamples(0, 200);
+    const first = await summaryOf(campaign.id);
+    expect(first.samples.read).toBe(upload.samples.read);
+    const hitsBefore = context.summaries.stats().hits;
+    const again = await summaryOf(campaign.id);
+    expect(again).toEqual(first);
+    expect(context.summaries.stats().hits).toBe(hitsBefore + 1);
+
+    // An exclusion over the first half of the samples: fewer accepted, counted under excluded_window.
+    const firstTime = rows[0]?.split(",")[0] ?? "";
+    const middleTime = rows[100]?.split(",")[0] ?? "";
+    const added = await lead.post(`/api/campaigns/${campaign.id}/exclusions`).set(SAME_ORIGIN).send({ from: firstTime, to: middleTime, reason: "dome maintenance" });
+    expect(added.status).toBe(201);
+    const excluded = await summaryOf(campaign.id);
+    expect(excluded.samples.accepted).toBeLessThan(first.samples.accepted);
+    // Every accepted sample that left was excluded (an excluded sample some filter refuses anyway is counted once, as excluded).
+    expect(excluded.samples.rejectedByReason.excluded_window).toBeGreaterThanOrEqual(first.samples.accepted - excluded.samples.accepted);
+
+    // Removing it gives the first numbers back; a second upload adds its samples.
+    expect((await lead.delete(`/api/campaigns/${campaign.id}/exclusions/${(added.body as { id: number }).id}`).set(SAME_ORIGIN)).status).toBe(204);
+    expect(await summaryOf(campaign.id)).toEqual(first);
+    const second = await waitForUpload(lead, (await postUpload(lead, campaign.id, part(200, 300), "more.csv")).body.upload.id);
+    expect(second.status).toBe("done");
+    const more = await summaryOf(campaign.id);
+    expect(more.samples.accepted).toBe(first.samples.accepted + second.samples.accepted);
+    expect(more.samples.read).toBe(first.samples.read + second.samples.read);
+  });
+
+  it("raises a campaign's data version exactly when its samples or exclusions change, not for other edits", async () => {
+    const { site, campaign } = await campaignWithSamples(0, 40);
+    const version = () => readDataVersions(context.db.sqlite, [campaign.id])[0];
+    const afterIngest = version();
+    expect(afterIngest).toBe(1);
+    await lead.patch(`/api/sites/${site.id}`).set(SAME_ORIGIN).send({ notes: "windy saddle" });
+    await lead.patch(`/api/campaigns/${campaign.id}`).set(SAME_ORIGIN).send({ notes: "second trip" });
+    expect(version()).toBe(afterIngest);
+    const added = await lead.post(`/api/campaigns/${campaign.id}/exclusions`).set(SAME_ORIGIN).send({ from: "2024-01-01T00:00:00Z", to: "2024-01-02T00:00:00Z", reason: "cloud" });
+    expect(added.status).toBe(201);
+    expect(version()).toBe(2);
+  });
+
+  it("never serves a summary from before a change committed on another connection, even before the main thread hears of it", async () => {
+    const { campaign } = await campaignWithSamples(0, 60);
+    const before = await summaryOf(campaign.id);
+    // What the ingest worker does in its own transaction: new samples (the same a week later) and the version, in one commit. Nobody
+    // tells the main thread (no 'done' message, no after-commit hook).
+    const elsewhere = new Database(context.db.file);
+    try {
+      elsewhere.transaction(() => {
+        const stored = elsewhere.prepare("SELECT * FROM sample WHERE campaign_id = ?").all(campaign.id) as Record<string, number>[];
+        const insert = elsewhere.prepare(
+          "INSERT INTO sample (campaign_id, time_ms, upload_id, seeing_arcsec, r0_cm, zenith_deg, sun_alt_deg, flux, anisotropic) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
+        );
+        for (const sample of stored) {
+          insert.run(sample.campaign_id, Number(sample.time_ms) + 7 * 86_400_000, sample.upload_id, sample.seeing_arcsec, sample.r0_cm, sample.zenith_deg, sample.sun_alt_deg, sample.flux, sample.anisotropic);
+        }
+        elsewhere.prepare(BUMP_DATA_VERSION_SQL).run(campaign.id);
+      })();
+    } finally {
+      elsewhere.close();
+    }
+    const after = await summaryOf(campaign.id);
+    expect(after.samples.accepted).toBe(2 * before.samples.accepted);
+  });
+
+  it("while an exclusion is being added, requests made after it committed all see it, and earlier ones see one state or the other", async () => {
+    const { campaign } = await campaignWithSamples(0, 200);
+    const before = await summaryOf(campaign.id);
+    const during = Array.from({ length: 12 }, () => summaryOf(campaign.id));
+    const added = await lead
+      .post(`/api/campaigns/${campaign.id}/exclusions`)
+      .set(SAME_ORIGIN)
+      .send({ from: rows[0]?.split(",")[0], to: rows[100]?.split(",")[0], reason: "dome maintenance" });
+    expect(added.status).toBe(201);
+    const after = await Promise.all(Array.from({ length: 12 }, () => summaryOf(campaign.id)));
+    const excludedAccepted = after[0]?.samples.accepted ?? 0;
+    expect(excludedAccepted).toBeLessThan(before.samples.accepted);
+    for (const summary of after) expect(summary.samples.accepted).toBe(excludedAccepted);
+    for (const summary of await Promise.all(during)) expect([before.samples.accepted, excludedAccepted]).toContain(summary.samples.accepted);
+  });
+
+  it("computes identical concurrent requests once (single flight)", async () => {
+    const { campaign } = await campaignWithSamples(0, 300);
+    const computationsBefore = context.summaries.stats().computations;
+    const answers = await Promise.all(Array.from({ length: 8 }, () => summaryOf(campaign.id)));
+    expect(context.summaries.stats().computations).toBe(computationsBefore + 1);
+    for (const answer of answers) expect(answer).toEqual(answers[0]);
+  });
+
+  it("treats a filter at its default and no filter as the same request, and a different filter as another", async () => {
+    const { campaign } = await campaignWithSamples(0, 300);
+    const plain = await summaryOf(campaign.id);
+    const computations = context.summaries.stats().computations;
+    const explicit = await lead.get(`/api/campaigns/${campaign.id}/summary?maxZenithDeg=60`);
+    expect(explicit.body).toEqual(plain);
+    expect(context.summaries.stats().computations).toBe(computations);
+    const stricter = await lead.get(`/api/campaigns/${campaign.id}/summary?maxZenithDeg=10`);
+    expect(stricter.status).toBe(200);
+    expect(context.summaries.stats().computations).toBe(computations + 1);
+  });
+});
+
+describe("memory bounds", () => {
+  it("keep at most the configured bytes of answers, dropping the least recently used", async () => {
+    const { site, campaign } = await campaignWithSamples(0, 300);
+    // The bound holds two and a half answers of this size (an answer and its key take two bytes a character).
+    const oneAnswerBytes = 2 * (await lead.get(`/api/campaigns/${campaign.id}/summary`)).text.length;
+    const maxBytes = Math.round(2.5 * oneAnswerBytes);
+    const small = new SummaryService({ dbFile: context.db.file, sqlite: context.db.sqlite, workers: 1, resultCacheMaxBytes: maxBytes });
+    try {
+      const campaigns = await context.store.campaigns.listByIds([campaign.id]);
+      const siteRow = (await context.store.sites.forUser({ id: "", role: "admin" } as never, site.id)).site;
+      const ask = (maxZenithDeg: number) =>
+        small.summary({ kind: "campaign", site: siteRow, campaigns, query: { maxZenithDeg }, ingestRejections: () => context.store.uploads.ingestRejections([campaign.id]) });
+      for (const limit of [10, 20, 30, 40, 50, 60]) await ask(limit);
+      const stats = small.stats();
+      expect(stats.cachedBytes).toBeLessThanOrEqual(maxBytes);
+      expect(stats.cachedAnswers).toBe(2);
+      // The newest answer is kept, the oldest was dropped.
+      const computations = stats.computations;
+      await ask(60);
+      expect(small.stats().computations).toBe(computations);
+      await ask(10);
+      expect(small.stats().computations).toBe(computations + 1);
+    } finally {
+      await small.close();
+    }
+  });
+
+  it("keep at most the configured bytes of sample columns, except those the running computation needs", async () => {
+    const a = await campaignWithSamples(0, 100);
+    const b = await campaignWithSamples(100, 200);
+    const connection = new Database(context.db.file, { readonly: true });
+    try {
+      // 100 samples: 5 600 bytes of columns, 1 200 more with the sort. Room for one campaign only.
+      expect(a.upload.samples.accepted).toBeGreaterThan(90);
+      const cache = new SampleCache(connection, { maxBytes: 8_000 });
+      cache.sync([a.campaign.id, b.campaign.id]);
+      cache.seeingSort(a.campaign.id);
+      cache.seeingSort(b.campaign.id);
+      // Both are pinned while the computation runs, even though together they exceed the bound.
+      expect(cache.heldCampaigns()).toEqual([a.campaign.id, b.campaign.id]);
+      cache.unpin([a.campaign.id, b.campaign.id]);
+      expect(cache.heldCampaigns()).toEqual([b.campaign.id]);
+      expect(cache.bytesHeld).toBeLessThanOrEqual(8_000);
+    } finally {
+      connection.close();
+    }
+  });
+});

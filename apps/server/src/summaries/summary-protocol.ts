@@ -1,0 +1,25 @@
+import type { SummaryTaskInputs, SummaryTaskKind } from "./tasks.server";
+
+// Messages between the summary service (main thread) and a summary worker thread.
+
+export interface SummaryWorkerOptions {
+  dbFile: string;
+  /** The bound of the worker's sample-column cache in bytes (SampleCache maxBytes). */
+  columnCacheMaxBytes: number;
+}
+
+export type ToSummaryWorker = { type: "task"; id: number; kind: SummaryTaskKind; input: SummaryTaskInputs[SummaryTaskKind] } | { type: "close" };
+
+export type FromSummaryWorker =
+  | {
+      type: "result";
+      id: number;
+      /** The answer as JSON text (serialised once, in the worker). */
+      json: string;
+      /** The data version of each campaign the answer was computed from, in the task's campaign order. */
+      versions: number[];
+      computeMs: number;
+      /** Bytes of sample columns the worker holds after the task. */
+      columnBytes: number;
+    }
+  | { type: "error"; id: number; message: string };

@@ -1,0 +1,295 @@
+import { availableParallelism } from "node:os";
+import { Worker } from "node:worker_threads";
+import type Database from "better-sqlite3";
+import { readDataVersions } from "./data-version.server";
+import type { FromSummaryWorker, SummaryWorkerOptions, ToSummaryWorker } from "./summary-protocol";
+import type { SamplesQuery, SiteSummaryBrief, SummaryQuery } from "@calmcrest/contracts";
+import type { CampaignRow, IngestRejections, SiteRow } from "../store/index";
+import { resolveQuery } from "./summarize.server";
+import type { SummaryTaskInputs, SummaryTaskKind } from "./tasks.server";
+
+// The summary service: every summary, site-list brief and sample series the API answers goes through compute().
+// Answers are cached as JSON text under (task kind, campaigns, their data versions, the request's normalised key);
+// a miss is computed by a small pool of worker threads (summary-worker.ts) that hold their own read-only SQLite
+// connection and sample columns, and identical requests in flight share one computation. See
+// docs/decisions/0008-summary-cache-and-workers.md.
+
+/** Bound of the cached answers (JSON text), in bytes and in count. */
+export const RESULT_CACHE_MAX_BYTES = 64 * 1024 * 1024;
+export const RESULT_CACHE_MAX_ENTRIES = 5000;
+/** Bound of the sample columns all summary workers hold together, in bytes (about 68 bytes a sample with its sort). */
+export const COLUMN_CACHE_MAX_BYTES = 256 * 1024 * 1024;
+/** One worker on a machine of two cores or fewer (the main thread needs the other), two above. */
+export const DEFAULT_SUMMARY_WORKERS = Math.min(2, Math.max(1, availableParallelism() - 1));
+/** A computation whose campaigns changed while it ran is done again (with fresh inputs) at most this often. */
+const MAX_ATTEMPTS = 3;
+
+export interface SummaryServiceOptions {
+  dbFile: string;
+  /** The main thread's raw connection, for reading data versions (a WAL read: never waits for a writer). */
+  sqlite: Database.Database;
+  workers?: number;
+  resultCacheMaxBytes?: number;
+  resultCacheMaxEntries?: number;
+  columnCacheMaxBytes?: number;
+}
+
+export interface ComputeRequest<Kind extends SummaryTaskKind> {
+  /** The campaigns the answer depends on (their data versions join the cache key). */
+  campaignIds: readonly number[];
+  /**
+   * Everything else the answer depends on, normalised (filters with their defaults filled in, the site's and
+   * campaigns' summarised fields): two requests with the same key get the same cached answer.
+   */
+  key: string;
+  /** The task's input, only asked for on a miss (it may read the database). */
+  input: () => Promise<SummaryTaskInputs[Kind]> | SummaryTaskInputs[Kind];
+}
+
+export interface SummaryServiceStats {
+  hits: number;
+  misses: number;
+  /** Misses that joined a computation already running for the same key. */
+  shared: number;
+  computations: number;
+  cachedAnswers: number;
+  cachedBytes: number;
+  /** Bytes of sample columns the workers reported holding after their last task. */
+  workerColumnBytes: number;
+}
+
+interface PendingTask {
+  resolve(result: { json: string; versions: number[] }): void;
+  reject(error: Error): void;
+}
+
+/** One worker thread and the tasks sent to it. */
+class SummaryWorker {
+  private worker: Worker | null = null;
+  private readonly pending = new Map<number, PendingTask>();
+  private nextId = 1;
+  columnBytes = 0;
+
+  constructor(private readonly options: SummaryWorkerOptions) {}
+
+  private ensure(): Worker {
+    if (this.worker) return this.worker;
+    const worker = new Worker(new URL("./summary-worker.mjs", import.meta.url), { workerData: this.options });
+    worker.on("message", (message: FromSummaryWorker) => {
+      const task = this.pending.get(message.id);
+      if (!task) return;
+      this.pending.delete(message.id);
+      if (message.type === "result") {
+        this.columnBytes = message.columnBytes;
+        task.resolve({ json: message.json, versions: message.versions });
+      } else {
+        task.reject(new Error(message.message));
+      }
+    });
+    const fail = (error: Error) => {
+      if (this.worker === worker) this.worker = null;
+      // A dead worker (out of memory, a bug) fails what it was given; the next task starts a fresh one.
+      for (const task of this.pending.values()) task.reject(error);
+      this.pending.clear();
+    };
+    worker.on("error", fail);
+    worker.on("exit", (code) => fail(new Error(`The summary worker stopped (exit code ${code}).`)));
+    this.worker = worker;
+    return worker;
+  }
+
+  get queued(): number {
+    return this.pending.size;
+  }
+
+  run<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): Promise<{ json: string; versions: number[] }> {
+    const worker = this.ensure();
+    const id = this.nextId;
+    this.nextId += 1;
+    return new Promise((resolve, reject) => {
+      this.pending.set(id, { resolve, reject });
+      worker.postMessage({ type: "task", id, kind, input } satisfies ToSummaryWorker);
+    });
+  }
+
+  async close(): Promise<void> {
+    const worker = this.worker;
+    this.worker = null;
+    if (!worker) return;
+    const exited = new Promise<void>((resolve) => worker.once("exit", () => resolve()));
+    worker.postMessage({ type: "close" } satisfies ToSummaryWorker);
+    const timeout = setTimeout(() => void worker.terminate(), 2000);
+    await exited;
+    clearTimeout(timeout);
+  }
+}
+
+/** Bytes a cached JSON answer and its key take (two bytes a character: the most a V8 string uses). */
+function answerBytes(key: string, json: string): number {
+  return (key.length + json.length) * 2;
+}
+
+/** The query with the engine's defaults filled in, as cache-key text: `?maxZenithDeg=60` and no parameter are the same answer. */
+function queryKey(query: SummaryQuery): string {
+  const { from, to, filters } = resolveQuery(query);
+  return JSON.stringify([from, to, filters.maxZenithDeg, filters.sunMaxDeg, filters.minFlux]);
+}
+
+/** The fields of the site and its campaigns a summary shows besides the samples (names, longitude, monitor). */
+function scopeKey(site: SiteRow, campaigns: readonly CampaignRow[]): string {
+  return JSON.stringify([
+    site.id,
+    site.name,
+    site.longitude,
+    campaigns.map((campaign) => [campaign.id, campaign.name, campaign.height_above_ground_m, campaign.response, campaign.wavelength_nm]),
+  ]);
+}
+
+function sameVersions(left: readonly number[], right: readonly number[]): boolean {
+  return left.length === right.length && left.every((version, index) => version === right[index]);
+}
+
+export class SummaryService {
+  private readonly answers = new Map<string, string>();
+  private answerBytes = 0;
+  private readonly inFlight = new Map<string, Promise<string>>();
+  private readonly workers: SummaryWorker[];
+  private readonly maxBytes: number;
+  private readonly maxEntries: number;
+  private readonly counters = { hits: 0, misses: 0, shared: 0, computations: 0 };
+
+  constructor(private readonly options: SummaryServiceOptions) {
+    const workerCount = Math.max(1, Math.floor(options.workers ?? DEFAULT_SUMMARY_WORKERS));
+    const columnCacheMaxBytes = Math.floor((options.columnCacheMaxBytes ?? COLUMN_CACHE_MAX_BYTES) / workerCount);
+    this.workers = Array.from({ length: workerCount }, () => new SummaryWorker({ dbFile: options.dbFile, columnCacheMaxBytes }));
+    this.maxBytes = options.resultCacheMaxBytes ?? RESULT_CACHE_MAX_BYTES;
+    this.maxEntries = options.resultCacheMaxEntries ?? RESULT_CACHE_MAX_ENTRIES;
+  }
+
+  /**
+   * The answer of task `kind` as JSON text: from the cache when the campaigns' data versions are the ones it was
+   * computed at, else computed by a worker (once for all identical requests in flight) and cached. The versions
+   * are read when the request is served, so a request made after a change committed never gets an answer from
+   * before it.
+   */
+  compute<Kind extends SummaryTaskKind>(kind: Kind, request: ComputeRequest<Kind>): Promise<string> {
+    const versions = readDataVersions(this.options.sqlite, request.campaignIds);
+    const cacheKey = `${kind}|${request.campaignIds.join(",")}|v${versions.join(",")}|${request.key}`;
+    const cached = this.answers.get(cacheKey);
+    if (cached !== undefined) {
+      this.counters.hits += 1;
+      // Map order is the LRU order: move it to the end.
+      this.answers.delete(cacheKey);
+      this.answers.set(cacheKey, cached);
+      return Promise.resolve(cached);
+    }
+    this.counters.misses += 1;
+    const running = this.inFlight.get(cacheKey);
+    if (running) {
+      this.counters.shared += 1;
+      return running;
+    }
+    const computation = this.computeFresh(kind, request, versions, cacheKey).finally(() => this.inFlight.delete(cacheKey));
+    this.inFlight.set(cacheKey, computation);
+    return computation;
+  }
+
+  private async computeFresh<Kind extends SummaryTaskKind>(kind: Kind, request: ComputeRequest<Kind>, versions: number[], cacheKey: string): Promise<string> {
+    let expected = versions;
+    let key = cacheKey;
+    for (let attempt = 1; ; attempt += 1) {
+      const input = await request.input();
+      const worker = this.workerFor(request.campaignIds);
+      this.counters.computations += 1;
+      const result = await worker.run(kind, input);
+      if (sameVersions(result.versions, expected)) {
+        this.remember(key, result.json);
+        return result.json;
+      }
+      // A campaign changed between reading the versions (and the input) and the worker's snapshot: the samples are
+      // newer than the input, so compute again from fresh inputs; after a few tries give the newest as it is.
+      if (attempt >= MAX_ATTEMPTS) return result.json;
+      expected = readDataVersions(this.options.sqlite, request.campaignIds);
+      key = `${kind}|${request.campaignIds.join(",")}|v${expected.join(",")}|${request.key}`;
+    }
+  }
+
+  /** The same campaigns go to the same worker (so their columns are held once); otherwise the least busy. */
+  private workerFor(campaignIds: readonly number[]): SummaryWorker {
+    const first = campaignIds[0];
+    if (this.workers.length === 1 || first === undefined) return this.leastBusy();
+    const preferred = this.workers[first % this.workers.length];
+    const idle = this.leastBusy();
+    // Stay with the campaign's worker unless it is clearly busier than another.
+    return preferred && preferred.queued <= idle.queued + 2 ? preferred : idle;
+  }
+
+  private leastBusy(): SummaryWorker {
+    let best = this.workers[0];
+    for (const worker of this.workers) if (best === undefined || worker.queued < best.queued) best = worker;
+    if (!best) throw new Error("The summary service has no worker.");
+    return best;
+  }
+
+  private remember(key: string, json: string): void {
+    const previous = this.answers.get(key);
+    if (previous !== undefined) {
+      this.answers.delete(key);
+      this.answerBytes -= answerBytes(key, previous);
+    }
+    // An answer larger than the whole bound is served but not kept.
+    if (answerBytes(key, json) > this.maxBytes) return;
+    this.answers.set(key, json);
+    this.answerBytes += answerBytes(key, json);
+    for (const [oldKey, oldJson] of this.answers) {
+      if (this.answerBytes <= this.maxBytes && this.answers.size <= this.maxEntries) break;
+      this.answers.delete(oldKey);
+      this.answerBytes -= answerBytes(oldKey, oldJson);
+    }
+  }
+
+  /** GET …/summary: the summary of a campaign or of a site's visible campaigns, as JSON text. */
+  summary(request: {
+    kind: "campaign" | "site";
+    site: SiteRow;
+    campaigns: CampaignRow[];
+    query: SummaryQuery;
+    /** The campaigns' ingest rejections (store.uploads.ingestRejections), read only on a miss. */
+    ingestRejections: () => Promise<IngestRejections>;
+  }): Promise<string> {
+    const { kind, site, campaigns, query } = request;
+    return this.compute("summary", {
+      campaignIds: campaigns.map((campaign) => campaign.id),
+      key: `${kind}|${scopeKey(site, campaigns)}|${queryKey(query)}`,
+      input: async () => ({ kind, site, campaigns, query, ingestRejections: await request.ingestRejections() }),
+    });
+  }
+
+  /** The site list's short summary of a site over these campaigns (default filters). */
+  async brief(site: SiteRow, campaignIds: number[]): Promise<SiteSummaryBrief | null> {
+    const json = await this.compute("brief", { campaignIds, key: JSON.stringify([site.id, site.longitude]), input: () => ({ site, campaignIds }) });
+    return JSON.parse(json) as SiteSummaryBrief | null;
+  }
+
+  /** GET …/samples: the thinned sample series, as JSON text. */
+  series(campaignIds: number[], longitudeDeg: number, query: SamplesQuery): Promise<string> {
+    return this.compute("series", {
+      campaignIds,
+      key: JSON.stringify([longitudeDeg, queryKey(query), query.night ?? null, query.maxPoints ?? null]),
+      input: () => ({ campaignIds, longitudeDeg, query }),
+    });
+  }
+
+  stats(): SummaryServiceStats {
+    return {
+      ...this.counters,
+      cachedAnswers: this.answers.size,
+      cachedBytes: this.answerBytes,
+      workerColumnBytes: this.workers.reduce((sum, worker) => sum + worker.columnBytes, 0),
+    };
+  }
+
+  async close(): Promise<void> {
+    await Promise.all(this.workers.map((worker) => worker.close()));
+  }
+}

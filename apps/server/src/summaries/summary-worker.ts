@@ -1,0 +1,45 @@
+import { parentPort, workerData } from "node:worker_threads";
+import Database from "better-sqlite3";
+import { SampleCache } from "./sample-cache.server";
+import type { FromSummaryWorker, SummaryWorkerOptions, ToSummaryWorker } from "./summary-protocol";
+import { SUMMARY_TASKS, type SummaryTaskInputs, type SummaryTaskKind } from "./tasks.server";
+
+// A summary worker thread: its own read-only SQLite connection and its own per-campaign column cache, so loading
+// a million rows and computing a summary never run on the main thread (docs/decisions/0008-summary-cache-and-workers.md).
+// It reads in WAL mode: an ingest's open write transaction never blocks it, and it never writes.
+
+const options = workerData as SummaryWorkerOptions;
+const connection = new Database(options.dbFile, { readonly: true, fileMustExist: true });
+// A reader never needs the write lock; a short busy wait covers the moment a checkpoint resets the WAL.
+connection.pragma("busy_timeout = 5000");
+const cache = new SampleCache(connection, { maxBytes: options.columnCacheMaxBytes });
+
+function post(message: FromSummaryWorker): void {
+  parentPort?.postMessage(message);
+}
+
+function runTask<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): { json: string; versions: number[] } {
+  const definition = SUMMARY_TASKS[kind] as { campaignIds(input: SummaryTaskInputs[Kind]): readonly number[]; run(cache: SampleCache, input: SummaryTaskInputs[Kind]): unknown };
+  const campaignIds = definition.campaignIds(input);
+  const { versions } = cache.sync(campaignIds);
+  try {
+    return { json: JSON.stringify(definition.run(cache, input)), versions };
+  } finally {
+    cache.unpin(campaignIds);
+  }
+}
+
+parentPort?.on("message", (message: ToSummaryWorker) => {
+  if (message.type === "close") {
+    connection.close();
+    parentPort?.close();
+    return;
+  }
+  const startedMs = performance.now();
+  try {
+    const { json, versions } = runTask(message.kind, message.input);
+    post({ type: "result", id: message.id, json, versions, computeMs: performance.now() - startedMs, columnBytes: cache.bytesHeld });
+  } catch (error) {
+    post({ type: "error", id: message.id, message: error instanceof Error ? error.message : String(error) });
+  }
+});

@@ -140,3 +140,4 @@ export {
   type ComparisonWarnings,
   type ComparedSiteFacts,
 } from './compare/comparisonWarnings.js';
+export { prepareSite, comparePreparedPaired, comparePreparedUnpaired, type PreparedSite } from './compare/preparedComparison.js';

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import type { ComparisonResponse, SiteListItem } from "@calmcrest/contracts";
 import { seedDemoScenario } from "../seed/demo-scenario";
-import { createTestServer, signedInAgent } from "../test-support";
+import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
 
 // The demo scenario at a tenth of its length: four invented ridges, the engineer a member at two of them.
 const { app, context } = await createTestServer();
@@ -53,6 +53,21 @@ describe("GET /api/comparisons", () => {
     expect(body.kind).toBe("campaigns");
     expect(body.rows.map((row) => row.label)).toContain("Tern Ridge — Tern Ridge low tower");
     expect(body.pairing).toEqual({ matching: "bins", binMinutes: 10 });
+  });
+
+  it("answers a repeated comparison from its cache until the data changes, then computes it afresh", async () => {
+    const query = `/api/comparisons?sites=${idOf("Quartz Shoulder")},${idOf("Condor Spur")}`;
+    const first = (await lead.get(query)).body as ComparisonResponse;
+    const again = (await lead.get(query)).body as ComparisonResponse;
+    expect(again.generatedAt).toBe(first.generatedAt);
+    const quartz = first.rows.find((row) => row.label === "Quartz Shoulder");
+    const campaignId = quartz?.campaigns[0]?.id ?? 0;
+    const excluded = await lead.post(`/api/campaigns/${campaignId}/exclusions`).set(SAME_ORIGIN).send({ from: "2025-01-01", to: "2025-04-01", reason: "monitor realigned" });
+    expect(excluded.status).toBe(201);
+    const after = (await lead.get(query)).body as ComparisonResponse;
+    expect(after.rows.find((row) => row.label === "Quartz Shoulder")?.statistics?.samples).toBeLessThan(quartz?.statistics?.samples ?? 0);
+    expect(after.rows.find((row) => row.label === "Quartz Shoulder")?.campaigns[0]?.exclusions).toEqual([{ from: "2025-01-01T00:00:00.000Z", to: "2025-04-01T00:00:00.000Z", reason: "monitor realigned" }]);
+    await lead.delete(`/api/campaigns/${campaignId}/exclusions/${(excluded.body as { id: number }).id}`).set(SAME_ORIGIN);
   });
 
   it("answers 404 to an engineer for a site outside their campaigns, and compares the two they belong to", async () => {

@@ -1,13 +1,14 @@
 import type { User } from "lucia";
 import {
-  compareSeeing,
-  comparePairedNights,
+  comparePreparedPaired,
+  comparePreparedUnpaired,
   comparisonWarnings,
   DEFAULT_FILTERS,
   describePairedVerdict,
   differenceHistogram,
   percentileSorted,
   predictTelescopeFwhm,
+  prepareSite,
   RESPONSE_SET_LABELS,
   RESPONSE_SET_NAMES,
   summarizeSeeingPresorted,
@@ -64,7 +65,8 @@ export interface ComparisonSettings {
 /**
  * The comparison of 2–6 rows from their selected samples: each row's summary (the engine's summarizeSeeingPresorted),
  * its predicted telescope FWHM (predictTelescopeFwhm), every pair's paired figures on common nights
- * (comparePairedNights, with the verdict in words) beside the unpaired ones (compareSeeing), and the comparison's
+ * (comparePairedNights, with the verdict in words) beside the unpaired ones (compareSeeing), both through the
+ * engine's prepared-site entry points (the same results, each row's nights arranged once for all its pairs), and the comparison's
  * warnings per row, per pair and overall (comparisonWarnings). Pure: the same input gives the same output.
  */
 export function computeComparison(items: readonly ComparisonItemInput[], settings: ComparisonSettings): ComparisonResponse {
@@ -138,6 +140,17 @@ export function computeComparison(items: readonly ComparisonItemInput[], setting
     };
   });
 
+  // Each row's samples arranged once for all its pairs (nights, nightly medians, bootstrap replicates).
+  const preparedRows = new Map<number, ReturnType<typeof prepareSite>>();
+  const prepared = (index: number) => {
+    const cached = preparedRows.get(index);
+    if (cached) return cached;
+    const item = items[index];
+    if (!item) throw new Error(`no comparison row ${index}`);
+    const made = prepareSite({ timeMs: item.selected.timeMs, seeingArcsec: item.selected.seeingArcsec }, item.selected.presorted, { longitudeDeg: item.site.longitude });
+    preparedRows.set(index, made);
+    return made;
+  };
   const pairs: ComparisonPair[] = warnings.pairs.map(({ a, b, warnings: pairWarnings }) => {
     const itemA = items[a];
     const itemB = items[b];
@@ -145,16 +158,14 @@ export function computeComparison(items: readonly ComparisonItemInput[], setting
     if (!itemA || !itemB || itemA.selected.seeingArcsec.length === 0 || itemB.selected.seeingArcsec.length === 0) {
       return { ...base, paired: null, unpaired: null };
     }
-    const columnsA = { timeMs: itemA.selected.timeMs, seeingArcsec: itemA.selected.seeingArcsec };
-    const columnsB = { timeMs: itemB.selected.timeMs, seeingArcsec: itemB.selected.seeingArcsec };
-    const longitudes = { longitudeDegA: itemA.site.longitude, longitudeDegB: itemB.site.longitude };
-    const paired = comparePairedNights(columnsA, columnsB, {
-      ...longitudes,
+    const preparedA = prepared(a);
+    const preparedB = prepared(b);
+    const paired = comparePreparedPaired(preparedA, preparedB, {
       ...(matchedBinMinutes === undefined ? {} : { matchedBinMinutes }),
       bootstrapReplicates: REPLICATES,
       seed: SEED,
     });
-    const unpaired = compareSeeing(columnsA, columnsB, { ...longitudes, bootstrapReplicates: REPLICATES, seed: SEED });
+    const unpaired = comparePreparedUnpaired(preparedA, preparedB, { bootstrapReplicates: REPLICATES, seed: SEED });
     const { nights, ...differencePercentiles } = paired.nightlyDifferences;
     return {
       ...base,
@@ -243,6 +254,24 @@ function comparedCampaigns(
   });
 }
 
+/** Finished comparisons kept per store until the next change of any kind; at most this many. */
+const CACHED_COMPARISONS = 16;
+const comparisonCaches = new WeakMap<AppContext["store"], Map<string, ComparisonResponse>>();
+
+/**
+ * The comparison cache of this store: the same query over the same data gives the same answer, so a repeated
+ * comparison (a bookmark opened again, the page's own refetch) is served from here. Every committed change (an
+ * ingest, an exclusion, a campaign's settings, membership) clears it, so no answer outlives its data.
+ */
+function comparisonCache(store: AppContext["store"]): Map<string, ComparisonResponse> {
+  const existing = comparisonCaches.get(store);
+  if (existing) return existing;
+  const cache = new Map<string, ComparisonResponse>();
+  store.onChange({ name: "comparison-cache", afterCommit: () => cache.clear() });
+  comparisonCaches.set(store, cache);
+  return cache;
+}
+
 /** A 400 naming the parameter for an id that does not exist (for a caller who can see every site and campaign). */
 function unknownId(parameter: "sites" | "campaigns", id: number): HttpError {
   const what = parameter === "sites" ? "site" : "campaign";
@@ -285,6 +314,12 @@ export async function compareForUser(context: AppContext, user: User, query: Com
       rowsToLoad.push({ key: `site:${site.id}`, label: site.name, site, campaignId: null, campaignIds });
     }
   }
+  const telescope = { apertureM: query.apertureM ?? null, bandNm: query.bandNm, outerScaleM: query.outerScaleM };
+  // The rows as this caller sees them (their campaigns) are part of the key, so access never leaks through the cache.
+  const cacheKey = JSON.stringify({ kind, rows: rowsToLoad.map((row) => [row.key, row.label, row.campaignIds]), resolved, telescope, pairing: query.pairing });
+  const cache = comparisonCache(store);
+  const cached = cache.get(cacheKey);
+  if (cached) return cached;
   const allCampaignIds = rowsToLoad.flatMap((row) => row.campaignIds);
   const campaignRows = await store.campaigns.listByIds(allCampaignIds);
   const uploads = await store.uploads.doneOf(allCampaignIds);
@@ -301,11 +336,8 @@ export async function compareForUser(context: AppContext, user: User, query: Com
       summaryContext: { responseSets: compared.map((campaign) => campaign.responseName), monitorHeightsM: compared.map((campaign) => campaign.heightAboveGroundM) },
     };
   });
-  return computeComparison(items, {
-    kind,
-    resolved,
-    telescope: { apertureM: query.apertureM ?? null, bandNm: query.bandNm, outerScaleM: query.outerScaleM },
-    pairing: query.pairing,
-    generatedAt: new Date().toISOString(),
-  });
+  const comparison = computeComparison(items, { kind, resolved, telescope, pairing: query.pairing, generatedAt: new Date().toISOString() });
+  if (cache.size >= CACHED_COMPARISONS) cache.delete(cache.keys().next().value ?? "");
+  cache.set(cacheKey, comparison);
+  return comparison;
 }

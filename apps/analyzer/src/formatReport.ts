@@ -1,4 +1,4 @@
-import type { TelescopePrediction } from '@calmcrest/seeing-stats';
+import { MAX_NOISE_SHARE, type TelescopePrediction } from '@calmcrest/seeing-stats';
 import type { AnalyzerReport } from '@calmcrest/seeing-stats/node';
 
 const arcsec = (value: number): string => (Number.isFinite(value) ? `${value.toFixed(2)}″` : '–');
@@ -34,11 +34,14 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
   lines.push('');
   lines.push(`Rows read ${samples.read}: accepted ${samples.accepted}, rejected ${samples.rejected}`);
   const reasons = Object.entries(samples.rejectedByReason).sort((left, right) => right[1] - left[1]);
-  for (const [reason, count] of reasons) lines.push(`  ${reason.padEnd(16)} ${String(count).padStart(8)}`);
+  for (const [reason, count] of reasons) lines.push(`  ${reason.padEnd(29)} ${String(count).padStart(8)}`);
   if (samples.anisotropic > 0) lines.push(`  (${samples.anisotropic} accepted samples flagged anisotropic, kept by --keep-anisotropic: their two axes disagree)`);
   if (samples.exposureCorrected + samples.exposureNotCorrectedNoisy > 0) {
     lines.push(`Exposure time: ${samples.exposureCorrected} accepted samples extrapolated to zero exposure from the τ and 2τ variances (ε(τ)^1.75 ε(2τ)^-0.75, Tokovinin 2002)`);
     lines.push(`  ${samples.exposureNotCorrectedNoisy} accepted samples left uncorrected as noise-dominated (ε(2τ) > ε(τ) on an axis)`);
+  }
+  if (!report.method.noiseSubtraction.startsWith('not applied')) {
+    lines.push(`Centroid noise: 2σc² subtracted from each axis's variance before the reduction (samples with noise above ${MAX_NOISE_SHARE * 100} % of a variance rejected as noise_dominated)`);
   }
   if (samples.firstTimeUtc !== null && samples.lastTimeUtc !== null) lines.push(`Time span: ${samples.firstTimeUtc} to ${samples.lastTimeUtc}, ${report.nights} nights`);
   lines.push('');

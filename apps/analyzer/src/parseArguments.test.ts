@@ -45,11 +45,15 @@ describe('analyzer arguments', () => {
     expect(parsed.options.filters).toEqual({ leaveOutAnisotropic: false });
     expect(parsed.options.wavelengthGiven).toBe(true);
   });
+  it('read --map field= as "the file has no such column", so that field is not matched by name', () => {
+    expect(parseArguments(['log.csv', '--map', 'zenith_deg=ZD', '--map', 'flux=']).options.mapping).toEqual({ zenith_deg: 'ZD', flux: null });
+  });
   it('refuse what they cannot use, saying what is wrong', () => {
     expect(() => parseArguments(['log.csv', '--pixel-scale'])).toThrow(new UsageError('Unknown flag --pixel-scale. Run with --help for the list of flags.'));
     expect(() => parseArguments(['log.csv', '--aperture-mm'])).toThrow(/--aperture-mm needs a number/);
     expect(() => parseArguments(['log.csv', '--response', 'centroid'])).toThrow(/z-tilt, g-tilt, sarazin-roddier/);
     expect(() => parseArguments(['log.csv', '--map', 'fwhm=FWHM'])).toThrow(/Calmcrest field name/);
+    expect(() => parseArguments(['log.csv', '--map', 'flux'])).toThrow(/Calmcrest field name/);
     expect(() => parseArguments(['a.csv', 'b.csv'])).toThrow(/one log file/);
     expect(() => parseArguments(['log.csv', '--site-lon', '10'])).toThrow(/both --site-lat and --site-lon/);
     expect(() => parseArguments(['log.csv', '--thresholds', '0.6,x'])).toThrow(/--thresholds/);

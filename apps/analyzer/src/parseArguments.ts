@@ -1,4 +1,4 @@
-import { isLogField, RESPONSE_SETS, type ColumnMapping, type ResponseSet } from '@calmcrest/seeing-stats';
+import { isLogField, RESPONSE_SETS, type MappingOverrides, type ResponseSet } from '@calmcrest/seeing-stats';
 import type { AnalyzeOptions } from '@calmcrest/seeing-stats/node';
 
 export class UsageError extends Error {
@@ -30,7 +30,7 @@ Monitor
   --exposure-ms T            exposure time per frame (recorded in the output)
   --response SET             z-tilt (default) | g-tilt | sarazin-roddier
 Columns
-  --map field=Header         the file's column "Header" holds field (repeatable), e.g. --map seeing_arcsec="FWHM [arcsec]"
+  --map field=Header         the file's column "Header" holds field (repeatable; other fields still match by name), e.g. --map zenith_deg=ZD; field= reads no column for field
 Filters
   --site-lat DEG --site-lon DEG   site position (east positive); turns on the night filter and names nights
                              and seasons by the site (without it nights split at 12:00 UTC: a warning)
@@ -88,7 +88,7 @@ function readNumberFlag(flag: string, text: string | undefined): number {
 /** Parses the analyzer's command line; throws UsageError with a message a person can act on. */
 export function parseArguments(argv: readonly string[]): AnalyzerArguments {
   const numbers = new Map<string, number>();
-  const mapping: ColumnMapping = {};
+  const mapping: MappingOverrides = {};
   let file: string | null = null;
   let json = false;
   let help = false;
@@ -119,10 +119,11 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       const split = value.indexOf('=');
       const field = split > 0 ? value.slice(0, split).trim() : '';
       const header = split > 0 ? value.slice(split + 1) : '';
-      if (!isLogField(field) || header === '') {
+      if (!isLogField(field)) {
         throw new UsageError(`--map needs field=Header with a Calmcrest field name (time_utc, seeing_arcsec, airmass, …; see the README, "Log format"), got "${value}".`);
       }
-      mapping[field] = header;
+      // field= (nothing after the '=') says the file has no such column: the field is not matched by name either.
+      mapping[field] = header === '' ? null : header;
     } else if (flag === '--thresholds') {
       const value = takeValue() ?? '';
       const parsed = value.split(',').map((part) => Number(part));

@@ -22,6 +22,17 @@ export const columnMappingSchema = z.partialRecord(
 );
 export type ColumnMappingInput = z.infer<typeof columnMappingSchema>;
 
+/**
+ * The mapping sent with an upload or a preview (like the analyzer's `--map`): it overrides only the fields it
+ * names (a header, or null for "this file has no such column"); every other field is matched by name. `{}`
+ * overrides nothing. The upload wizard sends every field (exactMapping), so the server reads what was checked.
+ */
+export const mappingOverridesSchema = z.partialRecord(
+  z.enum(LOG_FIELDS, { error: "Unknown field name; use one of the native log fields (time_utc, seeing_arcsec, ...)." }),
+  z.string().min(1, "A mapped header cannot be empty; send null for a field the file does not have.").nullable(),
+);
+export type MappingOverridesInput = z.infer<typeof mappingOverridesSchema>;
+
 const positive = (name: string, unit: string) =>
   z
     .number({ error: `${name} must be a positive number of ${unit}.` })

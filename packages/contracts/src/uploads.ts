@@ -18,6 +18,8 @@ export const REJECT_REASONS = [
   "missing_value",
   "non_decimal_number",
   "non_physical",
+  "noise_dominated",
+  "exposure_correction_too_large",
   "implausible_seeing",
   "duplicate_time",
   "zenith_limit",

@@ -42,8 +42,8 @@ export { nightIntervalStatus, MINIMUM_NIGHTS_FOR_INTERVAL, APPROXIMATE_INTERVAL_
 export { simulateIntervalCoverage, type CoverageOptions, type CoverageResult } from './stats/simulateIntervalCoverage.js';
 
 // Log format: fields, mapping, delimiter, rows, filters, preview.
-export { LOG_FIELDS, LOG_FIELD_INFO, isLogField, type LogField, type ColumnMapping, type FieldRequirement } from './log/logFields.js';
-export { proposeMapping } from './log/proposeMapping.js';
+export { LOG_FIELDS, LOG_FIELD_INFO, isLogField, type LogField, type ColumnMapping, type MappingOverrides, type FieldRequirement } from './log/logFields.js';
+export { proposeMapping, exactMapping } from './log/proposeMapping.js';
 export { checkMapping } from './log/checkMapping.js';
 export { detectDelimiter, type LogDelimiter } from './log/detectDelimiter.js';
 export { parseUtcTime } from './log/parseUtcTime.js';
@@ -52,6 +52,7 @@ export {
   createRowReader,
   chooseMeasure,
   interlacedFields,
+  noiseFields,
   validateMonitor,
   DEFAULT_ANISOTROPY_RATIO_LIMIT,
   DEFAULT_MIN_SEEING_ARCSEC,
@@ -62,6 +63,9 @@ export {
   validatePlausibility,
   type PlausibilityWindow,
   EXPOSURE_CORRECTION_METHOD,
+  NOISE_SUBTRACTION_METHOD,
+  MAX_EXPOSURE_CORRECTION_FACTOR,
+  MAX_NOISE_SHARE,
   type ExposureCorrection,
   type MonitorSettings,
   type LogSample,
@@ -126,7 +130,7 @@ export { compareSeeing, type SiteComparison } from './summary/compareSeeing.js';
 export { pairNights, type NightPairing, type PairedNight, type PairingOptions } from './summary/pairNights.js';
 export { comparePairedNights, type PairedComparison } from './summary/comparePairedNights.js';
 export { predictTelescopeFwhm, type TelescopePrediction } from './summary/predictTelescopeFwhm.js';
-export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs } from './summary/nightLabel.js';
+export { nightLabel, localSolarHour, nightDayNumber, solarOffsetMs, normalizeLongitudeDeg } from './summary/nightLabel.js';
 
 // Comparing sites: verdict sentences, the nightly-difference histogram, warnings for a side-by-side table.
 export { describePairedVerdict, formatPValue, formatSignedArcsec } from './compare/describePairedVerdict.js';

@@ -1,7 +1,7 @@
 import { createReadStream } from "node:fs";
 import { parentPort } from "node:worker_threads";
 import Database from "better-sqlite3";
-import { describeLogFormatError, LogFormatError } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, exactMapping, LogFormatError } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import { tune } from "../db/tune.server";
 import { BUMP_DATA_VERSION_SQL } from "../summaries/data-version.server";
@@ -68,7 +68,8 @@ async function ingest(job: IngestJob): Promise<void> {
     const result = await streamLog(
       createReadStream(job.rawPath),
       {
-        mapping: job.mapping,
+        // The stored mapping is complete (checked at upload): read exactly it, with nothing matched by name again.
+        mapping: exactMapping(job.mapping),
         monitor: job.monitor,
         site: job.site,
         onProgress: (bytesRead) => {

@@ -86,9 +86,12 @@ describe("the data-samples logs through the upload API", () => {
     });
   }
 
-  it("accepts a mapping that names the 2x variance fields, and reads the file without them when they are left out", async () => {
-    const singleExposure = { time_utc: "time_utc", var_long_arcsec2: "var_long_arcsec2", var_trans_arcsec2: "var_trans_arcsec2", zenith_deg: "zenith_deg", flux: "flux" };
-    const interlaced = { ...singleExposure, var_long_2x_arcsec2: "var_long_2x_arcsec2", var_trans_2x_arcsec2: "var_trans_2x_arcsec2" };
+  it("accepts a mapping that names the 2x variance fields, and reads the file without them when they are set to null", async () => {
+    // A sent mapping overrides only the fields it names (issue 12): leaving the 2τ fields out would still match
+    // them by name, so "without them" is said with null.
+    const base = { time_utc: "time_utc", var_long_arcsec2: "var_long_arcsec2", var_trans_arcsec2: "var_trans_arcsec2", zenith_deg: "zenith_deg", flux: "flux" };
+    const singleExposure = { ...base, var_long_2x_arcsec2: null, var_trans_2x_arcsec2: null };
+    const interlaced = { ...base, var_long_2x_arcsec2: "var_long_2x_arcsec2", var_trans_2x_arcsec2: "var_trans_2x_arcsec2" };
     const file = join(DATA_SAMPLES, "native-interlaced.csv");
     const withPairs = await createSiteAndCampaign(lead);
     const postedPairs = await postUpload(lead, withPairs.campaign.id, file, "log.csv", interlaced);

@@ -26,7 +26,7 @@ export async function createSiteAndCampaign(
 }
 
 /** Posts a file (path or bytes) to a campaign; returns the response. */
-export function postUpload(agent: Agent, campaignId: number, file: string | Buffer, fileName = "log.csv", mapping?: Record<string, string>) {
+export function postUpload(agent: Agent, campaignId: number, file: string | Buffer, fileName = "log.csv", mapping?: Record<string, string | null>) {
   const request = agent.post(`/api/campaigns/${campaignId}/uploads`).set(SAME_ORIGIN);
   if (mapping) void request.field("mapping", JSON.stringify(mapping));
   return typeof file === "string" ? request.attach("file", file) : request.attach("file", file, fileName);

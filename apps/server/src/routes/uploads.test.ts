@@ -133,6 +133,30 @@ describe("uploading a log", () => {
     expect(await tableRows(context, "upload", { campaign_id: campaign.id })).toHaveLength(0);
   });
 
+  it("reads a sent mapping as overrides of the named fields only: {} overrides nothing, null leaves a column unread", async () => {
+    const { campaign } = await createSiteAndCampaign(lead, monitor);
+    const log = ["time_utc,seeing_arcsec,ZD,flux", "2025-03-01T02:00:00Z,0.8,20,100", "2025-03-01T02:10:00Z,0.9,,200"].join("\n");
+    const preview = async (mapping: Record<string, string | null>) => {
+      const response = await lead.post(`/api/campaigns/${campaign.id}/uploads/preview`).set(SAME_ORIGIN).field("mapping", JSON.stringify(mapping)).attach("file", Buffer.from(log), "zd.csv");
+      expect(response.status).toBe(200);
+      return response.body as UploadPreview;
+    };
+    const named = await preview({ zenith_deg: "ZD" });
+    expect(named.mappingUsed).toEqual({ time_utc: "time_utc", seeing_arcsec: "seeing_arcsec", zenith_deg: "ZD", flux: "flux" });
+    expect((await preview({})).mappingUsed).toEqual(named.mappingUsed);
+    expect((await preview({ flux: null })).mappingUsed).toEqual({ time_utc: "time_utc", seeing_arcsec: "seeing_arcsec", zenith_deg: "ZD" });
+
+    // The upload stores the mapping it read with, and the ingest reads exactly that (flux stays unread).
+    const posted = await postUpload(lead, campaign.id, Buffer.from(log), "zd.csv", { flux: null });
+    expect(posted.status).toBe(202);
+    const done = await waitForUpload(lead, posted.body.upload.id);
+    expect(done.mapping).toEqual({ time_utc: "time_utc", seeing_arcsec: "seeing_arcsec", zenith_deg: "ZD" });
+    // The second row has no zenith angle and no airmass column to fall back to: missing_value.
+    expect(done.samples).toMatchObject({ read: 2, accepted: 1, rejectedByReason: { missing_value: 1 } });
+    const stored = await tableRows(context, "sample", { upload_id: done.id });
+    expect(stored.map((row) => row.flux)).toEqual([null]);
+  });
+
   it("lets a member engineer upload, answers 404 to a non-member and 403 to an administrator", async () => {
     const { campaign } = await createSiteAndCampaign(lead, monitor);
     expect((await postUpload(engineer, campaign.id, nativeLog)).status).toBe(404);

@@ -1,8 +1,8 @@
 import { access } from "node:fs/promises";
 import type { RequestHandler } from "express";
 import multer from "multer";
-import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type ColumnMapping } from "@calmcrest/seeing-stats";
-import { columnMappingSchema, spreadsheetSafeCsv, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
+import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type MappingOverrides } from "@calmcrest/seeing-stats";
+import { mappingOverridesSchema, spreadsheetSafeCsv, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
@@ -30,8 +30,11 @@ function accessedCampaign(locals: Express.Locals): CampaignRow {
   return locals.campaign;
 }
 
-/** The multipart `mapping` field: JSON field -> header, or absent (then the engine's proposal is used). */
-function parseMappingField(value: unknown): ColumnMapping | undefined {
+/**
+ * The multipart `mapping` field: JSON field -> header (or null: not in the file), overriding only the fields it
+ * names; absent or `{}`, every field is matched by name.
+ */
+function parseMappingField(value: unknown): MappingOverrides | undefined {
   if (value === undefined || value === "") return undefined;
   if (typeof value !== "string") throw new HttpError(400, "invalid_input", "The mapping must be one JSON text field.", { mapping: ["Send one mapping field."] });
   let parsed: unknown;
@@ -42,7 +45,7 @@ function parseMappingField(value: unknown): ColumnMapping | undefined {
       mapping: ["Not valid JSON."],
     });
   }
-  return parseOr400(columnMappingSchema, parsed, "The mapping");
+  return parseOr400(mappingOverridesSchema, parsed, "The mapping");
 }
 
 /** Runs a multer middleware and turns its errors into the API's JSON errors (413 names the limit in MB). */
@@ -106,10 +109,11 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
       const answer: UploadPreview = {
         delimiter: preview.delimiter,
         headers: preview.headers,
-        // The proposal is always from the headers, so the wizard can offer it even when a mapping was sent.
+        // The proposal is always from the headers alone, so the wizard can offer it even when a mapping was sent.
         proposedMapping: mapping ? previewLog(text, { monitor: monitorOf(campaign), maxRows: 0 }).proposedMapping : preview.proposedMapping,
         mappingProblems: preview.mappingProblems,
-        mappingUsed: mapping ?? preview.proposedMapping,
+        // The overrides sent, with every other field matched by name: what an upload would read.
+        mappingUsed: preview.proposedMapping,
         rows: preview.rows,
       };
       res.json(answer);
@@ -125,7 +129,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     const campaign = accessedCampaign(res.locals);
     const file = req.file as (Express.Multer.File & HashedFile) | undefined;
     if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file".', { file: ["No file was sent."] });
-    let mapping: ColumnMapping | undefined;
+    let mapping: MappingOverrides | undefined;
     try {
       mapping = parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping);
     } catch (error) {

@@ -1,5 +1,5 @@
 import { createReadStream } from "node:fs";
-import { describeLogFormatError, LogFormatError, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, LogFormatError, type ColumnMapping, type MappingOverrides, type MonitorSettings } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
@@ -13,9 +13,10 @@ class HeaderChecked extends Error {}
  * Reads the start of the stored file through the same streaming reader the ingest uses and stops as soon as the
  * header line has been read and its mapping checked (however long the header, up to the engine's line limit):
  * binary, UTF-16 and empty files, repeated or unsplittable headers and mappings that cannot work throw the
- * engine's LogFormatError (with its line). Gives the mapping the ingest will use: the one sent, or the proposal.
+ * engine's LogFormatError (with its line). Gives the mapping the ingest will use: the overrides sent, every other
+ * field matched by name.
  */
-async function checkHeader(path: string, monitor: MonitorSettings, mapping: ColumnMapping | undefined): Promise<ColumnMapping> {
+async function checkHeader(path: string, monitor: MonitorSettings, mapping: MappingOverrides | undefined): Promise<ColumnMapping> {
   let used: ColumnMapping | null = null;
   const stop = () => {
     throw new HeaderChecked();
@@ -58,7 +59,7 @@ export type AcceptResult = RecordResult;
  */
 export async function acceptUpload(
   context: AppContext,
-  input: { campaign: CampaignRow; userId: string; file: HashedFile; fileName: string; mapping: ColumnMapping | undefined },
+  input: { campaign: CampaignRow; userId: string; file: HashedFile; fileName: string; mapping: MappingOverrides | undefined },
 ): Promise<AcceptResult> {
   const { campaign, file } = input;
   const { store } = context;
@@ -74,7 +75,7 @@ export async function acceptUpload(
     // Check the header and mapping now, so an unusable file is a 400 the wizard can show, not a failed upload later.
     let mapping: ColumnMapping;
     try {
-      // Store the mapping actually used: the one sent, or the engine's proposal from the headers.
+      // Store the mapping actually used: the overrides sent, every other field matched by name.
       mapping = await checkHeader(file.path, monitorOf(campaign), input.mapping);
     } catch (error) {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);

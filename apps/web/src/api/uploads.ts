@@ -1,4 +1,5 @@
 import { queryOptions } from "@tanstack/react-query";
+import { exactMapping } from "@calmcrest/seeing-stats";
 import type { ApiErrorBody, ColumnMappingInput, UploadAccepted, UploadDuplicateBody, UploadPreview, UploadStatus } from "@calmcrest/contracts";
 import { ApiError, api } from "./client";
 
@@ -14,7 +15,8 @@ export const uploadQuery = (uploadId: number) =>
 /** Server-side reading of the first rows with the mapping; nothing is stored. */
 export function previewUpload(campaignId: number, head: Blob, fileName: string, mapping: ColumnMappingInput) {
   const form = new FormData();
-  form.append("mapping", JSON.stringify(mapping));
+  // Every field, unmapped ones as null: the server reads exactly the mapping the person checked.
+  form.append("mapping", JSON.stringify(exactMapping(mapping)));
   form.append("file", head, fileName);
   return api<UploadPreview>(`/campaigns/${campaignId}/uploads/preview`, { form });
 }
@@ -58,7 +60,7 @@ export function sendUpload(campaignId: number, file: File, mapping: ColumnMappin
     };
     signal?.addEventListener("abort", () => request.abort());
     const form = new FormData();
-    form.append("mapping", JSON.stringify(mapping));
+    form.append("mapping", JSON.stringify(exactMapping(mapping)));
     form.append("file", file, file.name);
     request.send(form);
   });

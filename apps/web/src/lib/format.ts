@@ -45,6 +45,8 @@ const REASON_LABELS: Record<string, string> = {
   missing_value: "missing value",
   non_decimal_number: "number not in decimal notation",
   non_physical: "impossible value",
+  noise_dominated: "centroid noise too large",
+  exposure_correction_too_large: "exposure correction too large",
   implausible_seeing: "seeing outside plausible range",
   duplicate_time: "duplicate time",
   zenith_limit: "beyond zenith limit",

@@ -49,6 +49,18 @@ export function checkMapping(mapping: ColumnMapping, headers: readonly string[])
       problems.push(`var_…_2x_${unit} (variances at twice the exposure time) are mapped without var_long_${unit} and var_trans_${unit}; map the variances at the base exposure time in the same unit too.`);
     }
   }
+  // Centroid noise likewise: a half pair would silently skip the subtraction.
+  for (const unit of ['arcsec2', 'px2'] as const) {
+    const noiseLong = mapping[`noise_long_${unit}`] !== undefined;
+    const noiseTrans = mapping[`noise_trans_${unit}`] !== undefined;
+    if (noiseLong !== noiseTrans) {
+      problems.push(`Only one of noise_long_${unit} and noise_trans_${unit} is mapped; the centroid-noise subtraction needs both axes.`);
+    }
+    const main = unit === 'arcsec2' ? hasLongArcsec && hasTransArcsec : hasLongPixel && hasTransPixel;
+    if ((noiseLong || noiseTrans) && !main) {
+      problems.push(`noise_…_${unit} (centroid-noise variances) are mapped without var_long_${unit} and var_trans_${unit}; give the noise in the unit of the variances.`);
+    }
+  }
   const hasMeasure = (hasLongArcsec && hasTransArcsec) || (hasLongPixel && hasTransPixel) || mapping.seeing_arcsec !== undefined || mapping.r0_cm !== undefined;
   if (!hasMeasure) {
     problems.push('No seeing measure is mapped: map both image-motion variances (var_long_… and var_trans_…), or seeing_arcsec, or r0_cm.');

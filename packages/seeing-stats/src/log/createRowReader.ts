@@ -32,6 +32,8 @@ export type RowRejectReason =
   | 'missing_value'
   | 'non_decimal_number'
   | 'non_physical'
+  | 'noise_dominated'
+  | 'exposure_correction_too_large'
   | 'implausible_seeing';
 export type FilterRejectReason = 'zenith_limit' | 'sun_above_limit' | 'low_flux' | 'anisotropic';
 export type RejectReason = RowRejectReason | FilterRejectReason | 'duplicate_time' | 'excluded_window';
@@ -65,9 +67,27 @@ export type ExposureCorrection = 'applied' | 'not_applied_noisy';
 
 export type RowResult = { ok: true; sample: LogSample } | { ok: false; reason: RowRejectReason; message: string };
 
+/**
+ * The largest factor the exposure-time correction may raise an axis's seeing by: ε0/ε(τ) = (ε(τ)/ε(2τ))^0.75 ≤ 1.5,
+ * i.e. ε(τ)/ε(2τ) ≤ 1.5^(4/3) = 1.717. Calmcrest's choice, common practice with no published source: at the
+ * 5–10 ms exposures of seeing monitors the correction is some per cent to a few tens of per cent, so a pair
+ * asking for more than +50 % did not see the same turbulence (a cloud, a star lost in one exposure) and its
+ * extrapolation would be noise. Such samples are rejected as `exposure_correction_too_large`.
+ */
+export const MAX_EXPOSURE_CORRECTION_FACTOR = 1.5;
+
+/**
+ * The largest share of a measured variance that centroid noise may make up: 2σc²/σ²_measured ≤ 0.2 on each
+ * axis, else the sample is `noise_dominated` (seeing-physics.md §6.3, a recommendation from memory; a noise term
+ * that large leaves little signal, and one at or above the measured variance cannot be subtracted at all, §3.2).
+ */
+export const MAX_NOISE_SHARE = 0.2;
+
 /** The modified-exponential rule the row reader applies, named in outputs. */
-export const EXPOSURE_CORRECTION_METHOD =
-  'ε0 = ε(τ)^1.75 ε(2τ)^(-0.75) per axis from interlaced exposures (Tokovinin 2002 modified exponential; exponents from memory); samples with ε(2τ) > ε(τ) on an axis are kept uncorrected as noise-dominated';
+export const EXPOSURE_CORRECTION_METHOD = `ε0 = ε(τ)^1.75 ε(2τ)^(-0.75) per axis from interlaced exposures (Tokovinin 2002 modified exponential; exponents from memory); samples with ε(2τ) > ε(τ) on an axis are kept uncorrected as noise-dominated; a correction above ×${MAX_EXPOSURE_CORRECTION_FACTOR} on an axis (Calmcrest's cap, no published source) rejects the sample as exposure_correction_too_large`;
+
+/** The centroid-noise rule the row reader applies, named in outputs. */
+export const NOISE_SUBTRACTION_METHOD = `σ²_atm = σ²_measured − 2σc² per axis before the reduction, σc² being the logged one-image centroid-noise variance (seeing-physics.md §3.2, rule from memory); samples with 2σc² > ${MAX_NOISE_SHARE} σ²_measured on an axis are rejected as noise_dominated; variances at twice the exposure time are used as logged`;
 
 /** Which input a reader turns into seeing; variances win when the monitor geometry is known. */
 export type MeasureSource = 'variance_arcsec2' | 'variance_px2' | 'seeing' | 'r0';
@@ -164,11 +184,23 @@ export function interlacedFields(mapping: ColumnMapping, measure: MeasureSource)
   return mapping[fields[0]] !== undefined && mapping[fields[1]] !== undefined ? fields : null;
 }
 
+/**
+ * The centroid-noise fields a reader with this measure subtracts, or null: only both axes in the unit of the
+ * variances being read (checkMapping reports a half pair or a pair in the other unit).
+ */
+export function noiseFields(mapping: ColumnMapping, measure: MeasureSource): [LogField, LogField] | null {
+  if (measure !== 'variance_arcsec2' && measure !== 'variance_px2') return null;
+  const fields: [LogField, LogField] = measure === 'variance_px2' ? ['noise_long_px2', 'noise_trans_px2'] : ['noise_long_arcsec2', 'noise_trans_arcsec2'];
+  return mapping[fields[0]] !== undefined && mapping[fields[1]] !== undefined ? fields : null;
+}
+
 function columnIndex(headers: readonly string[], mapping: ColumnMapping, field: LogField): number {
   const header = mapping[field];
   return header === undefined ? -1 : headers.indexOf(header);
 }
 
+/** ε(τ)/ε(2τ) above which the correction factor (ε(τ)/ε(2τ))^0.75 exceeds MAX_EXPOSURE_CORRECTION_FACTOR. */
+const MAX_CORRECTION_SEEING_RATIO = MAX_EXPOSURE_CORRECTION_FACTOR ** (4 / 3);
 const MISSING = Number.NaN;
 /** Why the last readNumber gave NaN for a non-empty field: 1 = not finite (NaN, inf), 2 = not decimal notation. */
 let lastFieldProblem: 0 | 1 | 2 = 0;
@@ -226,12 +258,15 @@ function optionalNumber(fields: readonly string[], index: number, decimalComma: 
  * Builds a function that turns one row (its fields, and its 1-based line for messages) into a sample at zenith
  * and 500 nm, or a rejection with its reason: unreadable_time, implausible_time (outside the plausibility
  * window's years), missing_value (empty or unreadable number), non_decimal_number (0x1A, 0o17, 0b101),
- * non_physical (variance/seeing/r0 ≤ 0, NaN or overflow, zenith outside [0°, 90°), airmass < 1) or
- * implausible_seeing (the reduced seeing outside the plausibility window, 0.05″–10″ by default).
+ * non_physical (variance/seeing/r0 ≤ 0, NaN or overflow, zenith outside [0°, 90°), airmass < 1),
+ * noise_dominated (logged centroid noise above MAX_NOISE_SHARE of a variance), exposure_correction_too_large
+ * (a correction above MAX_EXPOSURE_CORRECTION_FACTOR) or implausible_seeing (the reduced seeing outside the plausibility window, 0.05″–10″ by default).
  * Variances → r0 per axis with the chosen response coefficients (Tokovinin 2002 / Sarazin & Roddier 1990),
  * r0 ∝ λ^(6/5) (cos z)^(3/5) to the reference, ε = 0.98 λ/r0 per axis, sample seeing = their mean.
  * With variances at twice the exposure time (var_…_2x_…, same unit) each axis is extrapolated to zero exposure
  * (exposureTimeCorrection, Tokovinin 2002) before the axes are averaged, except on noise-dominated pairs.
+ * With centroid-noise variances (noise_…, same unit) 2σc² is subtracted from each axis's variance first.
+ * With both pointing columns mapped, a blank zenith angle falls back to the airmass.
  * Sun altitude is attached when a site is given. Throws LogFormatError when the mapping cannot work,
  * SeeingInputError for bad settings. `delimiter` ';' or tab lets "0,85" be read as 0.85.
  */
@@ -268,6 +303,9 @@ export function createRowReader(options: {
   const interlaced = interlacedFields(mapping, measure);
   const long2xIndex = interlaced === null ? -1 : columnIndex(headers, mapping, interlaced[0]);
   const trans2xIndex = interlaced === null ? -1 : columnIndex(headers, mapping, interlaced[1]);
+  const noise = noiseFields(mapping, measure);
+  const noiseLongIndex = noise === null ? -1 : columnIndex(headers, mapping, noise[0]);
+  const noiseTransIndex = noise === null ? -1 : columnIndex(headers, mapping, noise[1]);
   const fluxIndex = columnIndex(headers, mapping, 'flux');
   const scintIndex = columnIndex(headers, mapping, 'scint_index');
   const tau0Index = columnIndex(headers, mapping, 'tau0_ms');
@@ -312,14 +350,16 @@ export function createRowReader(options: {
       };
     }
 
-    let zenithDeg: number;
-    if (zenithIndex >= 0) {
-      zenithDeg = readNumber(fields, zenithIndex, decimalComma);
+    let zenithDeg = zenithIndex >= 0 ? readNumber(fields, zenithIndex, decimalComma) : MISSING;
+    // With both pointing columns mapped, a blank zenith angle falls back to the airmass; a zenith angle that is
+    // there but broken (NaN, hex, out of range) is still that row's problem.
+    const zenithBlank = Number.isNaN(zenithDeg) && lastFieldProblem === 0;
+    if (zenithIndex >= 0 && !(zenithBlank && airmassIndex >= 0)) {
       if (Number.isNaN(zenithDeg)) return missingOrNonFinite('zenith_deg');
       if (!(zenithDeg >= 0 && zenithDeg < 90)) return nonPhysical(`zenith angle ${zenithDeg}° is outside [0°, 90°)`);
     } else {
       const airmass = readNumber(fields, airmassIndex, decimalComma);
-      if (Number.isNaN(airmass)) return missingOrNonFinite('airmass');
+      if (Number.isNaN(airmass)) return missingOrNonFinite(zenithIndex >= 0 ? 'zenith_deg (and airmass)' : 'airmass');
       if (!(airmass >= 1)) return nonPhysical(`airmass ${airmass} is below 1`);
       zenithDeg = Math.acos(1 / airmass) / DEG_TO_RAD; // X = sec z
     }
@@ -331,12 +371,32 @@ export function createRowReader(options: {
     let anisotropic = false;
     let exposureCorrection: ExposureCorrection | null = null;
     if (measure === 'variance_arcsec2' || measure === 'variance_px2') {
-      const varianceLong = readNumber(fields, longIndex, decimalComma);
+      let varianceLong = readNumber(fields, longIndex, decimalComma);
       if (Number.isNaN(varianceLong)) return missingOrNonFinite(measureName.replace('…', 'long'));
-      const varianceTrans = readNumber(fields, transIndex, decimalComma);
+      let varianceTrans = readNumber(fields, transIndex, decimalComma);
       if (Number.isNaN(varianceTrans)) return missingOrNonFinite(measureName.replace('…', 'trans'));
       if (!(varianceLong > 0) || !(varianceTrans > 0)) {
         return nonPhysical(`variances must be > 0, got ${varianceLong} and ${varianceTrans}`);
+      }
+      if (noise !== null) {
+        // σ²_atm = σ²_measured − 2σc²: the differential signal is the difference of two independent centroids.
+        const noiseLong = readNumber(fields, noiseLongIndex, decimalComma);
+        if (Number.isNaN(noiseLong)) return missingOrNonFinite(noise[0]);
+        const noiseTrans = readNumber(fields, noiseTransIndex, decimalComma);
+        if (Number.isNaN(noiseTrans)) return missingOrNonFinite(noise[1]);
+        if (!(noiseLong >= 0) || !(noiseTrans >= 0)) return nonPhysical(`centroid-noise variances must be ≥ 0, got ${noiseLong} and ${noiseTrans}`);
+        const shareLong = (2 * noiseLong) / varianceLong;
+        const shareTrans = (2 * noiseTrans) / varianceTrans;
+        if (shareLong > MAX_NOISE_SHARE || shareTrans > MAX_NOISE_SHARE) {
+          const share = Math.max(shareLong, shareTrans);
+          return {
+            ok: false,
+            reason: 'noise_dominated',
+            message: `centroid noise (2σc²) is ${(share * 100).toFixed(0)} % of the measured variance on the ${shareLong >= shareTrans ? 'longitudinal' : 'transverse'} axis; at most ${MAX_NOISE_SHARE * 100} % can be subtracted`,
+          };
+        }
+        varianceLong -= 2 * noiseLong;
+        varianceTrans -= 2 * noiseTrans;
       }
       seeingLongArcsec = longFactor * (varianceLong * varianceToArcsec2 * cosZenith) ** (3 / 5);
       seeingTransArcsec = transFactor * (varianceTrans * varianceToArcsec2 * cosZenith) ** (3 / 5);
@@ -358,6 +418,13 @@ export function createRowReader(options: {
         // Compared on the seeing values the rule receives, so its own refusal can never fire here.
         if (seeingLong2xArcsec > seeingLongArcsec || seeingTrans2xArcsec > seeingTransArcsec) {
           exposureCorrection = 'not_applied_noisy';
+        } else if (seeingLongArcsec > seeingLong2xArcsec * MAX_CORRECTION_SEEING_RATIO || seeingTransArcsec > seeingTrans2xArcsec * MAX_CORRECTION_SEEING_RATIO) {
+          const factor = Math.max(seeingLongArcsec / seeingLong2xArcsec, seeingTransArcsec / seeingTrans2xArcsec) ** 0.75;
+          return {
+            ok: false,
+            reason: 'exposure_correction_too_large',
+            message: `the exposure-time correction would multiply the seeing by ×${factor.toFixed(2)} (more than ×${MAX_EXPOSURE_CORRECTION_FACTOR}): the exposures at τ and 2τ do not look like the same turbulence`,
+          };
         } else {
           seeingLongArcsec = exposureTimeCorrection(seeingLongArcsec, seeingLong2xArcsec);
           seeingTransArcsec = exposureTimeCorrection(seeingTransArcsec, seeingTrans2xArcsec);

@@ -8,9 +8,9 @@ import { seeingFromR0 } from '../physics/seeingFromR0.js';
 import { seeingAtWavelength } from '../physics/toWavelength.js';
 import { seeingAtZenithAngle, seeingToZenith } from '../physics/toZenith.js';
 import { varianceFromR0 } from '../physics/varianceFromR0.js';
-import { createRandom } from '../stats/random.js';
+import { createRandom, normalDeviate } from '../stats/random.js';
 import { checkMapping } from './checkMapping.js';
-import { createRowReader, type LogSample, type MonitorSettings, type RowResult } from './createRowReader.js';
+import { createRowReader, MAX_EXPOSURE_CORRECTION_FACTOR, MAX_NOISE_SHARE, type LogSample, type MonitorSettings, type RowResult } from './createRowReader.js';
 import { proposeMapping } from './proposeMapping.js';
 
 const monitor: MonitorSettings = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: 'z-tilt' };
@@ -135,6 +135,66 @@ describe('exposure-time correction in the row reader', () => {
     }
   });
 
+  it('brings the seeing of an independent forward model (exponentially correlated image motion) to within 2 % of its zero-exposure value', () => {
+    // Forward model that does not contain the rule: the image motion on an axis is an Ornstein–Uhlenbeck process
+    // with correlation time T (autocorrelation e^(−|t|/T)); an exposure τ records its mean, whose variance is
+    // σ0² · 2 (T/τ)² (τ/T − 1 + e^(−τ/T)) (variance of the time average of an exponentially correlated process;
+    // textbook result, from memory, checked by simulation in the next test). Seeing ∝ variance^(3/5).
+    // The rule is exact only for its own law (test above); here it must still remove most of the bias.
+    const smoothing = (exposureOverT: number): number => 2 * (exposureOverT ** -2) * (exposureOverT - 1 + Math.exp(-exposureOverT));
+    const seeingZero = 0.9;
+    for (const exposureOverT of [0.05, 0.1, 0.2, 0.3]) {
+      const seeingShort = seeingZero * smoothing(exposureOverT) ** (3 / 5);
+      const seeingDouble = seeingZero * smoothing(2 * exposureOverT) ** (3 / 5);
+      const sample = sampleOf(reader(row(seeingShort, seeingShort, seeingDouble, seeingDouble), 2));
+      expect(sample.exposureCorrection).toBe('applied');
+      const correctedError = Math.abs(sample.seeingArcsec / seeingZero - 1);
+      const uncorrectedError = Math.abs(seeingShort / seeingZero - 1);
+      expect(correctedError, `τ/T = ${exposureOverT}`).toBeLessThan(0.02);
+      expect(correctedError, `τ/T = ${exposureOverT}`).toBeLessThan(0.35 * uncorrectedError);
+    }
+  });
+
+  it('uses a forward-model variance that a seeded simulation of the correlated motion reproduces', () => {
+    // AR(1) sampling of the Ornstein–Uhlenbeck process (step T/100), exposures of τ = 0.2 T and 2τ as block means.
+    const random = createRandom(7);
+    const stepsPerT = 100;
+    const decay = Math.exp(-1 / stepsPerT);
+    const innovation = Math.sqrt(1 - decay * decay);
+    const blockVariance = (blockSteps: number, blocks: number): number => {
+      let position = normalDeviate(random);
+      let sumSquares = 0;
+      for (let block = 0; block < blocks; block += 1) {
+        let sum = 0;
+        for (let step = 0; step < blockSteps; step += 1) {
+          position = decay * position + innovation * normalDeviate(random);
+          sum += position;
+        }
+        sumSquares += (sum / blockSteps) ** 2;
+      }
+      return sumSquares / blocks;
+    };
+    const smoothing = (exposureOverT: number): number => 2 * (exposureOverT ** -2) * (exposureOverT - 1 + Math.exp(-exposureOverT));
+    // 20 000 blocks: the variance estimate's relative standard error is about √(2/20 000) = 1 %, plus correlation.
+    expect(Math.abs(blockVariance(20, 20_000) / smoothing(0.2) - 1)).toBeLessThan(0.04);
+    expect(Math.abs(blockVariance(40, 20_000) / smoothing(0.4) - 1)).toBeLessThan(0.04);
+  });
+
+  it(`rejects a sample whose correction would exceed ×${MAX_EXPOSURE_CORRECTION_FACTOR}, under its own reason`, () => {
+    // The case of the issue: a 2τ variance at 10 % of the τ variance asks for ×10^(0.6·0.75) = ×2.82 (1.01″ → 2.85″).
+    const tenPercent = [TIME, '0.2', '0.2', '0.02', '0.02', '0'];
+    const rejected = reader(tenPercent, 5);
+    expect(rejected.ok ? 'ok' : rejected.reason).toBe('exposure_correction_too_large');
+    if (!rejected.ok) expect(rejected.message).toMatch(/×2\.82/);
+    // Just inside the cap: ε(τ)/ε(2τ) = 1.7 gives ×1.7^0.75 = ×1.489, applied.
+    const inside = sampleOf(reader(row(0.85, 0.85, 0.5, 0.5), 2));
+    expect(inside.exposureCorrection).toBe('applied');
+    expect(inside.seeingArcsec).toBeCloseTo(0.85 * 1.7 ** 0.75, 9);
+    // Just outside on one axis only: ε(τ)/ε(2τ) = 1.75 on the transverse axis gives ×1.522.
+    const outside = reader(row(0.85, 0.875, 0.8, 0.5), 2);
+    expect(outside.ok ? 'ok' : outside.reason).toBe('exposure_correction_too_large');
+  });
+
   it('keeps the uncorrected seeing of a noise-dominated pair and marks it', () => {
     // seeing-physics.md §3.1: ε(2τ) > ε(τ) means noise-dominated or non-stationary data; flag, do not extrapolate.
     const fields = row(0.8, 0.7, 0.75, 0.72); // transverse axis: 0.72″ at 2τ > 0.70″ at τ
@@ -196,5 +256,46 @@ describe('exposure-time correction in the row reader', () => {
     expect(wrongUnit.join(' ')).toMatch(/without var_long_px2 and var_trans_px2/);
     expect(() => createRowReader({ headers: ['time_utc', 'a', 'b', 'c', 'z'], mapping: { time_utc: 'time_utc', var_long_arcsec2: 'a', var_trans_arcsec2: 'b', var_long_2x_arcsec2: 'c', zenith_deg: 'z' }, monitor })).toThrow(LogFormatError);
     expect(checkMapping(proposeMapping(headers), headers)).toEqual([]);
+  });
+});
+
+describe('centroid-noise subtraction in the row reader', () => {
+  const noiseHeaders = ['time_utc', 'var_long_arcsec2', 'var_trans_arcsec2', 'noise_long_arcsec2', 'noise_trans_arcsec2', 'zenith_deg'];
+  const noiseReader = createRowReader({ headers: noiseHeaders, mapping: proposeMapping(noiseHeaders), monitor });
+
+  it('subtracts twice the one-image noise variance: σ_meas = 0.30″, σ_c = 0.05″ gives 0.4792″ instead of 0.4959″', () => {
+    // seeing-physics.md §3.2 worked example [DERIVED]: σ_atm = √(0.30² − 2·0.05²) = 0.2915″; Z-tilt, D = 6 cm,
+    // B = 20 cm: seeing 0.4959″ → 0.4792″ (§9 #9 and #12; the rule σ²_atm = σ²_meas − 2σc² is from memory).
+    const sample = sampleOf(noiseReader([TIME, '0.09', '0.09', '0.0025', '0.0025', '0'], 2));
+    expect(sample.seeingLongArcsec).toBeCloseTo(0.4792, 4);
+    const without = sampleOf(singleExposureReader([TIME, '0.09', '0.09', '0', '0', '0'], 2));
+    expect(without.seeingLongArcsec).toBeCloseTo(0.4959, 4);
+  });
+
+  it(`rejects a sample whose noise is more than ${MAX_NOISE_SHARE * 100} % of a measured variance as noise_dominated`, () => {
+    // 2 × 0.0095 / 0.09 = 21 %: over the share (seeing-physics.md §6.3 recommends 2σc²/σ²_meas < 0.2, from memory)
+    const over = noiseReader([TIME, '0.09', '0.09', '0.001', '0.0095', '0'], 2);
+    expect(over.ok ? 'ok' : over.reason).toBe('noise_dominated');
+    if (!over.ok) expect(over.message).toMatch(/21 %.*transverse/);
+    // 2 × 0.009 / 0.09 = 20 % exactly: the boundary passes
+    expect(noiseReader([TIME, '0.09', '0.09', '0.009', '0.009', '0'], 2).ok).toBe(true);
+    // a noise larger than the variance can never be subtracted (§3.2: reject, do not clip to zero)
+    const larger = noiseReader([TIME, '0.09', '0.09', '0.1', '0.1', '0'], 2);
+    expect(larger.ok ? 'ok' : larger.reason).toBe('noise_dominated');
+    const negative = noiseReader([TIME, '0.09', '0.09', '-0.001', '0.001', '0'], 2);
+    expect(negative.ok ? 'ok' : negative.reason).toBe('non_physical');
+    const blank = noiseReader([TIME, '0.09', '0.09', '', '0.001', '0'], 2);
+    expect(blank.ok ? 'ok' : blank.reason).toBe('missing_value');
+  });
+
+  it('reads noise in pixel² with pixel² variances, and refuses a half pair or a pair in the other unit', () => {
+    const pixelHeaders = ['time_utc', 'var_long_px2', 'var_trans_px2', 'noise_long_px2', 'noise_trans_px2', 'zenith_deg'];
+    const pixelReader = createRowReader({ headers: pixelHeaders, mapping: proposeMapping(pixelHeaders), monitor: { ...monitor, pixelScaleArcsec: 0.5 } });
+    // 0.09 arcsec² = 0.36 px² at 0.5″/px; 0.0025 arcsec² = 0.01 px²
+    expect(sampleOf(pixelReader([TIME, '0.36', '0.36', '0.01', '0.01', '0'], 2)).seeingLongArcsec).toBeCloseTo(0.4792, 4);
+    const half = checkMapping({ time_utc: 't', var_long_arcsec2: 'a', var_trans_arcsec2: 'b', noise_long_arcsec2: 'n', zenith_deg: 'z' }, ['t', 'a', 'b', 'n', 'z']);
+    expect(half.join(' ')).toMatch(/Only one of noise_long_arcsec2 and noise_trans_arcsec2/);
+    const otherUnit = checkMapping({ time_utc: 't', var_long_arcsec2: 'a', var_trans_arcsec2: 'b', noise_long_px2: 'n', noise_trans_px2: 'm', zenith_deg: 'z' }, ['t', 'a', 'b', 'n', 'm', 'z']);
+    expect(otherUnit.join(' ')).toMatch(/noise_…_px2 .* without var_long_px2/);
   });
 });

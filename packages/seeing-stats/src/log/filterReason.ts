@@ -14,6 +14,13 @@ export interface FilterSettings {
   leaveOutAnisotropic?: boolean;
 }
 
+/**
+ * How far past the zenith limit a sample may lie and still pass, in degrees (about 0.04″): a limit is a boundary
+ * a person typed, and a pointing logged as airmass 2 becomes acos(1/2) = 60.000000000000014° in floating point.
+ * Common practice (a comparison tolerance far below any pointing accuracy), no source.
+ */
+export const ZENITH_LIMIT_TOLERANCE_DEG = 1e-5;
+
 export const DEFAULT_FILTERS: FilterSettings = { maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null, leaveOutAnisotropic: true };
 
 /**
@@ -21,11 +28,11 @@ export const DEFAULT_FILTERS: FilterSettings = { maxZenithDeg: 60, sunMaxDeg: -1
  * The sun filter applies only when the sample has a sun altitude (a site was given), the flux filter only
  * when the sample has a flux, the anisotropy filter only when the sample says whether it is anisotropic (the
  * flag comes from variance inputs; a caller that does not know it leaves it out). Boundaries pass: zenith exactly
- * at the limit, sun exactly at the limit, flux equal to the minimum.
+ * at the limit (within ZENITH_LIMIT_TOLERANCE_DEG, so airmass 2 passes 60°), sun exactly at the limit, flux equal to the minimum.
  * Example: filterReason({ zenithDeg: 20, sunAltDeg: -30, flux: null, anisotropic: true }, DEFAULT_FILTERS) → 'anisotropic'.
  */
 export function filterReason(sample: Pick<LogSample, 'zenithDeg' | 'sunAltDeg' | 'flux'> & { anisotropic?: boolean }, filters: FilterSettings): FilterRejectReason | null {
-  if (sample.zenithDeg > filters.maxZenithDeg) return 'zenith_limit';
+  if (sample.zenithDeg > filters.maxZenithDeg + ZENITH_LIMIT_TOLERANCE_DEG) return 'zenith_limit';
   if (sample.sunAltDeg !== null && sample.sunAltDeg > filters.sunMaxDeg) return 'sun_above_limit';
   if (filters.minFlux !== null && sample.flux !== null && sample.flux < filters.minFlux) return 'low_flux';
   if (sample.anisotropic === true && filters.leaveOutAnisotropic !== false) return 'anisotropic';

@@ -9,6 +9,10 @@ export type LogField =
   | 'var_trans_2x_arcsec2'
   | 'var_long_2x_px2'
   | 'var_trans_2x_px2'
+  | 'noise_long_arcsec2'
+  | 'noise_trans_arcsec2'
+  | 'noise_long_px2'
+  | 'noise_trans_px2'
   | 'seeing_arcsec'
   | 'r0_cm'
   | 'zenith_deg'
@@ -30,6 +34,10 @@ export const LOG_FIELDS: readonly LogField[] = [
   'var_trans_2x_arcsec2',
   'var_long_2x_px2',
   'var_trans_2x_px2',
+  'noise_long_arcsec2',
+  'noise_trans_arcsec2',
+  'noise_long_px2',
+  'noise_trans_px2',
   'seeing_arcsec',
   'r0_cm',
   'zenith_deg',
@@ -56,6 +64,11 @@ export const LOG_FIELD_INFO: Record<LogField, { label: string; unit: string; req
   var_trans_2x_arcsec2: { label: 'Transverse variance at twice the exposure time', unit: 'arcsec²', required: 'optional' },
   var_long_2x_px2: { label: 'Longitudinal variance at twice the exposure time', unit: 'pixel²', required: 'optional' },
   var_trans_2x_px2: { label: 'Transverse variance at twice the exposure time', unit: 'pixel²', required: 'optional' },
+  // The monitor's measured centroid noise: the variance of one image's centroid on one axis (σc²), subtracted as 2σc².
+  noise_long_arcsec2: { label: 'Centroid-noise variance of one image, longitudinal axis', unit: 'arcsec²', required: 'optional' },
+  noise_trans_arcsec2: { label: 'Centroid-noise variance of one image, transverse axis', unit: 'arcsec²', required: 'optional' },
+  noise_long_px2: { label: 'Centroid-noise variance of one image, longitudinal axis', unit: 'pixel²', required: 'optional' },
+  noise_trans_px2: { label: 'Centroid-noise variance of one image, transverse axis', unit: 'pixel²', required: 'optional' },
   seeing_arcsec: { label: 'Seeing FWHM as the monitor computed it', unit: 'arcsec', required: 'one-measure' },
   r0_cm: { label: 'Fried parameter r0 as the monitor computed it', unit: 'cm', required: 'one-measure' },
   zenith_deg: { label: 'Zenith angle of the star', unit: 'deg', required: 'one-pointing' },
@@ -70,6 +83,12 @@ export const LOG_FIELD_INFO: Record<LogField, { label: string; unit: string; req
 
 /** Field → header text exactly as it appears in the file. */
 export type ColumnMapping = Partial<Record<LogField, string>>;
+
+/**
+ * What a person says about some fields (analyzer --map, upload API): field → header, or null for "not in this
+ * file". Fields left out are matched by name (proposeMapping).
+ */
+export type MappingOverrides = Partial<Record<LogField, string | null>>;
 
 export function isLogField(name: string): name is LogField {
   return (LOG_FIELDS as readonly string[]).includes(name);

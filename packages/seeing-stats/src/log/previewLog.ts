@@ -1,7 +1,7 @@
 import { LogFormatError, SeeingInputError } from '../errors.js';
 import { checkMapping } from './checkMapping.js';
 import { createRowReader, type LogSample, type MonitorSettings, type PlausibilityWindow } from './createRowReader.js';
-import type { ColumnMapping } from './logFields.js';
+import type { ColumnMapping, MappingOverrides } from './logFields.js';
 import { proposeMapping } from './proposeMapping.js';
 import { LogTextReader } from './readLogText.js';
 import type { SiteLocation } from './sunAltitude.js';
@@ -27,14 +27,14 @@ class PreviewFull extends Error {}
 
 /**
  * Reads the start of a log held in memory (browser-safe: the upload wizard calls it on the first kilobytes):
- * the delimiter, the headers, a proposed mapping (or the one given) and its problems, and the first rows with
+ * the delimiter, the headers, the mapping (overrides given for some fields, the rest matched by name) and its problems, and the first rows with
  * their samples or the reason each cannot be read. Uses the same text reader (line ends, quotes, limits) and
  * row reader as the streaming path, so a line rejected there is shown with the same problem here. Throws
  * LogFormatError when there is no usable header line or the text is not UTF-8.
  */
 export function previewLog(
   text: string,
-  options: { mapping?: ColumnMapping; monitor: MonitorSettings; site?: SiteLocation; maxRows?: number; plausibility?: Partial<PlausibilityWindow> },
+  options: { mapping?: MappingOverrides; monitor: MonitorSettings; site?: SiteLocation; maxRows?: number; plausibility?: Partial<PlausibilityWindow> },
 ): LogPreview {
   const maxRows = options.maxRows ?? 20;
   let headers: string[] = [];
@@ -58,7 +58,7 @@ export function previewLog(
   const textReader = new LogTextReader({
     header(found, delimiter) {
       headers = found;
-      proposedMapping = options.mapping ?? proposeMapping(headers);
+      proposedMapping = proposeMapping(headers, options.mapping);
       mappingProblems = checkMapping(proposedMapping, headers);
       if (mappingProblems.length > 0) {
         readerProblem = mappingProblems[0] ?? null;

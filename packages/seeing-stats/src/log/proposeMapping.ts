@@ -1,4 +1,4 @@
-import { LOG_FIELDS, type ColumnMapping, type LogField } from './logFields.js';
+import { LOG_FIELDS, type ColumnMapping, type LogField, type MappingOverrides } from './logFields.js';
 
 /** Header spellings seen in monitor exports, compared after lower-casing and dropping everything but letters and digits. */
 const SYNONYMS: Record<LogField, readonly string[]> = {
@@ -11,6 +11,10 @@ const SYNONYMS: Record<LogField, readonly string[]> = {
   var_trans_2x_arcsec2: ['vartrans2x', 'vart2x'],
   var_long_2x_px2: ['varlong2xpx', 'varlong2xpix2'],
   var_trans_2x_px2: ['vartrans2xpx', 'vartrans2xpix2'],
+  noise_long_arcsec2: ['noiselong', 'noisel', 'noisevarlong'],
+  noise_trans_arcsec2: ['noisetrans', 'noiset', 'noisevartrans'],
+  noise_long_px2: ['noiselongpx', 'noiselongpix2'],
+  noise_trans_px2: ['noisetranspx', 'noisetranspix2'],
   seeing_arcsec: ['seeing', 'fwhm', 'fwhmarcsec', 'seeingarcsec', 'seeingfwhm', 'seeingfwhmarcsec', 'dimmseeing'],
   r0_cm: ['r0', 'r0cm', 'friedparameter', 'friedparametercm', 'fried'],
   zenith_deg: ['zenith', 'zenithangle', 'zenithangledeg', 'zenithdistance', 'zd', 'zdeg', 'zenithdeg'],
@@ -31,11 +35,27 @@ function squashHeader(header: string): string {
  * Proposes which header holds which field: native names matched case-insensitively first, then a few
  * obvious synonyms ("Timestamp (UTC)", "FWHM [arcsec]", "Airmass"). Each header is used once at most.
  * Example: proposeMapping(['Timestamp (UTC)', 'FWHM [arcsec]', 'Airmass']) → { time_utc: 'Timestamp (UTC)', seeing_arcsec: 'FWHM [arcsec]', airmass: 'Airmass' }.
+ *
+ * `overrides` (the analyzer's --map, the upload API's mapping) win for the fields they name and only for those:
+ * a field given a header reads that header, a field given null is not read at all, and every other field is
+ * still matched by name among the headers no override took. So `{}` overrides nothing, and
+ * `{ zenith_deg: 'ZD' }` on a native log reads ZD as the zenith angle and every other column as before.
  */
-export function proposeMapping(headers: readonly string[]): ColumnMapping {
+export function proposeMapping(headers: readonly string[], overrides: MappingOverrides = {}): ColumnMapping {
   const mapping: ColumnMapping = {};
   const used = new Set<string>();
+  const decided = new Set<LogField>();
   for (const field of LOG_FIELDS) {
+    if (!Object.hasOwn(overrides, field)) continue;
+    const header = overrides[field];
+    if (header === undefined) continue;
+    decided.add(field);
+    if (header === null) continue;
+    mapping[field] = header;
+    used.add(header);
+  }
+  for (const field of LOG_FIELDS) {
+    if (decided.has(field)) continue;
     const header = headers.find((candidate) => candidate.trim().toLowerCase() === field);
     if (header !== undefined && !used.has(header)) {
       mapping[field] = header;
@@ -43,7 +63,7 @@ export function proposeMapping(headers: readonly string[]): ColumnMapping {
     }
   }
   for (const field of LOG_FIELDS) {
-    if (mapping[field] !== undefined) continue;
+    if (decided.has(field) || mapping[field] !== undefined) continue;
     const header = headers.find((candidate) => !used.has(candidate) && SYNONYMS[field].includes(squashHeader(candidate)));
     if (header !== undefined) {
       mapping[field] = header;
@@ -51,4 +71,14 @@ export function proposeMapping(headers: readonly string[]): ColumnMapping {
     }
   }
   return mapping;
+}
+
+/**
+ * A complete mapping written as overrides that leave nothing to name matching: every field it does not map is
+ * null. What the upload wizard sends, so the server reads exactly the mapping the person checked.
+ */
+export function exactMapping(mapping: ColumnMapping): MappingOverrides {
+  const overrides: MappingOverrides = {};
+  for (const field of LOG_FIELDS) overrides[field] = mapping[field] ?? null;
+  return overrides;
 }

@@ -1,6 +1,7 @@
 import { Body, Equator, Observer, SiderealTime } from 'astronomy-engine';
 import { requireRange } from '../errors.js';
 import { DEG_TO_RAD } from '../physics/constants.js';
+import { normalizeLongitudeDeg } from '../summary/nightLabel.js';
 
 export interface SiteLocation {
   latitudeDeg: number;
@@ -28,11 +29,11 @@ interface SunNode {
  */
 export function createSunAltitude(site: SiteLocation): (timeMs: number) => number {
   requireRange(site.latitudeDeg, 'latitudeDeg', -90, 90, 'degrees', true);
-  requireRange(site.longitudeDeg, 'longitudeDeg', -180, 360, 'degrees east', true);
-  const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM ?? 0);
+  const longitudeDeg = normalizeLongitudeDeg(site.longitudeDeg);
+  const observer = new Observer(site.latitudeDeg, longitudeDeg, site.elevationM ?? 0);
   const sinLatitude = Math.sin(site.latitudeDeg * DEG_TO_RAD);
   const cosLatitude = Math.cos(site.latitudeDeg * DEG_TO_RAD);
-  const longitudeHours = site.longitudeDeg / 15;
+  const longitudeHours = longitudeDeg / 15;
   const nodes = new Map<number, SunNode>();
   const nodeAt = (nodeIndex: number): SunNode => {
     let node = nodes.get(nodeIndex);

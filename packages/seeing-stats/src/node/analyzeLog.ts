@@ -1,13 +1,15 @@
 import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
 import { LogFormatError } from '../errors.js';
-import type { ColumnMapping } from '../log/logFields.js';
+import type { ColumnMapping, MappingOverrides } from '../log/logFields.js';
 import { filterReason, DEFAULT_FILTERS, type FilterSettings } from '../log/filterReason.js';
 import { validateFilters } from '../log/filterLimits.js';
 import {
   chooseMeasure,
   defaultPlausibility,
   EXPOSURE_CORRECTION_METHOD,
+  NOISE_SUBTRACTION_METHOD,
+  noiseFields,
   interlacedFields,
   validatePlausibility,
   type ExposureCorrection,
@@ -27,12 +29,14 @@ import { INTERVAL_METHOD, SEASON_BALANCED_METHOD, SEASONS_METHOD, summarizeSeein
 import { tau0ToReference } from '../physics/tau0ToReference.js';
 import { theta0ToReference } from '../physics/theta0ToReference.js';
 import { checkLongitudeSign } from '../summary/checkLongitudeSign.js';
+import { normalizeLongitudeDeg } from '../summary/nightLabel.js';
 import { summaryWarnings, type SummaryContext } from '../summary/summaryWarnings.js';
 import { GrowableColumns } from './growableColumns.js';
 import { streamLog } from './streamLog.js';
 
 export interface AnalyzeOptions {
-  mapping?: ColumnMapping;
+  /** Fields whose header a person named (null: not in the file); every other field is matched by name. */
+  mapping?: MappingOverrides;
   monitor: MonitorSettings;
   site?: SiteLocation;
   filters?: Partial<FilterSettings>;
@@ -65,7 +69,7 @@ export interface AnalyzerReport extends Omit<SeeingSummary, 'warnings'> {
   /** The first 100 rejected rows in line order. */
   rejectedRows: { line: number; reason: RejectReason; message: string }[];
   monitor: MonitorSettings & { responseName: string };
-  method: SeeingSummary['method'] & { exposureCorrection: string };
+  method: SeeingSummary['method'] & { exposureCorrection: string; noiseSubtraction: string };
   filters: FilterSettings & { nightFilter: boolean };
   /** The plausibility window rows were checked against (times as ISO 8601 UTC). */
   plausibility: { minSeeingArcsec: number; maxSeeingArcsec: number; earliestTimeUtc: string; latestTimeUtc: string };
@@ -90,7 +94,10 @@ const EXPOSURE_CODES: readonly (ExposureCorrection | null)[] = [null, 'applied',
  * reason, then summarises the accepted samples. When no sample is accepted the statistics are NaN (null in JSON).
  * Throws LogFormatError for a file that cannot be read at all, SeeingInputError for bad settings.
  */
-export async function analyzeLog(input: NodeJS.ReadableStream | string, options: AnalyzeOptions): Promise<AnalyzerReport> {
+export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOptions: AnalyzeOptions): Promise<AnalyzerReport> {
+  // One spelling of the site's meridian from here on (190° east is −170°), so every output shows the same one.
+  const options: AnalyzeOptions =
+    givenOptions.site === undefined ? givenOptions : { ...givenOptions, site: { ...givenOptions.site, longitudeDeg: normalizeLongitudeDeg(givenOptions.site.longitudeDeg) } };
   const filters: FilterSettings = { ...DEFAULT_FILTERS, ...options.filters };
   validateFilters(filters);
   const plausibility: PlausibilityWindow = { ...defaultPlausibility(), ...options.plausibility };
@@ -193,7 +200,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, options:
       lastTimeUtc: accepted > 0 ? new Date(lastTimeMs).toISOString() : null,
     },
     ...summary,
-    method: { ...summary.method, exposureCorrection: exposureMethod(file.mapping, options.monitor) },
+    method: { ...summary.method, exposureCorrection: exposureMethod(file.mapping, options.monitor), noiseSubtraction: noiseMethod(file.mapping, options.monitor) },
     rejectedRows,
     monitor: { ...options.monitor, responseName: RESPONSE_SET_NAMES[options.monitor.response] },
     filters: { ...filters, nightFilter: options.site !== undefined },
@@ -213,6 +220,12 @@ function exposureMethod(mapping: ColumnMapping, monitor: MonitorSettings): strin
   // streamLog has already built a reader with this mapping, so chooseMeasure cannot throw here.
   if (interlacedFields(mapping, chooseMeasure(mapping, monitor)) !== null) return EXPOSURE_CORRECTION_METHOD;
   return 'not applied: the seeing is not read from variances with both var_…_2x_… columns (variances at twice the exposure time)';
+}
+
+/** Names the centroid-noise rule when the reader subtracted logged noise, and says why not otherwise. */
+function noiseMethod(mapping: ColumnMapping, monitor: MonitorSettings): string {
+  if (noiseFields(mapping, chooseMeasure(mapping, monitor)) !== null) return NOISE_SUBTRACTION_METHOD;
+  return 'not applied: the seeing is not read from variances with both noise_… columns (centroid-noise variances)';
 }
 
 /** Marks every readable row whose time already appeared on an earlier readable row (status → duplicate). */

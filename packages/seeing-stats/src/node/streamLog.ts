@@ -1,15 +1,15 @@
 import { LogFormatError } from '../errors.js';
 import { checkMapping } from '../log/checkMapping.js';
 import { createRowReader, type LogSample, type MonitorSettings, type PlausibilityWindow, type RowRejectReason } from '../log/createRowReader.js';
-import type { ColumnMapping } from '../log/logFields.js';
+import type { ColumnMapping, MappingOverrides } from '../log/logFields.js';
 import { proposeMapping } from '../log/proposeMapping.js';
 import { LogTextReader } from '../log/readLogText.js';
 import { listHeaders } from '../log/splitLog.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
 
 export interface StreamLogOptions {
-  /** Field → header; proposed from the headers when absent. */
-  mapping?: ColumnMapping;
+  /** Fields whose header a person named (or null: not in the file); the rest are matched by name (proposeMapping). */
+  mapping?: MappingOverrides;
   monitor: MonitorSettings;
   site?: SiteLocation;
   /** Overrides of the engine's default plausibility window. */
@@ -18,7 +18,7 @@ export interface StreamLogOptions {
 }
 
 export interface StreamLogHandlers {
-  /** The header line was read and the mapping (given or proposed) checked; before any row. */
+  /** The header line was read and the mapping (the overrides given, the rest matched by name) checked; before any row. */
   onHeader?(headers: readonly string[], mapping: ColumnMapping): void;
   /**
    * A readable row. `fields` and `delimiter` give the row's text back (`fields.join(delimiter)`) for a caller that
@@ -55,7 +55,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
 
   const reader = new LogTextReader({
     header(headers, delimiter, line) {
-      mapping = options.mapping ?? proposeMapping(headers);
+      mapping = proposeMapping(headers, options.mapping);
       const problems = checkMapping(mapping, headers);
       if (problems.length > 0) {
         throw new LogFormatError(`Line ${line} (the header line) does not give the columns Calmcrest needs: ${problems[0] ?? ''}`, {

@@ -1,5 +1,6 @@
 import { SeeingInputError } from '../errors.js';
 import { createSunAltitude, type SiteLocation } from '../log/sunAltitude.js';
+import { normalizeLongitudeDeg } from './nightLabel.js';
 
 export interface LongitudeSignCheck {
   /** Sample times looked at (at most maxChecked, spread evenly over the input). */
@@ -29,7 +30,9 @@ export function checkLongitudeSign(timesMs: ArrayLike<number>, site: SiteLocatio
   const checked = Math.min(total, Math.max(1, Math.floor(maxChecked)));
   if (total === 0) return { checked: 0, rejectedShare: 0, mirroredRejectedShare: 0, suspicious: false };
   const given = createSunAltitude(site);
-  const mirroredLongitude = site.longitudeDeg > 180 ? 360 - site.longitudeDeg : -site.longitudeDeg;
+  const longitudeDeg = normalizeLongitudeDeg(site.longitudeDeg);
+  // 180° mirrors onto itself (−180° is the same meridian), so no sign mistake can be seen there.
+  const mirroredLongitude = longitudeDeg === 180 ? 180 : -longitudeDeg;
   const mirrored = createSunAltitude({ ...site, longitudeDeg: mirroredLongitude });
   let rejected = 0;
   let mirroredRejected = 0;
@@ -40,6 +43,6 @@ export function checkLongitudeSign(timesMs: ArrayLike<number>, site: SiteLocatio
   }
   const rejectedShare = rejected / checked;
   const mirroredRejectedShare = mirroredRejected / checked;
-  const suspicious = mirroredLongitude !== site.longitudeDeg && rejectedShare >= SUSPICIOUS_REJECTED_SHARE && mirroredRejectedShare < rejectedShare / 2;
+  const suspicious = mirroredLongitude !== longitudeDeg && rejectedShare >= SUSPICIOUS_REJECTED_SHARE && mirroredRejectedShare < rejectedShare / 2;
   return { checked, rejectedShare, mirroredRejectedShare, suspicious };
 }

@@ -3,13 +3,25 @@ import { SeeingInputError } from '../errors.js';
 const HOUR_MS = 3_600_000;
 const DAY_MS = 86_400_000;
 
-/** Offset of local mean solar time from UTC, in ms: longitude / 15 hours (east positive; 0 when no longitude). */
-export function solarOffsetMs(longitudeDeg?: number): number {
-  if (longitudeDeg === undefined) return 0;
+/**
+ * A longitude in degrees east, accepted from −180° to 360°, brought to (−180°, 180°]: 190° east is −170°, and
+ * −180° is 180°. Every use of a longitude (night labels, local solar hours, the sun's altitude) goes through it,
+ * so the same meridian written two ways gives the same nights. Throws SeeingInputError outside [−180, 360].
+ * Example: normalizeLongitudeDeg(190) → −170.
+ */
+export function normalizeLongitudeDeg(longitudeDeg: number): number {
   if (!Number.isFinite(longitudeDeg) || longitudeDeg < -180 || longitudeDeg > 360) {
     throw new SeeingInputError(`longitudeDeg must be degrees east in [-180, 360], got ${String(longitudeDeg)}`);
   }
-  return (longitudeDeg / 15) * HOUR_MS;
+  if (longitudeDeg > 180) return longitudeDeg - 360;
+  if (longitudeDeg === -180) return 180;
+  return longitudeDeg;
+}
+
+/** Offset of local mean solar time from UTC, in ms: longitude / 15 hours (east positive, normalised to (−180°, 180°]; 0 when no longitude). */
+export function solarOffsetMs(longitudeDeg?: number): number {
+  if (longitudeDeg === undefined) return 0;
+  return (normalizeLongitudeDeg(longitudeDeg) / 15) * HOUR_MS;
 }
 
 /**

@@ -14,7 +14,7 @@ describe("the demo scenario", () => {
     const sites = (await lead.get("/api/sites")).body as SiteListItem[];
     expect(sites.map((site) => site.name).sort()).toEqual(DEMO_SITES.map((site) => site.name).sort());
     const uploads = await context.db.knex("upload").select<{ status: string; rows_read: number; samples_accepted: number }[]>("status", "rows_read", "samples_accepted");
-    expect(uploads).toHaveLength(6);
+    expect(uploads).toHaveLength(7);
     for (const upload of uploads) {
       expect(upload.status).toBe("done");
       expect(upload.samples_accepted).toBeGreaterThan(1000);
@@ -30,6 +30,21 @@ describe("the demo scenario", () => {
       expect(median).toBeLessThan(1.2);
     }
     expect(medians.get("Quartz Shoulder")).toBeLessThan(medians.get("Condor Spur") ?? 0);
+  });
+
+  it("has two campaigns at different ridges whose logs cover the same 48 nights, so they can be paired", () => {
+    // At full length (this file seeds a tenth, which cuts each log short from its start) the logs' nights are
+    // startDate .. startDate + nights − 1; the summer mast's all fall inside the low tower's.
+    const logOf = (name: string) => DEMO_SITES.flatMap((site) => site.campaigns).find((campaign) => campaign.name === name)?.logs[0];
+    const span = (name: string) => {
+      const log = logOf(name);
+      const firstMs = Date.parse(`${log?.startDate ?? ""}T00:00:00Z`);
+      return { firstMs, lastMs: firstMs + ((log?.nights ?? 0) - 1) * 86_400_000 };
+    };
+    const summer = span("Quartz Shoulder summer mast");
+    const tower = span("Tern Ridge low tower");
+    const sharedNights = (Math.min(summer.lastMs, tower.lastMs) - Math.max(summer.firstMs, tower.firstMs)) / 86_400_000 + 1;
+    expect(sharedNights).toBe(48);
   });
 
   it("makes the demo engineer a member of two campaigns only, with one exclusion window", async () => {

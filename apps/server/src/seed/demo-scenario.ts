@@ -136,6 +136,23 @@ export const DEMO_SITES: DemoSite[] = [
         engineerIsMember: false,
         logs: [{ file: "quartz-2025.csv", seed: 3101, startDate: "2025-03-15", nights: 270, uploadedBy: "lead" }],
       },
+      {
+        // A second monitor for the southern summer, on the same nights as Tern Ridge's low tower: the pair of
+        // campaigns the Compare page can set side by side night by night.
+        name: "Quartz Shoulder summer mast",
+        apertureMm: 60,
+        baselineMm: 200,
+        wavelengthNm: 500,
+        heightAboveGroundM: 5,
+        response: "z-tilt",
+        startDate: "2025-12-11",
+        endDate: "2026-01-27",
+        status: "finished",
+        medianSeeingArcsec: 0.66,
+        seasonalAmplitude: 0.15,
+        engineerIsMember: false,
+        logs: [{ file: "quartz-summer-2025.csv", seed: 3201, startDate: "2025-12-11", nights: 48, uploadedBy: "lead" }],
+      },
     ],
   },
   {

@@ -17,7 +17,7 @@ const SITE = { latitudeDeg: -27.42, longitudeDeg: -70.15, elevationM: 2650 };
 const SEED = 20_250_301;
 const MONITOR = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: "z-tilt" as const };
 
-async function freePort(): Promise<number> {
+export async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
     const probe = createServer();
     probe.once("error", reject);
@@ -33,7 +33,7 @@ async function freePort(): Promise<number> {
  * The seeded bench log in the native format: the same file bench/analyzer.ts analyses (same seed, site, monitor
  * and options, so whichever benchmark runs first writes it and the other reuses it).
  */
-async function benchLog(rows: number): Promise<string> {
+export async function benchLog(rows: number): Promise<string> {
   const outDir = join(root, "bench", "out");
   mkdirSync(outDir, { recursive: true });
   const path = join(outDir, `native-${rows}-rows-seed-${SEED}-from-2018.csv`);
@@ -45,7 +45,7 @@ async function benchLog(rows: number): Promise<string> {
 }
 
 /** Peak resident memory of a process in MB (VmHWM from /proc; Linux only). */
-function peakRssMb(pid: number): number {
+export function peakRssMb(pid: number): number {
   const status = readFileSync(`/proc/${pid}/status`, "utf8");
   const match = /VmHWM:\s+(\d+)\s+kB/.exec(status);
   return match ? Number(match[1]) / 1024 : Number.NaN;
@@ -57,7 +57,7 @@ function median(values: number[]): number {
   return sorted.length % 2 === 1 ? (sorted[middle] ?? Number.NaN) : ((sorted[middle - 1] ?? 0) + (sorted[middle] ?? 0)) / 2;
 }
 
-async function waitForHealth(base: string, server: ChildProcess, timeoutMs: number): Promise<void> {
+export async function waitForHealth(base: string, server: ChildProcess, timeoutMs: number): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`);

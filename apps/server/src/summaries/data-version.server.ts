@@ -49,11 +49,27 @@ export function dataVersionListener(): ChangeListener {
   };
 }
 
+/** Prepared version queries by connection and number of campaigns (preparing costs more than the query itself). */
+const versionStatements = new WeakMap<Database.Database, Map<number, Database.Statement>>();
+
+function versionStatement(sqlite: Database.Database, count: number): Database.Statement {
+  let byCount = versionStatements.get(sqlite);
+  if (!byCount) {
+    byCount = new Map();
+    versionStatements.set(sqlite, byCount);
+  }
+  let statement = byCount.get(count);
+  if (!statement) {
+    statement = sqlite.prepare(`SELECT campaign_id AS id, version FROM campaign_data_version WHERE campaign_id IN (${Array.from({ length: count }, () => "?").join(",")})`);
+    byCount.set(count, statement);
+  }
+  return statement;
+}
+
 /** The current versions of these campaigns, in the given order (0 for a campaign never changed). A plain WAL read: never waits for a writer. */
 export function readDataVersions(sqlite: Database.Database, campaignIds: readonly number[]): number[] {
   if (campaignIds.length === 0) return [];
-  const statement = sqlite.prepare(`SELECT campaign_id AS id, version FROM campaign_data_version WHERE campaign_id IN (${campaignIds.map(() => "?").join(",")})`);
-  const rows = statement.all(...campaignIds) as { id: number; version: number }[];
+  const rows = versionStatement(sqlite, campaignIds.length).all(...campaignIds) as { id: number; version: number }[];
   const byId = new Map(rows.map((row) => [row.id, row.version]));
   return campaignIds.map((id) => byId.get(id) ?? 0);
 }

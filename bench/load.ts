@@ -1,0 +1,253 @@
+// `npm run load`: the load test of issue 8. Starts a server in its own process on loopback with a temporary data
+// directory, stores a site with 1 000 000 samples through the upload API, signs in, then for `--duration`
+// seconds sends the repeated site summary over `--connections` connections (autocannon) while a second
+// autocannon measures GET /api/health. Then the same while 1 000 000-row logs are ingested into other
+// campaigns one after another. Prints requests/s, p50/p95/p99 and errors of each, the server's memory, and
+// writes them under the `load` key of bench/results.json. Loopback only; bounded in time and in ingests.
+//
+//   npm run load                                   # the full run (about 3 minutes)
+//   npm run load -- --rows 5000 --duration 2 --connections 5 --out /tmp/load.json    # a smoke run
+import { spawn } from "node:child_process";
+import { existsSync, mkdtempSync, openAsBlob, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { cpus, tmpdir, totalmem } from "node:os";
+import { dirname, join, resolve } from "node:path";
+import { fileURLToPath } from "node:url";
+import autocannon from "autocannon";
+import { benchLog, freePort, peakRssMb, waitForHealth } from "./ingest.ts";
+
+const root = join(dirname(fileURLToPath(import.meta.url)), "..");
+const serverDir = join(root, "apps/server");
+const PASSWORD = "load-password-1";
+const SITE = { latitude: -27.42, longitude: -70.15, elevationM: 2650 };
+const MONITOR = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: "z-tilt" as const };
+/** Connections of the /api/health probe: a few, so it measures waiting, not its own load. */
+const HEALTH_CONNECTIONS = 2;
+/** Targets of issue 8, printed beside the figures. */
+const TARGETS = { summaryRequestsPerS: 200, summaryP99Ms: 250, healthP99Ms: 50 };
+
+interface Flags {
+  rows: number;
+  durationS: number;
+  connections: number;
+  maxIngests: number;
+  out: string;
+}
+
+function parseFlags(argv: readonly string[]): Flags {
+  const flags: Flags = { rows: 1_000_000, durationS: 30, connections: 50, maxIngests: 6, out: join(root, "bench", "results.json") };
+  for (let index = 0; index < argv.length; index += 2) {
+    const flag = argv[index];
+    const value = argv[index + 1];
+    const number = Number(value);
+    if (flag === "--rows" && number >= 100) flags.rows = Math.floor(number);
+    else if (flag === "--duration" && number >= 1 && number <= 120) flags.durationS = number;
+    else if (flag === "--connections" && number >= 1 && number <= 200) flags.connections = Math.floor(number);
+    else if (flag === "--max-ingests" && number >= 1 && number <= 20) flags.maxIngests = Math.floor(number);
+    else if (flag === "--out" && value !== undefined) flags.out = resolve(value);
+    else throw new Error(`load: unknown or out-of-range flag ${String(flag)} ${String(value)} (flags: --rows N≥100 --duration 1..120 s --connections 1..200 --max-ingests 1..20 --out FILE)`);
+  }
+  return flags;
+}
+
+/** Resident memory now (VmRSS) of a process in MB; Linux only. */
+function rssMb(pid: number): number {
+  const match = /VmRSS:\s+(\d+)\s+kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
+  return match ? Math.round(Number(match[1]) / 1024) : Number.NaN;
+}
+
+function percentile(sortedMs: readonly number[], fraction: number): number {
+  if (sortedMs.length === 0) return Number.NaN;
+  // Nearest rank, the usual definition for latency percentiles.
+  const rank = Math.min(sortedMs.length - 1, Math.max(0, Math.ceil(fraction * sortedMs.length) - 1));
+  return sortedMs[rank] ?? Number.NaN;
+}
+
+export interface LoadFigures {
+  requestsPerS: number;
+  requests: number;
+  p50Ms: number;
+  p95Ms: number;
+  p99Ms: number;
+  maxMs: number;
+  errors: number;
+  non2xx: number;
+}
+
+/** One autocannon run; latencies of every answered request are kept to give p95 (autocannon reports p97.5, not p95). */
+function hammer(url: string, cookie: string, connections: number, durationS: number): Promise<LoadFigures> {
+  return new Promise((resolvePromise, reject) => {
+    const latenciesMs: number[] = [];
+    const instance = autocannon({ url, connections, duration: durationS, headers: { cookie }, timeout: 10 }, (error, result) => {
+      if (error) return reject(error);
+      latenciesMs.sort((left, right) => left - right);
+      resolvePromise({
+        requestsPerS: Math.round((result["2xx"] / result.duration) * 10) / 10,
+        requests: result["2xx"],
+        p50Ms: Math.round(percentile(latenciesMs, 0.5) * 10) / 10,
+        p95Ms: Math.round(percentile(latenciesMs, 0.95) * 10) / 10,
+        p99Ms: Math.round(percentile(latenciesMs, 0.99) * 10) / 10,
+        maxMs: Math.round((latenciesMs.at(-1) ?? Number.NaN) * 10) / 10,
+        errors: result.errors + result.timeouts,
+        non2xx: result.non2xx,
+      });
+    });
+    // autocannon emits (client, statusCode, bytes, responseTimeMs); its published types leave out the client.
+    (instance as unknown as { on(event: "response", listener: (client: unknown, status: number, bytes: number, ms: number) => void): void }).on(
+      "response",
+      (_client, _status, _bytes, responseTimeMs) => latenciesMs.push(responseTimeMs),
+    );
+  });
+}
+
+function describe(name: string, figures: LoadFigures): string {
+  return `${name.padEnd(30)} ${String(figures.requestsPerS).padStart(8)} req/s  p50 ${figures.p50Ms} ms  p95 ${figures.p95Ms} ms  p99 ${figures.p99Ms} ms  max ${figures.maxMs} ms  errors ${figures.errors}  non-2xx ${figures.non2xx}`;
+}
+
+export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
+  const logPath = await benchLog(flags.rows);
+  const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-load-data-"));
+  const port = await freePort();
+  const base = `http://127.0.0.1:${port}`;
+  // One node process (tsx as a loader, not its CLI wrapper), so its /proc status is the server's own memory.
+  const server = spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+    cwd: serverDir,
+    env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
+  const pid = server.pid ?? 0;
+  try {
+    await waitForHealth(base, server, 60_000);
+    const origin = { Origin: base };
+    const signIn = await fetch(`${base}/api/auth/sign-in`, {
+      method: "POST",
+      headers: { ...origin, "Content-Type": "application/json" },
+      body: JSON.stringify({ email: "lead@calmcrest.test", password: PASSWORD }),
+    });
+    if (!signIn.ok) throw new Error(`sign-in failed: ${signIn.status}`);
+    const cookie = (signIn.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
+    const headers = { ...origin, Cookie: cookie };
+    const post = async (path: string, body: unknown) => {
+      const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
+      if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
+      return (await response.json()) as { id: number };
+    };
+    const upload = async (campaignId: number): Promise<number> => {
+      const form = new FormData();
+      form.append("file", await openAsBlob(logPath), "load.csv");
+      const posted = await fetch(`${base}/api/campaigns/${campaignId}/uploads`, { method: "POST", headers, body: form });
+      if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
+      return ((await posted.json()) as { upload: { id: number } }).upload.id;
+    };
+    const finished = async (uploadId: number): Promise<{ status: string; samples: { accepted: number } }> => {
+      for (;;) {
+        const status = (await (await fetch(`${base}/api/uploads/${uploadId}`, { headers })).json()) as { status: string; samples: { accepted: number }; error: string | null };
+        if (status.status === "failed") throw new Error(`ingest failed: ${status.error ?? ""}`);
+        if (status.status !== "queued" && status.status !== "ingesting") return status;
+        await new Promise((resolveWait) => setTimeout(resolveWait, 50));
+      }
+    };
+
+    // The site under load: one campaign with the whole log.
+    const site = await post("/api/sites", { name: "Load Ridge", ...SITE });
+    const campaign = await post(`/api/sites/${site.id}/campaigns`, { name: "Load campaign", monitor: MONITOR });
+    const stored = await finished(await upload(campaign.id));
+    const summaryUrl = `${base}/api/sites/${site.id}/summary`;
+    const coldStartMs = performance.now();
+    const first = await fetch(summaryUrl, { headers });
+    const summaryBytes = (await first.arrayBuffer()).byteLength;
+    if (!first.ok) throw new Error(`summary: ${first.status}`);
+    const summaryColdMs = Math.round(performance.now() - coldStartMs);
+    console.log(`load: ${stored.samples.accepted} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB)`);
+
+    console.log(`load: ${flags.connections} connections on the repeated summary and ${HEALTH_CONNECTIONS} on /api/health for ${flags.durationS} s…`);
+    const [summary, health] = await Promise.all([
+      hammer(summaryUrl, cookie, flags.connections, flags.durationS),
+      hammer(`${base}/api/health`, cookie, HEALTH_CONNECTIONS, flags.durationS),
+    ]);
+    console.log(describe("repeated summary", summary));
+    console.log(describe("/api/health", health));
+    const rssAfterSummaryMb = rssMb(pid);
+
+    // The same while logs are ingested: the same file into fresh campaigns of another site, one after another,
+    // for the whole run (each is a new upload: the same bytes in another campaign are not a duplicate).
+    const otherSite = await post("/api/sites", { name: "Load Saddle", ...SITE });
+    let ingesting = true;
+    let ingestsDone = 0;
+    let ingestBusyMs = 0;
+    const ingestLoop = (async () => {
+      for (let count = 0; count < flags.maxIngests && ingesting; count += 1) {
+        const target = await post(`/api/sites/${otherSite.id}/campaigns`, { name: `Ingest ${count + 1}`, monitor: MONITOR });
+        const startedMs = performance.now();
+        await finished(await upload(target.id));
+        ingestBusyMs += performance.now() - startedMs;
+        ingestsDone += 1;
+      }
+    })();
+    // Let the first ingest start before measuring.
+    await new Promise((resolveWait) => setTimeout(resolveWait, 300));
+    console.log(`load: the same during ${flags.rows}-row ingests…`);
+    const loadStartMs = performance.now();
+    const [summaryDuringIngest, healthDuringIngest] = await Promise.all([
+      hammer(summaryUrl, cookie, flags.connections, flags.durationS),
+      hammer(`${base}/api/health`, cookie, HEALTH_CONNECTIONS, flags.durationS),
+    ]);
+    const loadMs = performance.now() - loadStartMs;
+    ingesting = false;
+    await ingestLoop;
+    console.log(describe("repeated summary, ingesting", summaryDuringIngest));
+    console.log(describe("/api/health, ingesting", healthDuringIngest));
+    console.log(`load: ${ingestsDone} ingest(s) of ${flags.rows} rows finished, about ${Math.round(ingestBusyMs / 1000)} s of ingest against ${Math.round(loadMs / 1000)} s measured`);
+
+    // Memory with several campaigns of samples held: a summary of each of them (loads their columns in the worker).
+    const campaigns = (await (await fetch(`${base}/api/sites/${otherSite.id}`, { headers })).json()) as { campaigns: { id: number }[] };
+    for (const each of campaigns.campaigns) await (await fetch(`${base}/api/campaigns/${each.id}/summary`, { headers })).arrayBuffer();
+    await (await fetch(`${base}/api/sites/${otherSite.id}/summary`, { headers })).arrayBuffer();
+    const rssAfterAllMb = rssMb(pid);
+
+    const meets = (figures: LoadFigures) => figures.requestsPerS >= TARGETS.summaryRequestsPerS && figures.p99Ms <= TARGETS.summaryP99Ms && figures.errors + figures.non2xx === 0;
+    const result = {
+      date: new Date().toISOString(),
+      machine: { cpu: cpus()[0]?.model ?? "unknown", cores: cpus().length, memoryGb: Number((totalmem() / 2 ** 30).toFixed(1)), node: process.version },
+      rows: flags.rows,
+      samplesStored: stored.samples.accepted,
+      connections: flags.connections,
+      healthConnections: HEALTH_CONNECTIONS,
+      durationS: flags.durationS,
+      summaryColdMs,
+      summaryKiB: Math.round(summaryBytes / 1024),
+      summary,
+      health,
+      summaryDuringIngest,
+      healthDuringIngest,
+      ingestsDuringLoad: ingestsDone,
+      ingestBusyS: Math.round(ingestBusyMs / 100) / 10,
+      campaignsOfSamples: 1 + ingestsDone,
+      serverRssAfterSummaryMb: rssAfterSummaryMb,
+      serverRssAfterAllCampaignsMb: rssAfterAllMb,
+      serverPeakRssMb: Math.round(peakRssMb(pid)),
+      targets: TARGETS,
+      targetsMet: {
+        summary: meets(summary),
+        summaryDuringIngest: meets(summaryDuringIngest),
+        health: health.p99Ms <= TARGETS.healthP99Ms && health.errors + health.non2xx === 0,
+        healthDuringIngest: healthDuringIngest.p99Ms <= TARGETS.healthP99Ms && healthDuringIngest.errors + healthDuringIngest.non2xx === 0,
+      },
+    };
+    console.log(`load: server memory ${rssAfterSummaryMb} MB after the summary run, ${rssAfterAllMb} MB with ${1 + ingestsDone} campaigns of samples summarised, peak ${result.serverPeakRssMb} MB`);
+    console.log(`load: targets met: ${JSON.stringify(result.targetsMet)}`);
+    return result;
+  } finally {
+    server.kill("SIGTERM");
+    await new Promise((resolveExit) => server.once("exit", resolveExit));
+    rmSync(dataDir, { recursive: true, force: true });
+  }
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  const flags = parseFlags(process.argv.slice(2));
+  const result = await runLoad(flags);
+  // bench/results.json keeps the other benchmarks' figures; the load test owns its `load` key.
+  const previous: Record<string, unknown> = existsSync(flags.out) ? (JSON.parse(readFileSync(flags.out, "utf8")) as Record<string, unknown>) : {};
+  writeFileSync(flags.out, `${JSON.stringify({ ...previous, load: result }, null, 2)}\n`);
+  console.log(`written: ${flags.out} (key "load")`);
+}

@@ -4,6 +4,7 @@ import * as sitesCampaignsUploads from "./20261202_0001_sites_campaigns_uploads"
 import * as hashSessionIds from "./20261203_0001_hash_session_ids";
 import * as outbox from "./20261205_0001_outbox";
 import * as campaignDataVersion from "./20261205_0002_campaign_data_version";
+import * as reports from "./20261205_0001_reports";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -18,6 +19,7 @@ const migrations: [name: string, migration: Migration][] = [
   ["20261203_0001_hash_session_ids", hashSessionIds],
   ["20261205_0001_outbox", outbox],
   ["20261205_0002_campaign_data_version", campaignDataVersion],
+  ["20261205_0001_reports", reports],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -35,7 +35,7 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
   const db = await openDatabase(env.dataDir);
   const samples = new SampleCache(db.sqlite);
   const gate = new WriteGate();
-  const store = createStore(db, samples, gate);
+  const store = createStore(db, samples, gate, { publicBaseUrl: env.publicBaseUrl });
   // Every change to a campaign's samples, exclusions or withdrawals raises its data version in the same transaction.
   store.onChange(dataVersionListener());
   const summaries = new SummaryService({ dbFile: db.file, sqlite: db.sqlite });

@@ -12,3 +12,4 @@ export * from "./csv";
 export * from "./comparisons";
 export * from "./outbox";
 export * from "./markdown";
+export * from "./reports";

@@ -1,6 +1,6 @@
 import request from "supertest";
 import { describe, expect, it } from "vitest";
-import type { CampaignDetail, Exclusion, SiteDetail } from "@calmcrest/contracts";
+import type { CampaignDetail, Exclusion, ReportDetail, SiteDetail } from "@calmcrest/contracts";
 import { roleAllows } from "../access/access.server";
 import type { RouteTableEntry } from "../http/route-table";
 import { createTestServer, SAME_ORIGIN, signedInAgent, tableRows, userIdOf } from "../test-support";
@@ -49,6 +49,23 @@ const mineUpload = await uploadIn(mine.id);
 const otherUpload = await uploadIn(other.id);
 const newExclusion = async (campaignId: number) =>
   ((await lead.post(`/api/campaigns/${campaignId}/exclusions`).set(SAME_ORIGIN).send({ from: "2020-01-01", to: "2020-01-02", reason: "test" })).body as Exclusion).id;
+
+// A report on two sites, published once so committee members (shared with all by default) can read it.
+const site2 = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ name: "Matrix Spur", latitude: -25.1, longitude: -68.1, elevationM: 3900 })).body as SiteDetail;
+const reportComparison = { sites: `${site.id},${site2.id}` };
+const report = (await lead.post("/api/reports").set(SAME_ORIGIN).send({ title: "Matrix report", comparison: reportComparison })).body as ReportDetail;
+await lead.post(`/api/reports/${report.id}/versions`).set(SAME_ORIGIN).send({});
+const firstSectionId = report.draft?.sections[0]?.id ?? 0;
+const newSection = async () => {
+  const detail = (await lead.post(`/api/reports/${report.id}/sections`).set(SAME_ORIGIN).send({ title: "Extra" })).body as ReportDetail;
+  return detail.draft?.sections.at(-1)?.id ?? 0;
+};
+const sectionOrder = async () => ((await lead.get(`/api/reports/${report.id}`)).body as ReportDetail).draft?.sections.map((section) => section.id) ?? [];
+/** A comment written by `role` (by the lead for callers who cannot comment), for that caller to withdraw. */
+const ownComment = async (role: Role | null) => {
+  const author = role === null || role === "engineer" ? lead : agents[role];
+  return (await author.post(`/api/reports/${report.id}/comments`).set(SAME_ORIGIN).send({ body: "matrix", version: 1 })).body.id as number;
+};
 
 interface RouteCase {
   /** "METHOD path" exactly as in the route table. */
@@ -171,6 +188,23 @@ const cases: RouteCase[] = [
     ok: 201,
   },
   { route: "GET /api/outbox", send: (r) => as(r).get("/api/outbox"), ok: 200 },
+  { route: "GET /api/reports", send: (r) => as(r).get("/api/reports"), ok: 200 },
+  { route: "POST /api/reports", send: (r) => as(r).post("/api/reports").set(SAME_ORIGIN).send({ title: `By ${r}`, comparison: reportComparison }), ok: 201 },
+  { route: "GET /api/reports/recipients", send: (r) => as(r).get("/api/reports/recipients"), ok: 200 },
+  { route: "GET /api/reports/:id", send: (r) => as(r).get(`/api/reports/${report.id}`), ok: 200 },
+  { route: "PATCH /api/reports/:id", send: (r) => as(r).patch(`/api/reports/${report.id}`).set(SAME_ORIGIN).send({ summary: `by ${r}` }), ok: 200 },
+  { route: "GET /api/reports/:id/preview", send: (r) => as(r).get(`/api/reports/${report.id}/preview`), ok: 200 },
+  { route: "POST /api/reports/:id/sections", send: (r) => as(r).post(`/api/reports/${report.id}/sections`).set(SAME_ORIGIN).send({ title: `By ${r}` }), ok: 201 },
+  { route: "PUT /api/reports/:id/sections/order", send: async (r) => as(r).put(`/api/reports/${report.id}/sections/order`).set(SAME_ORIGIN).send({ sectionIds: await sectionOrder() }), ok: 200 },
+  { route: "PATCH /api/reports/:id/sections/:sectionId", send: (r) => as(r).patch(`/api/reports/${report.id}/sections/${firstSectionId}`).set(SAME_ORIGIN).send({ body: `by ${r}` }), ok: 200 },
+  { route: "DELETE /api/reports/:id/sections/:sectionId", send: async (r) => as(r).delete(`/api/reports/${report.id}/sections/${await newSection()}`).set(SAME_ORIGIN), ok: 200 },
+  { route: "GET /api/reports/:id/versions/:version", send: (r) => as(r).get(`/api/reports/${report.id}/versions/1`), ok: 200 },
+  { route: "POST /api/reports/:id/versions", send: (r) => as(r).post(`/api/reports/${report.id}/versions`).set(SAME_ORIGIN).send({}), ok: 201 },
+  { route: "GET /api/reports/:id/comments", send: (r) => as(r).get(`/api/reports/${report.id}/comments`), ok: 200 },
+  { route: "POST /api/reports/:id/comments", send: (r) => as(r).post(`/api/reports/${report.id}/comments`).set(SAME_ORIGIN).send({ body: `by ${r}`, version: 1 }), ok: 201 },
+  { route: "PATCH /api/comments/:id", send: async (r) => as(r).patch(`/api/comments/${await ownComment(r)}`).set(SAME_ORIGIN).send({ action: "withdraw" }), ok: 200 },
+  { route: "GET /api/me/preferences", send: (r) => as(r).get("/api/me/preferences"), ok: 200 },
+  { route: "PATCH /api/me/preferences", send: (r) => as(r).patch("/api/me/preferences").set(SAME_ORIGIN).send({ commentEmails: true }), ok: 200 },
   { route: "PATCH /api/users/:id", send: (r) => as(r).patch(`/api/users/${committeeId}`).set(SAME_ORIGIN).send({ role: "committee" }), ok: 200 },
 ];
 

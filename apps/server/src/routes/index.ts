@@ -5,6 +5,7 @@ import { campaignRoutes } from "./campaigns";
 import { comparisonRoutes } from "./comparisons";
 import { configRoutes, healthRoutes } from "./config";
 import { outboxRoutes } from "./outbox";
+import { commentRoutes, preferenceRoutes, reportRoutes } from "./reports";
 import { siteRoutes } from "./sites";
 import { campaignUploadRoutes, uploadRoutes } from "./uploads";
 import { userRoutes } from "./users";
@@ -23,6 +24,9 @@ export const apiRouteModules: ((context: AppContext) => ApiRouter)[] = [
   uploadRoutes,
   userRoutes,
   outboxRoutes,
+  reportRoutes,
+  commentRoutes,
+  preferenceRoutes,
 ];
 
 export function apiRouters(context: AppContext): ApiRouter[] {

@@ -57,6 +57,8 @@ export class StoreCore {
     readonly db: AppDatabase,
     readonly samples: SampleCache,
     readonly gate: WriteGate,
+    /** The address links in e-mails point to (env.publicBaseUrl), without a trailing slash. */
+    readonly publicBaseUrl: string = "http://localhost:4173",
   ) {}
 
   /** The connection for reads (never inside a write: use the scope's trx there). */

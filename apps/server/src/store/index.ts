@@ -6,6 +6,7 @@ import { StoreCore } from "./core";
 import { exclusionsStore } from "./exclusions";
 import { membershipsStore } from "./memberships";
 import { outboxStore } from "./outbox";
+import { reportsStore } from "./reports";
 import { sitesStore } from "./sites";
 import { uploadsStore } from "./uploads";
 import { usersStore } from "./users";
@@ -15,8 +16,8 @@ import type { WriteGate } from "./write-gate";
 // per aggregate; every write runs in one transaction with its audit row and the cache invalidation it needs
 // (StoreCore.write). Modules that must hear of every change register a listener with onChange.
 
-export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGate) {
-  const core = new StoreCore(db, samples, gate);
+export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGate, options: { publicBaseUrl?: string } = {}) {
+  const core = new StoreCore(db, samples, gate, options.publicBaseUrl);
   const campaigns = campaignsStore(core);
   return {
     core,
@@ -33,6 +34,8 @@ export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGa
     audit: auditStore(core),
     /** E-mail waiting to be sent or sent; `queueMail(trx, …)` queues one inside a write (store/outbox.ts). */
     outbox: outboxStore(core),
+    /** Committee reports: working copies, frozen versions, sharing, comments (and the e-mails they queue). */
+    reports: reportsStore(core),
   };
 }
 

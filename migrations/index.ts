@@ -5,6 +5,7 @@ import * as hashSessionIds from "./20261203_0001_hash_session_ids";
 import * as outbox from "./20261205_0001_outbox";
 import * as campaignDataVersion from "./20261205_0002_campaign_data_version";
 import * as reports from "./20261205_0001_reports";
+import * as uploadWithdrawal from "./20261205_0003_upload_withdrawal";
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -20,6 +21,7 @@ const migrations: [name: string, migration: Migration][] = [
   ["20261205_0001_outbox", outbox],
   ["20261205_0002_campaign_data_version", campaignDataVersion],
   ["20261205_0001_reports", reports],
+  ["20261205_0003_upload_withdrawal", uploadWithdrawal],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,4 +1,5 @@
-import type { ColumnMappingInput } from "./campaigns";
+import { z } from "zod";
+import { mappingOverridesSchema, monitorSettingsSchema, type CampaignMonitor, type ColumnMappingInput } from "./campaigns";
 import type { LogSample } from "@calmcrest/seeing-stats";
 
 export const UPLOAD_STATUSES = ["queued", "ingesting", "done", "failed", "interrupted"] as const;
@@ -64,6 +65,14 @@ export interface UploadListItem {
   warnings: { code: "lines_not_split" | "many_rows_unusable" | "no_data_rows"; message: string }[];
   error: string | null;
   finishedAt: string | null;
+  /** Set while the upload is withdrawn: its samples are in no statistic; the raw file stays stored. */
+  withdrawn: { at: string; by: { id: string; name: string }; reason: string } | null;
+  /** A re-read of a stored raw file names the upload it replaced. */
+  replacesUploadId: number | null;
+  /** The re-read that replaced this upload, if any (the newest). */
+  replacedByUploadId: number | null;
+  /** Corrected monitor settings a re-read was made with (null: the campaign's). */
+  monitorOverride: CampaignMonitor | null;
 }
 
 /** `GET /api/uploads/:id`. Poll it while status is queued or ingesting. */
@@ -80,10 +89,58 @@ export interface UploadAccepted {
   upload: { id: number; status: UploadStatusName };
 }
 
-/** 409 answer of `POST /api/campaigns/:id/uploads` when the same bytes were already uploaded to this campaign. */
+/**
+ * 409 answer of `POST /api/campaigns/:id/uploads` when the same bytes were already uploaded to this campaign.
+ * `upload` is the one that holds those bytes now (the newest re-read, if any); `rereadOffer` is set when the file
+ * was sent with a different mapping and the caller may re-read the stored file with it (POST /api/uploads/:id/reread).
+ */
 export interface UploadDuplicateBody {
   error: { code: "duplicate_upload"; message: string };
   upload: UploadListItem;
+  rereadOffer: { uploadId: number; mapping: ColumnMappingInput } | null;
+}
+
+const reasonText = (what: string) =>
+  z
+    .string({ error: `Say why the upload is ${what}.` })
+    .trim()
+    .min(3, `Say in a few words why the upload is ${what} (at least 3 characters).`)
+    .max(500, "Keep the reason under 500 characters.");
+
+/** Body of `POST /api/uploads/:id/withdraw`: the samples leave every statistic; the raw file stays. */
+export const withdrawUploadSchema = z.object({ reason: reasonText("withdrawn") });
+export type WithdrawUploadInput = z.infer<typeof withdrawUploadSchema>;
+
+/** Body of `POST /api/uploads/:id/restore`. */
+export const restoreUploadSchema = z.object({ reason: reasonText("restored").optional() });
+export type RestoreUploadInput = z.infer<typeof restoreUploadSchema>;
+
+/**
+ * Body of `POST /api/uploads/:id/reread`: read the stored raw file again with a corrected mapping and/or corrected
+ * monitor settings. A new upload replaces the old one, which is withdrawn in the same transaction.
+ */
+export const rereadUploadSchema = z
+  .object({
+    /** Overrides of the fields it names, like an upload's mapping (the web app sends every field). */
+    mapping: mappingOverridesSchema.optional(),
+    monitor: monitorSettingsSchema.optional(),
+    reason: reasonText("read again"),
+  });
+export type RereadUploadInput = z.input<typeof rereadUploadSchema>;
+
+/** 202 answer of `POST /api/uploads/:id/reread`. */
+export interface RereadAccepted {
+  upload: { id: number; status: UploadStatusName };
+  replaces: number;
+}
+
+/** Writes an ISO instant as words for messages: "3 December 2026 at 14:05 UTC". */
+export function dateInWords(iso: string): string {
+  const date = new Date(iso);
+  if (!Number.isFinite(date.getTime())) return iso;
+  const months = ["January", "February", "March", "April", "May", "June", "July", "August", "September", "October", "November", "December"];
+  const pad = (value: number) => String(value).padStart(2, "0");
+  return `${date.getUTCDate()} ${months[date.getUTCMonth()] ?? ""} ${date.getUTCFullYear()} at ${pad(date.getUTCHours())}:${pad(date.getUTCMinutes())} UTC`;
 }
 
 /** A sample as the seeing engine reads it (zenith, 500 nm), shown in the upload preview: the engine's LogSample. */

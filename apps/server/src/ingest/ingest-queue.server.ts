@@ -1,7 +1,7 @@
 import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
-import { monitorOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
+import { effectiveCampaign, monitorOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
 import { rawFilePath } from "../uploads/raw-files.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
@@ -155,7 +155,8 @@ export class IngestQueue {
       rawPath: rawFilePath(this.options.dataDir, upload.sha256),
       sizeBytes: upload.size_bytes,
       mapping: JSON.parse(upload.mapping) as ColumnMapping,
-      monitor: monitorOf(campaign),
+      // A re-read may carry corrected monitor settings; otherwise the campaign's.
+      monitor: monitorOf(effectiveCampaign(campaign, upload)),
       site: siteLocationOf(site),
     };
     if (this.options.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;

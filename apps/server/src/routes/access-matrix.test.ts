@@ -181,6 +181,35 @@ const cases: RouteCase[] = [
   // A done upload cannot be retried (409), but only roles that may upload there get that far.
   { route: "POST /api/uploads/:id/retry", campaign: "mine", send: (r) => as(r).post(`/api/uploads/${mineUpload}/retry`).set(SAME_ORIGIN), ok: 409 },
   { route: "POST /api/uploads/:id/retry", campaign: "other", send: (r) => as(r).post(`/api/uploads/${otherUpload}/retry`).set(SAME_ORIGIN), ok: 409 },
+  { route: "GET /api/uploads/:id/raw", campaign: "mine", send: (r) => as(r).get(`/api/uploads/${mineUpload}/raw`), ok: 200 },
+  { route: "GET /api/uploads/:id/raw", campaign: "other", send: (r) => as(r).get(`/api/uploads/${otherUpload}/raw`), ok: 200 },
+  // Withdraw, restore and re-read: a lead, or the engineer who sent the file. Each caller acts on an upload of its
+  // own where it may upload (a fresh one each time), else on the lead's.
+  ...(["mine", "other"] as const).flatMap((which): RouteCase[] => {
+    const campaignId = () => (which === "mine" ? mine.id : other.id);
+    const uploadFor = async (r: Role | null) => {
+      if (r === "lead" || (r === "engineer" && which === "mine")) {
+        const agent = agents[r];
+        return (await waitForUpload(agent, (await postUpload(agent, campaignId(), freshLog())).body.upload.id)).id;
+      }
+      return which === "mine" ? mineUpload : otherUpload;
+    };
+    const withdrawnFor = async (r: Role | null) => {
+      const id = await uploadFor(r);
+      if (r === "lead" || (r === "engineer" && which === "mine")) await agents[r].post(`/api/uploads/${id}/withdraw`).set(SAME_ORIGIN).send({ reason: "matrix" });
+      return id;
+    };
+    return [
+      { route: "POST /api/uploads/:id/withdraw", campaign: which, send: async (r) => as(r).post(`/api/uploads/${await uploadFor(r)}/withdraw`).set(SAME_ORIGIN).send({ reason: "matrix" }), ok: 200 },
+      { route: "POST /api/uploads/:id/restore", campaign: which, send: async (r) => as(r).post(`/api/uploads/${await withdrawnFor(r)}/restore`).set(SAME_ORIGIN).send({}), ok: 200 },
+      {
+        route: "POST /api/uploads/:id/reread",
+        campaign: which,
+        send: async (r) => as(r).post(`/api/uploads/${await uploadFor(r)}/reread`).set(SAME_ORIGIN).send({ mapping: { time_utc: "time_utc", seeing_arcsec: "seeing_arcsec", zenith_deg: "zenith_deg" }, reason: "matrix" }),
+        ok: 202,
+      },
+    ];
+  }),
   { route: "GET /api/users", send: (r) => as(r).get("/api/users"), ok: 200 },
   {
     route: "POST /api/users",

@@ -1,15 +1,27 @@
+import { createReadStream } from "node:fs";
 import { access } from "node:fs/promises";
 import type { RequestHandler } from "express";
 import multer from "multer";
-import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type MappingOverrides } from "@calmcrest/seeing-stats";
-import { mappingOverridesSchema, spreadsheetSafeCsv, type UploadAccepted, type UploadDuplicateBody, type UploadPreview } from "@calmcrest/contracts";
+import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type ColumnMapping, type MappingOverrides } from "@calmcrest/seeing-stats";
+import {
+  dateInWords,
+  mappingOverridesSchema,
+  rereadUploadSchema,
+  restoreUploadSchema,
+  spreadsheetSafeCsv,
+  withdrawUploadSchema,
+  type RereadAccepted,
+  type UploadAccepted,
+  type UploadDuplicateBody,
+  type UploadPreview,
+} from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.server";
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
-import { monitorOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
-import { acceptUpload } from "../uploads/accept-upload.server";
+import { effectiveCampaign, monitorColumns, monitorOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
+import { acceptUpload, checkHeader } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
 
 declare global {
@@ -139,12 +151,20 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     const result = await acceptUpload(context, { campaign, userId: user.id, file, fileName: file.originalname, mapping });
     if (result.kind === "duplicate") {
       const { existing } = result;
+      // Same bytes with another mapping: offer to re-read the stored file with it (for those who may), not a dead end.
+      const mayReread = user.role === "lead" || existing.uploaded_by === user.id;
+      const differs = !sameMapping(result.mapping, JSON.parse(existing.mapping) as ColumnMapping);
+      const when = dateInWords(existing.uploaded_at);
       const duplicate: UploadDuplicateBody = {
         error: {
           code: "duplicate_upload",
-          message: `This file was uploaded to this campaign already (${existing.file_name}, ${existing.uploaded_at}); its samples are counted once.`,
+          message:
+            differs && mayReread
+              ? `This file was uploaded to this campaign already (${existing.file_name}, on ${when}), read with another mapping. Its samples are counted once; to read it with this mapping instead, re-read the stored file.`
+              : `This file was uploaded to this campaign already (${existing.file_name}, on ${when}); its samples are counted once.`,
         },
         upload: uploadListItem(existing),
+        rereadOffer: differs && mayReread ? { uploadId: existing.id, mapping: result.mapping } : null,
       };
       res.status(409).json(duplicate);
       return;
@@ -154,6 +174,22 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
   });
 
   return routes;
+}
+
+/** Two mappings name the same header for the same fields (order does not matter). */
+function sameMapping(left: ColumnMapping, right: ColumnMapping): boolean {
+  const entries = (mapping: ColumnMapping) =>
+    Object.entries(mapping)
+      .filter(([, header]) => header !== undefined)
+      .sort(([a], [b]) => a.localeCompare(b));
+  return JSON.stringify(entries(left)) === JSON.stringify(entries(right));
+}
+
+/** The file name without its last extension, for download names (`log.csv` -> `log`, so no `….csv.csv`). */
+function baseName(fileName: string): string {
+  const safe = fileName.replace(/[^\w.-]+/g, "_");
+  const dot = safe.lastIndexOf(".");
+  return dot > 0 ? safe.slice(0, dot) : safe;
 }
 
 /** /api/uploads/:id: an upload's status, its rejected rows, and a retry. */
@@ -170,8 +206,7 @@ export function uploadRoutes(context: AppContext): ApiRouter {
   routes.route("GET", "/:id/rejected.csv", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
     const row = await store.uploads.forUser(currentUser(res.locals), uploadId(req.params.id), "read");
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
-    const safeName = row.file_name.replace(/[^\w.-]+/g, "_");
-    res.setHeader("Content-Disposition", `attachment; filename="rejected-${row.id}-${safeName}.csv"`);
+    res.setHeader("Content-Disposition", `attachment; filename="rejected-${row.id}-${baseName(row.file_name)}.csv"`);
     // Spreadsheet-safe: a raw line from the uploaded file may start with = or @ (spreadsheetSafeCsv).
     res.write(spreadsheetSafeCsv([["line", "reason", "message", "raw_line"]]));
     let batch: [number, string, string, string][] = [];
@@ -198,6 +233,66 @@ export function uploadRoutes(context: AppContext): ApiRouter {
     await store.uploads.requeue(user.id, row.id);
     ingest.enqueue(row.id);
     const accepted: UploadAccepted = { upload: { id: row.id, status: "queued" } };
+    res.status(202).json(accepted);
+  });
+
+  routes.route("GET", "/:id/raw", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
+    const row = await store.uploads.forUser(currentUser(res.locals), uploadId(req.params.id), "read");
+    const path = rawFilePath(env.dataDir, row.sha256);
+    await access(path).catch(() => {
+      throw new HttpError(404, "raw_file_missing", "The stored raw file of this upload is missing from the data directory. Restore it from a backup (npm run restore).");
+    });
+    const safe = row.file_name.replace(/[^\w.-]+/g, "_");
+    res.setHeader("Content-Type", "application/octet-stream");
+    res.setHeader("Content-Length", String(row.size_bytes));
+    res.setHeader("Content-Disposition", `attachment; filename="${safe}"`);
+    await new Promise<void>((resolve, reject) => {
+      const stream = createReadStream(path);
+      stream.on("error", reject);
+      res.on("close", () => {
+        stream.destroy();
+        resolve();
+      });
+      stream.pipe(res);
+    });
+  });
+
+  routes.route("POST", "/:id/withdraw", { access: FIELD_ROLES, campaignAction: "upload" }, async (req, res) => {
+    const user = currentUser(res.locals);
+    const row = await store.uploads.forUser(user, uploadId(req.params.id), "upload");
+    const input = parseOr400(withdrawUploadSchema, req.body, "The withdrawal");
+    await store.uploads.withdraw(user, row, input.reason);
+    res.json(await store.uploads.status(await store.uploads.forUser(user, row.id, "read"), undefined));
+  });
+
+  routes.route("POST", "/:id/restore", { access: FIELD_ROLES, campaignAction: "upload" }, async (req, res) => {
+    const user = currentUser(res.locals);
+    const row = await store.uploads.forUser(user, uploadId(req.params.id), "upload");
+    const input = parseOr400(restoreUploadSchema, req.body ?? {}, "The restore");
+    await store.uploads.restore(user, row, input.reason);
+    res.json(await store.uploads.status(await store.uploads.forUser(user, row.id, "read"), undefined));
+  });
+
+  routes.route("POST", "/:id/reread", { access: FIELD_ROLES, campaignAction: "upload" }, async (req, res) => {
+    const user = currentUser(res.locals);
+    const row = await store.uploads.forUser(user, uploadId(req.params.id), "upload");
+    const input = parseOr400(rereadUploadSchema, req.body, "The re-read");
+    const path = rawFilePath(env.dataDir, row.sha256);
+    await access(path).catch(() => {
+      throw new HttpError(409, "raw_file_missing", "The stored raw file of this upload is missing from the data directory, so it cannot be re-read. Upload the file again.");
+    });
+    const campaign = await store.campaigns.forUser(user, row.campaign_id, "upload");
+    const corrected = input.monitor ? { ...campaign, ...monitorColumns(input.monitor) } : effectiveCampaign(campaign, row);
+    let mapping: ColumnMapping;
+    try {
+      mapping = await checkHeader(path, monitorOf(corrected), input.mapping ?? (JSON.parse(row.mapping) as ColumnMapping));
+    } catch (error) {
+      if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
+      throw error;
+    }
+    const newId = await store.uploads.reread(user, row, { mapping, monitor: input.monitor, reason: input.reason });
+    ingest.enqueue(newId);
+    const accepted: RereadAccepted = { upload: { id: newId, status: "queued" }, replaces: row.id };
     res.status(202).json(accepted);
   });
 

@@ -104,8 +104,9 @@ export async function campaignStats(knex: Knex, campaignIds: readonly number[]):
     .groupBy("campaign_id")
     .select<{ campaign_id: number; uploads: number; samples: number | null }[]>(
       "campaign_id",
-      knex.raw("COUNT(*) AS uploads"),
-      knex.raw("SUM(CASE WHEN status = 'done' THEN samples_accepted ELSE 0 END) AS samples"),
+      // Withdrawn uploads are listed but count for nothing.
+      knex.raw("SUM(CASE WHEN withdrawn_at IS NULL THEN 1 ELSE 0 END) AS uploads"),
+      knex.raw("SUM(CASE WHEN status = 'done' AND withdrawn_at IS NULL THEN samples_accepted ELSE 0 END) AS samples"),
     );
   for (const id of campaignIds) stats.set(id, { sampleCount: 0, uploadCount: 0, firstSampleAt: null, lastSampleAt: null });
   for (const row of uploads) {

@@ -2,10 +2,12 @@ import type { Knex } from "knex";
 import type { User } from "lucia";
 import { readingWarnings, type ColumnMapping } from "@calmcrest/seeing-stats";
 import type { ColumnMappingInput, RejectReasonName, SampleCounts, UploadListItem, UploadStatus, UploadStatusName } from "@calmcrest/contracts";
+import type { z } from "zod";
+import type { monitorSettingsSchema } from "@calmcrest/contracts";
 import type { CampaignAction } from "../access/access.server";
 import { HttpError, notFound } from "../http/errors";
 import type { StoreCore } from "./core";
-import type { CampaignRow } from "./campaigns";
+import { campaignMonitor, monitorColumns, type CampaignRow } from "./campaigns";
 import type { SiteRow } from "./sites";
 
 // Uploads: rows, the mapping to the contracts, the upload and retry writes (race-safe), and the ingest queue's
@@ -28,11 +30,37 @@ export interface UploadRow {
   error: string | null;
   started_at: string | null;
   finished_at: string | null;
+  withdrawn_at: string | null;
+  withdrawn_by: string | null;
+  withdrawer_name: string | null;
+  withdrawn_reason: string | null;
+  replaces_upload_id: number | null;
+  /** The newest upload that re-read this one (computed). */
+  replaced_by_upload_id: number | null;
+  /** JSON of the monitor columns a re-read was made with (null: the campaign's). */
+  monitor_override: string | null;
 }
 
-/** Upload rows with the uploader's name. */
+/** The monitor columns a re-read may correct (the campaign row's names). */
+export type MonitorOverride = ReturnType<typeof monitorColumns>;
+
+/** Upload rows with the uploader's and the withdrawer's names and the re-read that replaced each. */
 export function uploadRows(knex: Knex) {
-  return knex("upload").leftJoin("user", "user.id", "upload.uploaded_by").select<UploadRow[]>("upload.*", "user.name as uploader_name");
+  return knex("upload")
+    .leftJoin("user", "user.id", "upload.uploaded_by")
+    .leftJoin("user as withdrawer", "withdrawer.id", "upload.withdrawn_by")
+    .select<UploadRow[]>(
+      "upload.*",
+      "user.name as uploader_name",
+      "withdrawer.name as withdrawer_name",
+      knex.raw("(SELECT MAX(later.id) FROM upload AS later WHERE later.replaces_upload_id = upload.id) AS replaced_by_upload_id"),
+    );
+}
+
+/** The campaign's monitor with a re-read's corrections applied (what the ingest computes with). */
+export function effectiveCampaign(campaign: CampaignRow, upload: Pick<UploadRow, "monitor_override">): CampaignRow {
+  if (!upload.monitor_override) return campaign;
+  return { ...campaign, ...(JSON.parse(upload.monitor_override) as MonitorOverride) };
 }
 
 export function uploadCounts(row: UploadRow): SampleCounts {
@@ -56,8 +84,45 @@ export function uploadListItem(row: UploadRow): UploadListItem {
     warnings: row.status === "done" ? readingWarnings(samples) : [],
     error: row.error,
     finishedAt: row.finished_at,
+    withdrawn:
+      row.withdrawn_at === null
+        ? null
+        : { at: row.withdrawn_at, by: { id: row.withdrawn_by ?? "", name: row.withdrawer_name ?? "(deleted user)" }, reason: row.withdrawn_reason ?? "" },
+    replacesUploadId: row.replaces_upload_id,
+    replacedByUploadId: row.replaced_by_upload_id,
+    monitorOverride: row.monitor_override ? campaignMonitor({ ...PLACEHOLDER_CAMPAIGN, ...(JSON.parse(row.monitor_override) as MonitorOverride) }) : null,
   };
 }
+
+/** Only the monitor columns of this placeholder are read (campaignMonitor of an override). */
+const PLACEHOLDER_CAMPAIGN: CampaignRow = {
+  id: 0,
+  site_id: 0,
+  name: "",
+  aperture_mm: 0,
+  baseline_mm: 0,
+  wavelength_nm: 0,
+  pixel_scale_arcsec: null,
+  exposure_ms: null,
+  height_above_ground_m: null,
+  response: "z-tilt",
+  start_date: null,
+  end_date: null,
+  status: "running",
+  notes: "",
+  saved_mapping: null,
+  created_at: "",
+  updated_at: "",
+};
+
+/** The sample columns, in the order both sample tables are copied with. */
+const SAMPLE_COLUMNS =
+  "campaign_id, time_ms, upload_id, seeing_arcsec, r0_cm, zenith_deg, seeing_long_arcsec, seeing_trans_arcsec, anisotropic, sun_alt_deg, flux, scint_index, tau0_ms, theta0_arcsec, wind_ms, rh_pct";
+
+/** Statuses an upload may be withdrawn, restored or re-read from (not while it is queued or being read). */
+const SETTLED_STATUSES: readonly UploadStatusName[] = ["done", "failed", "interrupted"];
+
+type MonitorInput = z.output<typeof monitorSettingsSchema>;
 
 /** Counts of rows rejected at ingest (they have no usable time, so they only join summaries without a time range). */
 export interface IngestRejections {
@@ -85,20 +150,44 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
   }
 
   async function duplicateOf(campaignId: number, sha256: string): Promise<UploadRow | undefined> {
-    return uploadRows(knex()).where({ "upload.campaign_id": campaignId, "upload.sha256": sha256 }).first();
+    return uploadRows(knex()).where({ "upload.campaign_id": campaignId, "upload.sha256": sha256 })
+      // The one that holds those bytes now: the active upload, else the newest re-read.
+      .orderByRaw("upload.withdrawn_at IS NULL DESC, upload.id DESC")
+      .first();
+  }
+
+  /** Who may withdraw, restore or re-read: a survey lead, or the engineer who sent the file (both within campaigns they may upload to). */
+  function requireOwnerOrLead(user: User, row: UploadRow, verb: string): void {
+    if (user.role === "engineer" && row.uploaded_by !== user.id) {
+      throw new HttpError(403, "forbidden", `Only the engineer who sent this file or a survey lead can ${verb} it. Ask ${row.uploader_name ?? "a survey lead"}.`);
+    }
+  }
+
+  function requireSettled(row: { status: UploadStatusName }, verb: string): void {
+    if (!SETTLED_STATUSES.includes(row.status)) {
+      throw new HttpError(409, "upload_busy", `This upload is ${row.status}; it can be ${verb} once its reading has finished. Wait a moment and try again.`);
+    }
+  }
+
+  /** Moves the upload's samples out of every statistic (into withdrawn_sample) and marks it withdrawn; inside a write. */
+  async function withdrawIn(trx: Knex.Transaction, row: { id: number; campaign_id: number }, actorId: string, reason: string, at: string): Promise<number> {
+    await trx.raw(`INSERT INTO withdrawn_sample (${SAMPLE_COLUMNS}) SELECT ${SAMPLE_COLUMNS} FROM sample WHERE campaign_id = ? AND upload_id = ?`, [row.campaign_id, row.id]);
+    const moved = await trx("sample").where({ campaign_id: row.campaign_id, upload_id: row.id }).delete();
+    await trx("upload").where({ id: row.id }).update({ withdrawn_at: at, withdrawn_by: actorId, withdrawn_reason: reason });
+    return moved;
   }
 
   return {
     byId,
     duplicateOf,
 
-    /** The upload, if the user may do `action` in its campaign; an upload of a campaign one cannot see does not exist for them (404). */
     /** The sha256 of every upload (lower case): the raw files the data directory must keep. */
     async storedSha256s(): Promise<Set<string>> {
       const shas = await knex()("upload").distinct("sha256").pluck<string[]>("sha256");
       return new Set(shas.map((sha) => sha.toLowerCase()));
     },
 
+    /** The upload, if the user may do `action` in its campaign; an upload of a campaign one cannot see does not exist for them (404). */
     async forUser(user: User, uploadId: number, action: CampaignAction): Promise<UploadRow> {
       const row = await byId(uploadId);
       if (!row) throw notFound("That upload");
@@ -145,6 +234,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
       const rows = await knex()("upload")
         .whereIn("campaign_id", campaignIds)
         .andWhere({ status: "done" })
+        .whereNull("withdrawn_at")
         .select<{ rows_read: number; samples_accepted: number; rejected_by_reason: string }[]>("rows_read", "samples_accepted", "rejected_by_reason");
       const rejectedByReason: Record<string, number> = {};
       let rejected = 0;
@@ -211,11 +301,124 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
         const changed = await trx("upload")
           .where({ id: uploadId })
           .whereIn("status", RETRYABLE_STATUSES)
+          .whereNull("withdrawn_at")
           .update({ status: "queued", error: null, finished_at: null });
         if (changed === 0) {
+          if (before.status !== "done" && (await trx("upload").where({ id: uploadId }).whereNotNull("withdrawn_at").first())) {
+            throw new HttpError(409, "not_retryable", "This upload is withdrawn; restore it first, or re-read it with a corrected mapping.");
+          }
           throw new HttpError(409, "not_retryable", `Only failed or interrupted uploads can be retried; this one is ${before.status}.`);
         }
         await audit({ userId: actorId, action: "upload.retry", targetType: "upload", targetId: uploadId, details: { previousStatus: before.status, previousError: before.error } });
+      });
+    },
+
+    /**
+     * Withdraws an upload: its samples leave every statistic (moved aside, not deleted), the raw file stays, and the
+     * audit row says who and why. A lead may withdraw any upload they can see; an engineer only their own.
+     */
+    async withdraw(user: User, row: UploadRow, reason: string): Promise<void> {
+      requireOwnerOrLead(user, row, "withdraw");
+      await core.write(async ({ trx, audit, afterCommit }) => {
+        const current = await trx("upload").where({ id: row.id }).first<{ status: UploadStatusName; withdrawn_at: string | null } | undefined>("status", "withdrawn_at");
+        if (!current) throw notFound("That upload");
+        if (current.withdrawn_at !== null) throw new HttpError(409, "already_withdrawn", "This upload is withdrawn already. Restore it if its samples should count again.");
+        requireSettled(current, "withdrawn");
+        const moved = await withdrawIn(trx, row, user.id, reason, new Date().toISOString());
+        await audit({ userId: user.id, action: "upload.withdraw", targetType: "upload", targetId: row.id, details: { campaignId: row.campaign_id, reason, samples: moved } });
+        afterCommit(() => core.samples.invalidate(row.campaign_id));
+      });
+    },
+
+    /**
+     * Restores a withdrawn upload: its samples count again, exactly as before. Refused (409) when another upload now
+     * holds some of the same times (a re-read of the same file, typically): withdraw that one first.
+     */
+    async restore(user: User, row: UploadRow, reason: string | undefined): Promise<void> {
+      requireOwnerOrLead(user, row, "restore");
+      await core.write(async ({ trx, audit, afterCommit }) => {
+        const current = await trx("upload").where({ id: row.id }).first<{ withdrawn_at: string | null; withdrawn_reason: string | null } | undefined>("withdrawn_at", "withdrawn_reason");
+        if (!current) throw notFound("That upload");
+        if (current.withdrawn_at === null) throw new HttpError(409, "not_withdrawn", "This upload is not withdrawn; its samples already count.");
+        const holders = await trx("withdrawn_sample as w")
+          .join("sample as s", function () {
+            this.on("s.campaign_id", "=", "w.campaign_id").andOn("s.time_ms", "=", "w.time_ms");
+          })
+          .join("upload as u", "u.id", "s.upload_id")
+          .where("w.upload_id", row.id)
+          .groupBy("u.id", "u.file_name")
+          .select<{ id: number; file_name: string; n: number }[]>("u.id", "u.file_name", trx.raw("COUNT(*) AS n"));
+        if (holders.length > 0) {
+          const named = holders.map((holder) => `upload #${holder.id} (${holder.file_name}, ${holder.n} ${holder.n === 1 ? "time" : "times"})`).join(", ");
+          throw new HttpError(
+            409,
+            "times_taken",
+            `This upload cannot be restored: ${named} now ${holders.length === 1 ? "holds" : "hold"} samples at the same times. Withdraw ${holders.length === 1 ? "it" : "them"} first, then restore this one.`,
+          );
+        }
+        await trx.raw(`INSERT INTO sample (${SAMPLE_COLUMNS}) SELECT ${SAMPLE_COLUMNS} FROM withdrawn_sample WHERE upload_id = ?`, [row.id]);
+        const moved = await trx("withdrawn_sample").where({ upload_id: row.id }).delete();
+        await trx("upload").where({ id: row.id }).update({ withdrawn_at: null, withdrawn_by: null, withdrawn_reason: null });
+        await audit({
+          userId: user.id,
+          action: "upload.restore",
+          targetType: "upload",
+          targetId: row.id,
+          details: { campaignId: row.campaign_id, reason: reason ?? null, samples: moved, withdrawnAt: current.withdrawn_at, withdrawnReason: current.withdrawn_reason },
+        });
+        afterCommit(() => core.samples.invalidate(row.campaign_id));
+      });
+    },
+
+    /**
+     * Reads an upload's stored raw file again with a corrected mapping and/or monitor: a new upload row linked to the
+     * old one is queued, and the old one is withdrawn in the same transaction (unless it is withdrawn already).
+     * Returns the new upload's id; the caller queues its ingest.
+     */
+    async reread(user: User, row: UploadRow, input: { mapping: ColumnMapping; monitor: MonitorInput | undefined; reason: string }): Promise<number> {
+      requireOwnerOrLead(user, row, "re-read");
+      return core.write(async ({ trx, audit, afterCommit }) => {
+        const current = await trx("upload").where({ id: row.id }).first<{ status: UploadStatusName; withdrawn_at: string | null } | undefined>("status", "withdrawn_at");
+        if (!current) throw notFound("That upload");
+        requireSettled(current, "re-read");
+        const newer = await trx("upload").where({ replaces_upload_id: row.id }).whereNull("withdrawn_at").first<{ id: number } | undefined>("id");
+        if (newer) throw new HttpError(409, "already_reread", `This upload was re-read already as upload #${newer.id}; re-read that one instead.`);
+        const now = new Date().toISOString();
+        const override = input.monitor ? JSON.stringify(monitorColumns(input.monitor)) : row.monitor_override;
+        const [inserted] = await trx("upload")
+          .insert({
+            campaign_id: row.campaign_id,
+            file_name: row.file_name,
+            size_bytes: row.size_bytes,
+            sha256: row.sha256,
+            uploaded_by: user.id,
+            uploaded_at: now,
+            mapping: JSON.stringify(input.mapping),
+            status: "queued",
+            replaces_upload_id: row.id,
+            monitor_override: override,
+          })
+          .returning<{ id: number }[]>("id");
+        if (!inserted) throw new HttpError(500, "server_error", "The re-read could not be recorded. Try again.");
+        if (current.withdrawn_at === null) {
+          const moved = await withdrawIn(trx, row, user.id, `Replaced by re-read #${inserted.id}: ${input.reason}`, now);
+          await audit({
+            userId: user.id,
+            action: "upload.withdraw",
+            targetType: "upload",
+            targetId: row.id,
+            details: { campaignId: row.campaign_id, reason: input.reason, samples: moved, replacedBy: inserted.id },
+          });
+        }
+        await audit({
+          userId: user.id,
+          action: "upload.reread",
+          targetType: "upload",
+          targetId: inserted.id,
+          details: { campaignId: row.campaign_id, replaces: row.id, reason: input.reason, mapping: input.mapping, monitor: input.monitor ?? null },
+        });
+        afterCommit(() => core.samples.invalidate(row.campaign_id));
+        return inserted.id;
       });
     },
 

@@ -16,7 +16,7 @@ class HeaderChecked extends Error {}
  * engine's LogFormatError (with its line). Gives the mapping the ingest will use: the overrides sent, every other
  * field matched by name.
  */
-async function checkHeader(path: string, monitor: MonitorSettings, mapping: MappingOverrides | undefined): Promise<ColumnMapping> {
+export async function checkHeader(path: string, monitor: MonitorSettings, mapping: MappingOverrides | undefined): Promise<ColumnMapping> {
   let used: ColumnMapping | null = null;
   const stop = () => {
     throw new HeaderChecked();
@@ -49,7 +49,8 @@ function hasControlCharacter(text: string): boolean {
   return false;
 }
 
-export type AcceptResult = RecordResult;
+/** A duplicate also says which mapping this request would have read the file with (to offer a re-read with it). */
+export type AcceptResult = { kind: "queued"; uploadId: number } | (Extract<RecordResult, { kind: "duplicate" }> & { mapping: ColumnMapping });
 
 /**
  * The one path from a received, hashed temporary file to a queued upload (used by the upload route and by the
@@ -85,7 +86,7 @@ export async function acceptUpload(
     const existing = await store.uploads.duplicateOf(campaign.id, file.sha256);
     if (existing) {
       await discardTemporary(file);
-      return { kind: "duplicate", existing };
+      return { kind: "duplicate", existing, mapping };
     }
     await storeRawFile(context.env.dataDir, file);
     // A duplicate recorded by a concurrent request meanwhile is answered as a duplicate; the raw file (the same
@@ -98,7 +99,7 @@ export async function acceptUpload(
       mapping,
     });
     if (result.kind === "queued") context.ingest.enqueue(result.uploadId);
-    return result;
+    return result.kind === "queued" ? result : { ...result, mapping };
   } catch (error) {
     // storeRawFile moved the file away if it got that far; otherwise drop the temporary copy.
     await discardTemporary(file);

@@ -1,6 +1,17 @@
 import { queryOptions } from "@tanstack/react-query";
 import { exactMapping } from "@calmcrest/seeing-stats";
-import type { ApiErrorBody, ColumnMappingInput, UploadAccepted, UploadDuplicateBody, UploadPreview, UploadStatus } from "@calmcrest/contracts";
+import type {
+  ApiErrorBody,
+  ColumnMappingInput,
+  RereadAccepted,
+  RereadUploadInput,
+  RestoreUploadInput,
+  UploadAccepted,
+  UploadDuplicateBody,
+  UploadPreview,
+  UploadStatus,
+  WithdrawUploadInput,
+} from "@calmcrest/contracts";
 import { ApiError, api } from "./client";
 
 export const uploadQuery = (uploadId: number) =>
@@ -64,4 +75,42 @@ export function sendUpload(campaignId: number, file: File, mapping: ColumnMappin
     form.append("file", file, file.name);
     request.send(form);
   });
+}
+
+/** Takes an upload's samples out of every statistic (lead, or the engineer who sent it); the raw file stays. */
+export const withdrawUpload = (uploadId: number, input: WithdrawUploadInput) => api<UploadStatus>(`/uploads/${uploadId}/withdraw`, { body: input });
+
+/** Puts a withdrawn upload's samples back. */
+export const restoreUpload = (uploadId: number, input: RestoreUploadInput) => api<UploadStatus>(`/uploads/${uploadId}/restore`, { body: input });
+
+/** Reads the stored raw file again with a corrected mapping or monitor; the old upload is withdrawn in the same step. */
+export const rereadUpload = (uploadId: number, input: Omit<RereadUploadInput, "mapping"> & { mapping: ColumnMappingInput }) =>
+  // Every field is sent (exactMapping), so the server reads the file with exactly the mapping that was checked.
+  api<RereadAccepted>(`/uploads/${uploadId}/reread`, { body: { ...input, mapping: exactMapping(input.mapping) } });
+
+/** Where the stored raw file of an upload is downloaded. */
+export const rawFileUrl = (uploadId: number) => `/api/uploads/${uploadId}/raw`;
+
+/** The opening bytes of an upload's stored raw file (for the re-read's mapping), without fetching the rest. */
+export async function rawFileHead(uploadId: number, maxBytes: number): Promise<string> {
+  const response = await fetch(rawFileUrl(uploadId), { credentials: "same-origin" });
+  if (!response.ok || !response.body) throw new ApiError(response.status, "http_error", "The stored raw file could not be read. Try again.");
+  const reader = response.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let received = 0;
+  while (received < maxBytes) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    chunks.push(value);
+    received += value.length;
+  }
+  await reader.cancel().catch(() => undefined);
+  const bytes = new Uint8Array(Math.min(received, maxBytes));
+  let offset = 0;
+  for (const chunk of chunks) {
+    const part = chunk.subarray(0, Math.max(0, bytes.length - offset));
+    bytes.set(part, offset);
+    offset += part.length;
+  }
+  return new TextDecoder().decode(bytes);
 }

@@ -3,6 +3,7 @@ import { keepPreviousData, useQuery, useQueryClient, useSuspenseQuery } from "@t
 import { createColumnHelper } from "@tanstack/react-table";
 import { Link, useParams } from "react-router-dom";
 import type { UploadListItem } from "@calmcrest/contracts";
+import { meQuery } from "../api/auth";
 import { campaignQuery, campaignSummaryQuery, retryUpload } from "../api/campaigns";
 import { ApiError } from "../api/client";
 import { DataTable } from "../components/data-table";
@@ -12,6 +13,7 @@ import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { MonitorSettings } from "../components/monitor-settings";
 import { Notice, Page } from "../components/page";
 import { SummarySection } from "../components/summary-section";
+import { RereadPanel, RereadRequest, UploadActions, UploadHistoryNote } from "../components/upload/reread";
 import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber, reasonLabel } from "../lib/format";
 import { idParam } from "../route-loaders";
 
@@ -23,8 +25,9 @@ const STATUS_STYLES: Record<string, string> = {
   ingesting: "bg-paper text-ink",
 };
 
-/** The status word; a done upload with warnings reads "done, with warnings" in the warning colour. */
-export function UploadStatusBadge({ status, warned = false }: { status: string; warned?: boolean }) {
+/** The status word; a done upload with warnings reads "done, with warnings" in the warning colour; a withdrawn one says so. */
+export function UploadStatusBadge({ status, warned = false, withdrawn = false }: { status: string; warned?: boolean; withdrawn?: boolean }) {
+  if (withdrawn) return <span className="rounded-full bg-paper px-2 py-0.5 text-xs font-semibold text-ink-soft line-through decoration-1">{status}, withdrawn</span>;
   if (status === "done" && warned) return <span className="rounded-full bg-warn-pale px-2 py-0.5 text-xs font-semibold text-warn">done, with warnings</span>;
   return <span className={`rounded-full px-2 py-0.5 text-xs font-semibold ${STATUS_STYLES[status] ?? "bg-paper"}`}>{status}</span>;
 }
@@ -74,14 +77,15 @@ const uploadColumns = [
     header: "Status",
     cell: (cell) => (
       <span>
-        <UploadStatusBadge status={cell.getValue()} warned={cell.row.original.warnings.length > 0} />
+        <UploadStatusBadge status={cell.getValue()} warned={cell.row.original.warnings.length > 0} withdrawn={cell.row.original.withdrawn !== null} />
+        <UploadHistoryNote upload={cell.row.original} />
         {cell.row.original.warnings.map((warning) => (
           <span key={warning.code} role="note" className="mt-1 block max-w-64 rounded bg-warn-pale px-1.5 py-0.5 text-xs text-warn">
             Warning: {warning.message}
           </span>
         ))}
         {cell.row.original.error ? <span className="mt-1 block max-w-64 text-xs text-bad">{cell.row.original.error}</span> : null}
-        {cell.getValue() === "failed" || cell.getValue() === "interrupted" ? <RetryButton upload={cell.row.original} /> : null}
+        {(cell.getValue() === "failed" || cell.getValue() === "interrupted") && !cell.row.original.withdrawn ? <RetryButton upload={cell.row.original} /> : null}
       </span>
     ),
   }),
@@ -110,7 +114,14 @@ const uploadColumns = [
       );
     },
   }),
+  column.display({ id: "actions", header: "File actions", cell: (cell) => <ActionsCell upload={cell.row.original} /> }),
 ];
+
+function ActionsCell({ upload }: { upload: UploadListItem }) {
+  const { data: campaign } = useSuspenseQuery(campaignQuery(upload.campaignId));
+  const me = useQuery(meQuery);
+  return <UploadActions upload={upload} campaign={campaign} me={me.data} />;
+}
 
 export function CampaignPage() {
   const campaignId = idParam(useParams().campaignId);
@@ -118,6 +129,7 @@ export function CampaignPage() {
   const { filters } = useFilterParams();
   const summary = useQuery({ ...campaignSummaryQuery(campaignId, filters), placeholderData: keepPreviousData });
   const queryClient = useQueryClient();
+  const [rereading, setRereading] = useState<UploadListItem | null>(null);
   // When an upload on this page finishes reading (after a retry, say), the figures and charts are recomputed.
   const finishedUploads = campaign.uploads.filter((upload) => upload.status === "done").length;
   const seenFinished = useRef(finishedUploads);
@@ -170,6 +182,7 @@ export function CampaignPage() {
           <h2 id="uploads-heading" className="text-lg font-semibold">
             Uploads
           </h2>
+          <RereadRequest.Provider value={setRereading}>
           <DataTable
             caption="Uploads of this campaign"
             columns={uploadColumns}
@@ -183,6 +196,8 @@ export function CampaignPage() {
               </Notice>
             }
           />
+          </RereadRequest.Provider>
+          {rereading ? <RereadPanel key={rereading.id} upload={rereading} campaign={campaign} onClose={() => setRereading(null)} /> : null}
         </section>
 
         <Exclusions campaign={campaign} />

@@ -20,6 +20,10 @@ const upload = (id: number, status: UploadListItem["status"], fileName: string):
   warnings: [],
   error: status === "failed" ? "Line 812: the disk filled up." : null,
   finishedAt: null,
+  withdrawn: null,
+  replacesUploadId: null,
+  replacedByUploadId: null,
+  monitorOverride: null,
 });
 let uploads: UploadListItem[] = [];
 const campaign = (): CampaignDetail => ({

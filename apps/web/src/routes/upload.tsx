@@ -207,7 +207,7 @@ export function UploadPage() {
         state[index] =
           outcome.kind === "accepted"
             ? { state: "stored", uploadId: outcome.accepted.upload.id }
-            : { state: "duplicate", message: outcome.duplicate.error.message, upload: outcome.duplicate.upload };
+            : { state: "duplicate", message: outcome.duplicate.error.message, upload: outcome.duplicate.upload, rereadOffer: outcome.duplicate.rereadOffer };
       } catch (error) {
         if (controller.signal.aborted) {
           // Once every byte is out, the server may already have stored the file before the cancel reached it.

@@ -1,15 +1,16 @@
 import { useEffect, useRef } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { Link } from "react-router-dom";
-import type { UploadListItem } from "@calmcrest/contracts";
+import type { UploadDuplicateBody, UploadListItem } from "@calmcrest/contracts";
 import { uploadQuery } from "../../api/uploads";
 import { formatNumber, reasonLabel } from "../../lib/format";
+import { RereadOffer } from "./reread";
 
 export type FileSend =
   | { state: "waiting" }
   | { state: "sending"; fraction: number }
   | { state: "stored"; uploadId: number }
-  | { state: "duplicate"; message: string; upload: UploadListItem }
+  | { state: "duplicate"; message: string; upload: UploadListItem; rereadOffer: UploadDuplicateBody["rereadOffer"] }
   | { state: "refused"; message: string }
   /** Stopped by the person during the transfer; `sentInFull` when every byte had already left. */
   | { state: "cancelled"; sentInFull: boolean }
@@ -142,6 +143,7 @@ export function FileProgress({ file, send, campaignId, onFinished, onCancel }: {
             {send.message}
           </p>
           <Counts upload={send.upload} />
+          {send.rereadOffer ? <RereadOffer before={send.upload} mapping={send.rereadOffer.mapping} /> : null}
           <Link to={`/campaigns/${campaignId}`} className="font-semibold text-accent underline">
             See it in the campaign
           </Link>

@@ -16,9 +16,9 @@ afterAll(async () => {
 });
 
 const expectedNav: Record<Role, string[]> = {
-  admin: ["Sites", "Reports", "People and access"],
-  lead: ["Sites", "Upload logs", "Reports"],
-  engineer: ["Sites", "Upload logs"],
+  admin: ["Sites", "Compare", "Reports", "People and access", "Outbox"],
+  lead: ["Sites", "Compare", "Upload logs", "Reports"],
+  engineer: ["Sites", "Compare", "Upload logs"],
   committee: ["Reports"],
 };
 

@@ -9,6 +9,8 @@ export interface NavItem {
 // The one list of top-level screens and who may use them; the shell shows only a role's own items.
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: "/sites", label: "Sites", roles: ["admin", "lead", "engineer"] },
+  // Engineers compare the sites of their own campaigns (the server shows them nothing else).
+  { to: "/compare", label: "Compare", roles: ["admin", "lead", "engineer"] },
   { to: "/upload", label: "Upload logs", roles: ["lead", "engineer"] },
   { to: "/reports", label: "Reports", roles: ["admin", "lead", "committee"] },
   { to: "/admin/people", label: "People and access", roles: ["admin"] },

@@ -31,6 +31,15 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
     { path: "sites/:siteId", loader: siteLoader(queryClient), lazy: async () => ({ Component: (await import("./routes/sites.$siteId")).SitePage }) },
     { path: "campaigns/:campaignId", loader: campaignLoader(queryClient), lazy: async () => ({ Component: (await import("./routes/campaigns.$campaignId")).CampaignPage }) },
     {
+      path: "compare",
+      loader: async (args) => {
+        await fieldGuard(args);
+        await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/compare")).ComparePage }),
+    },
+    {
       path: "upload",
       loader: async (args) => {
         await roleLoader(queryClient, ["lead", "engineer"])(args);

@@ -32,12 +32,17 @@ export function SiteMap({
   highlightedSiteId,
   onHover,
   onOpen,
+  labelled = false,
+  className = "h-[420px] w-full rounded-lg border border-line md:h-[520px]",
 }: {
   sites: SiteListItem[];
   tiles?: MapTiles | null;
   highlightedSiteId?: number | null;
   onHover?: (siteId: number | null) => void;
   onOpen: (siteId: number) => void;
+  /** Show every marker's label (name and median) all the time, not only on hover or focus. */
+  labelled?: boolean;
+  className?: string;
 }) {
   const outlines = useMemo(() => (tiles ? null : countryOutlines()), [tiles]);
   return (
@@ -47,7 +52,7 @@ export function SiteMap({
       minZoom={2}
       maxZoom={tiles ? 14 : 10}
       worldCopyJump={false}
-      className="h-[420px] w-full rounded-lg border border-line md:h-[520px]"
+      className={className}
       style={{ background: "#dbe6ea" }}
       attributionControl={Boolean(tiles)}
     >
@@ -59,7 +64,7 @@ export function SiteMap({
       <FitToSites sites={sites} />
       <ScaleControl position="bottomright" imperial={false} />
       {sites.map((site) => (
-        <SiteMarker key={site.id} site={site} highlighted={highlightedSiteId === site.id} onHover={onHover} onOpen={onOpen} />
+        <SiteMarker key={site.id} site={site} highlighted={highlightedSiteId === site.id} onHover={onHover} onOpen={onOpen} labelled={labelled} />
       ))}
     </MapContainer>
   );
@@ -81,11 +86,13 @@ function SiteMarker({
   highlighted,
   onHover,
   onOpen,
+  labelled,
 }: {
   site: SiteListItem;
   highlighted: boolean;
   onHover?: (siteId: number | null) => void;
   onOpen: (siteId: number) => void;
+  labelled: boolean;
 }) {
   const [layer, setLayer] = useState<LeafletCircleMarker | null>(null);
   const median = site.summary?.median;
@@ -108,7 +115,7 @@ function SiteMarker({
       onHover?.(site.id);
     };
     const onBlur = () => {
-      layer.closeTooltip();
+      if (!labelled) layer.closeTooltip();
       onHover?.(null);
     };
     element.addEventListener("keydown", onKeyDown);
@@ -119,7 +126,7 @@ function SiteMarker({
       element.removeEventListener("focus", onFocus);
       element.removeEventListener("blur", onBlur);
     };
-  }, [layer, label, site.id, onHover, onOpen]);
+  }, [layer, label, labelled, site.id, onHover, onOpen]);
 
   return (
     <CircleMarker
@@ -141,6 +148,12 @@ function SiteMarker({
         mouseout: () => onHover?.(null),
       }}
     >
+      {labelled ? (
+        <Tooltip direction="top" offset={[0, -10]} permanent>
+          <span className="block font-semibold">{site.name}</span>
+          <span className="block">{site.summary ? `median ${formatArcsec(site.summary.median)}` : "no samples in the window"}</span>
+        </Tooltip>
+      ) : (
       <Tooltip direction="top" offset={[0, -10]}>
         <span className="block font-semibold">{site.name}</span>
         <span className="block">{formatNumber(site.elevationM)} m above sea level</span>
@@ -152,6 +165,7 @@ function SiteMarker({
           <span className="block">no seeing data yet</span>
         )}
       </Tooltip>
+      )}
     </CircleMarker>
   );
 }

@@ -112,8 +112,8 @@ describe("session refresh and sign-in while another connection holds the write l
     const staleExpiresS = Math.floor(Date.now() / 1000) + 5 * DAY_S;
     await context.db.knex("session").where({ id }).update({ expires_at: staleExpiresS });
 
-    // The ingest sleeps inside its open write transaction (as a slow disk or a huge file would) for 3 s.
-    context.ingest.testHooks.pauseAfterSamples = { samples: 20, ms: 3000 };
+    // The ingest holds its commit's write transaction open for 3 s (as a slow disk would).
+    context.ingest.testHooks.holdCommitMs = 3000;
     const rows = Array.from({ length: 60 }, (_, index) => `${new Date(Date.UTC(2025, 0, 1, 3, index)).toISOString()},0.8,10`);
     const uploadId = (await postUpload(lead, campaign.id, Buffer.from(["time_utc,seeing_arcsec,zenith_deg", ...rows, ""].join("\n")))).body.upload.id as number;
     while (((await lead.get(`/api/uploads/${uploadId}`)).body as UploadStatus).status !== "ingesting") await new Promise((resolve) => setTimeout(resolve, 10));
@@ -151,7 +151,7 @@ describe("session refresh and sign-in while another connection holds the write l
       expect(((await lead.get(`/api/uploads/${uploadId}`)).body as UploadStatus).status).toBe("ingesting");
       expect(context.sessionStore.pendingWrites()).toBe(3);
     } finally {
-      context.ingest.testHooks.pauseAfterSamples = undefined;
+      context.ingest.testHooks.holdCommitMs = undefined;
     }
     expect((await waitForUpload(lead, uploadId)).samples.accepted).toBe(60);
     await context.sessionStore.settled();

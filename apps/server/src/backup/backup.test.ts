@@ -8,7 +8,7 @@ import { promisify } from "node:util";
 import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
 import { createSiteAndCampaign, postUpload, waitForUpload } from "../routes/test-helpers";
-import { SAME_ORIGIN, createTestServer, signedInAgent } from "../test-support";
+import { SAME_ORIGIN, createTestServer, ingestHoldsWriteLock, signedInAgent } from "../test-support";
 import { rawFilePath } from "../uploads/raw-files.server";
 import { backupDataDir, backupFolderName, DATABASE_FILE, restoreBackup } from "./backup.server";
 
@@ -34,8 +34,8 @@ describe("npm run backup during an ingest, then npm run restore", () => {
     const done = await waitForUpload(lead, (await postUpload(lead, campaign.id, first, "first.csv")).body.upload.id);
     expect(done.samples.accepted).toBe(300);
 
-    // The second upload's ingest holds its write transaction open (a slow disk) while the backup runs.
-    context.ingest.testHooks.pauseAfterSamples = { samples: 100, ms: 1500 };
+    // The second upload's ingest holds its commit's write transaction open (a slow disk) while the backup runs.
+    context.ingest.testHooks.holdCommitMs = 1500;
     const second = log(400, "2025-02-01T00:00:00Z");
     const secondId = (await postUpload(lead, campaign.id, second, "second.csv")).body.upload.id as number;
     for (;;) {
@@ -43,13 +43,13 @@ describe("npm run backup during an ingest, then npm run restore", () => {
       if (status === "ingesting") break;
       await new Promise((resolve) => setTimeout(resolve, 20));
     }
-    await new Promise((resolve) => setTimeout(resolve, 300));
+    await ingestHoldsWriteLock(context);
     const startedMs = performance.now();
     const { folder, manifest } = await backupDataDir(dataDir, join(scratch, "backups"));
     // The backup did not wait for the ingest to commit.
     expect(performance.now() - startedMs).toBeLessThan(1000);
     expect((await lead.get(`/api/uploads/${secondId}`)).body.status).toBe("ingesting");
-    context.ingest.testHooks.pauseAfterSamples = undefined;
+    context.ingest.testHooks.holdCommitMs = undefined;
     expect((await waitForUpload(lead, secondId)).samples.accepted).toBe(400);
 
     expect(folder).toMatch(/calmcrest-backup-\d{4}-\d{2}-\d{2}T\d{2}-\d{2}-\d{2}Z$/);

@@ -7,19 +7,26 @@ export interface IngestJob {
   campaignId: number;
   dbFile: string;
   rawPath: string;
+  /** A scratch SQLite file in <dataDir>/tmp where the rows are read before the commit (removed after; start-up removes leftovers). */
+  stagingPath: string;
   sizeBytes: number;
   mapping: ColumnMapping;
   monitor: MonitorSettings;
   site: SiteLocation;
   /** Test-only: throw after this many stored samples, to prove a failed ingest leaves nothing behind. */
   failAfterSamples?: number;
-  /** Test-only: hold the open transaction this long after that many samples, to test writers meanwhile. */
+  /** Test-only: sleep this long after that many samples while reading the file (before the write lock is taken). */
   pauseAfterSamples?: { samples: number; ms: number };
+  /** Test-only: hold the commit's open write transaction this long, to test writers meanwhile. */
+  holdCommitMs?: number;
 }
 
-export type ToWorker = { type: "job"; job: IngestJob } | { type: "close" };
+/** "commit": the queue holds the write gate for this ingest; the worker may take SQLite's write lock now. */
+export type ToWorker = { type: "job"; job: IngestJob } | { type: "commit"; uploadId: number } | { type: "close" };
 
 export type FromWorker =
   | { type: "progress"; uploadId: number; bytesRead: number }
+  /** The whole file is read and staged; the worker waits for "commit". */
+  | { type: "ready"; uploadId: number }
   | { type: "done"; uploadId: number; rowsRead: number; accepted: number; rejectedByReason: Record<string, number> }
   | { type: "failed"; uploadId: number; message: string };

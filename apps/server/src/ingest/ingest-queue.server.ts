@@ -1,24 +1,28 @@
+import { join } from "node:path";
 import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { effectiveCampaign, monitorOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
-import { rawFilePath } from "../uploads/raw-files.server";
+import { rawFilePath, tmpDir } from "../uploads/raw-files.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
 /**
  * The in-process ingest queue: one ingest at a time (SQLite has one writer anyway), run in a worker thread.
- * Progress of the running ingest is kept in memory for GET /api/uploads/:id.
+ * Progress of the running ingest is kept in memory for GET /api/uploads/:id. The worker reads the whole file into
+ * a staging file first, while main-thread writes go on; only when it says "ready" does the queue take the write
+ * gate (once the main-thread writes in progress are done) and let it commit, so the write lock is held for the
+ * copy of rows already read, never for the reading of the file.
  */
 export class IngestQueue {
   private readonly waiting: number[] = [];
   private readonly progressByUpload = new Map<number, number>();
-  private running: { uploadId: number; campaignId: number; sizeBytes: number; settle: () => void } | null = null;
+  private running: { uploadId: number; campaignId: number; sizeBytes: number; settle: () => void; ready: () => void } | null = null;
   private worker: Worker | null = null;
   private stopped = false;
   private busy = false;
   private idleWaiters: (() => void)[] = [];
   /** Test-only knobs (ignored outside NODE_ENV=test). */
-  readonly testHooks: { failAfterSamples?: number; pauseAfterSamples?: { samples: number; ms: number } } = {};
+  readonly testHooks: { failAfterSamples?: number; pauseAfterSamples?: { samples: number; ms: number }; holdCommitMs?: number } = {};
 
   constructor(
     private readonly store: Store,
@@ -96,6 +100,10 @@ export class IngestQueue {
   private onMessage(message: FromWorker): void {
     const running = this.running;
     if (!running || running.uploadId !== message.uploadId) return;
+    if (message.type === "ready") {
+      running.ready();
+      return;
+    }
     if (message.type === "progress") {
       this.progressByUpload.set(message.uploadId, Math.min(0.99, message.bytesRead / Math.max(1, running.sizeBytes)));
       return;
@@ -115,19 +123,27 @@ export class IngestQueue {
 
   private async pump(): Promise<void> {
     // `busy` is set before the first await, so two enqueues in a row cannot start two ingests.
-    if (this.busy || this.gate.writersActive) return;
+    if (this.busy) return;
     const uploadId = this.stopped ? undefined : this.waiting.shift();
     if (uploadId === undefined) {
       for (const resolve of this.idleWaiters.splice(0)) resolve();
       return;
     }
     this.busy = true;
-    this.gate.holdForIngest();
+    let holdsGate = false;
     try {
       const job = await this.jobFor(uploadId);
       if (job) {
         await new Promise<void>((settle) => {
-          this.running = { uploadId, campaignId: job.campaignId, sizeBytes: job.sizeBytes, settle };
+          // The worker has read and staged the file: take the gate as soon as no main-thread write is in progress.
+          const ready = async () => {
+            while (this.gate.writersActive) await this.gate.noWriters();
+            if (this.running?.uploadId !== uploadId) return;
+            this.gate.holdForIngest();
+            holdsGate = true;
+            this.worker?.postMessage({ type: "commit", uploadId } satisfies ToWorker);
+          };
+          this.running = { uploadId, campaignId: job.campaignId, sizeBytes: job.sizeBytes, settle, ready: () => void ready() };
           void this.store.uploads
             .markIngesting(uploadId)
             .then(() => this.ensureWorker().postMessage({ type: "job", job } satisfies ToWorker))
@@ -138,8 +154,8 @@ export class IngestQueue {
       this.running = null;
       this.busy = false;
       this.progressByUpload.delete(uploadId);
-      // Writers that waited for this ingest go first (their continuations run before setImmediate fires).
-      this.gate.releaseFromIngest();
+      // Writers that waited for this ingest's commit go first (their continuations run before setImmediate fires).
+      if (holdsGate) this.gate.releaseFromIngest();
     }
     setImmediate(() => void this.pump());
   }
@@ -153,6 +169,7 @@ export class IngestQueue {
       campaignId: campaign.id,
       dbFile: this.options.dbFile,
       rawPath: rawFilePath(this.options.dataDir, upload.sha256),
+      stagingPath: join(tmpDir(this.options.dataDir), `ingest-${uploadId}.staging.sqlite`),
       sizeBytes: upload.size_bytes,
       mapping: JSON.parse(upload.mapping) as ColumnMapping,
       // A re-read may carry corrected monitor settings; otherwise the campaign's.
@@ -161,6 +178,7 @@ export class IngestQueue {
     };
     if (this.options.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;
     if (this.options.allowTestHooks && this.testHooks.pauseAfterSamples !== undefined) job.pauseAfterSamples = this.testHooks.pauseAfterSamples;
+    if (this.options.allowTestHooks && this.testHooks.holdCommitMs !== undefined) job.holdCommitMs = this.testHooks.holdCommitMs;
     return job;
   }
 }

@@ -1,14 +1,16 @@
-import { createReadStream } from "node:fs";
+import { createReadStream, mkdirSync, rmSync } from "node:fs";
+import { dirname } from "node:path";
 import { parentPort } from "node:worker_threads";
 import Database from "better-sqlite3";
-import { describeLogFormatError, exactMapping, LogFormatError } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, exactMapping, LogFormatError, type LogSample } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import { tune } from "../db/tune.server";
 import { BUMP_DATA_VERSION_SQL } from "../summaries/data-version.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
 // Runs in a worker thread so the HTTP server stays responsive while a large file is parsed and written, and so
-// the write transaction can wait on SQLite's busy handler without blocking the main thread's event loop.
+// the write transaction can wait on SQLite's busy handler without blocking the main thread's event loop. The file
+// is read into a staging database first (no write lock); the write lock is taken only to copy the ready rows in.
 
 const PROGRESS_EVERY_MS = 100;
 let connection: Database.Database | null = null;
@@ -34,98 +36,225 @@ function describe(error: unknown): string {
   return String(error);
 }
 
-/**
- * Streams the stored raw file through the engine and writes every sample and every rejected row in ONE
- * transaction, together with the upload's final counts: either all of it is committed or none of it.
- */
-async function ingest(job: IngestJob): Promise<void> {
-  const db = open(job.dbFile);
-  const insertSample = db.prepare(
-    `INSERT OR IGNORE INTO sample (campaign_id, time_ms, upload_id, seeing_arcsec, r0_cm, zenith_deg, seeing_long_arcsec,
-       seeing_trans_arcsec, anisotropic, sun_alt_deg, flux, scint_index, tau0_ms, theta0_arcsec, wind_ms, rh_pct)
-     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-  );
-  const insertReject = db.prepare("INSERT INTO upload_reject (upload_id, line, reason, message, raw_line) VALUES (?, ?, ?, ?, ?)");
-  const finish = db.prepare(
-    `UPDATE upload SET status = 'done', rows_read = ?, samples_accepted = ?, rejected_by_reason = ?, mapping = ?, error = NULL, finished_at = ?
-     WHERE id = ?`,
-  );
+const SAMPLE_COLUMNS =
+  "time_ms, seeing_arcsec, r0_cm, zenith_deg, seeing_long_arcsec, seeing_trans_arcsec, anisotropic, sun_alt_deg, flux, scint_index, tau0_ms, theta0_arcsec, wind_ms, rh_pct";
+
+/** A sample's stored values after its time, in SAMPLE_COLUMNS order. */
+function sampleValues(sample: LogSample): (number | null)[] {
+  return [
+    sample.seeingArcsec,
+    sample.r0Cm,
+    sample.zenithDeg,
+    sample.seeingLongArcsec,
+    sample.seeingTransArcsec,
+    sample.anisotropic ? 1 : 0,
+    sample.sunAltDeg,
+    sample.flux,
+    sample.scintIndex,
+    sample.tau0Ms,
+    sample.theta0Arcsec,
+    sample.windMs,
+    sample.rhPct,
+  ];
+}
+
+/** Where the rows read go: straight into the database (inside the write transaction) or into the staging file. */
+interface RowSink {
+  /** Stores a readable sample; false when its time is taken (an earlier row of this file or an earlier upload). */
+  sample(sample: LogSample): boolean;
+  reject(line: number, reason: string, message: string, rawLine: string): void;
+}
+
+interface ReadResult {
+  rowsRead: number;
+  accepted: number;
+  rejectedByReason: Record<string, number>;
+  mapping: unknown;
+}
+
+/** Streams the stored raw file through the engine into `sink`, counting every row under exactly one outcome. */
+async function readInto(job: IngestJob, sink: RowSink): Promise<ReadResult> {
   const rejectedByReason: Record<string, number> = {};
   let accepted = 0;
   let lastProgressMs = 0;
-  const { uploadId, campaignId } = job;
-
+  const { uploadId } = job;
   const reject = (line: number, reason: string, message: string, rawLine: string) => {
     rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
-    insertReject.run(uploadId, line, reason, message, rawLine);
+    sink.reject(line, reason, message, rawLine);
   };
+  const result = await streamLog(
+    createReadStream(job.rawPath),
+    {
+      // The stored mapping is complete (checked at upload): read exactly it, with nothing matched by name again.
+      mapping: exactMapping(job.mapping),
+      monitor: job.monitor,
+      site: job.site,
+      onProgress: (bytesRead) => {
+        const now = Date.now();
+        if (now - lastProgressMs < PROGRESS_EVERY_MS) return;
+        lastProgressMs = now;
+        post({ type: "progress", uploadId, bytesRead });
+      },
+    },
+    {
+      onSample(sample, line, fields, delimiter) {
+        if (job.failAfterSamples !== undefined && accepted >= job.failAfterSamples) {
+          throw new Error(`Test failure injected after ${accepted} samples.`);
+        }
+        if (job.pauseAfterSamples !== undefined && accepted === job.pauseAfterSamples.samples) {
+          // A synchronous sleep while reading, like a slow disk would cause.
+          Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, job.pauseAfterSamples.ms);
+        }
+        if (sink.sample(sample)) {
+          accepted += 1;
+        } else {
+          reject(line, "duplicate_time", `Another sample of this campaign already has the time ${new Date(sample.timeMs).toISOString()}.`, fields.join(delimiter));
+        }
+      },
+      onReject(line, reason, message, rawLine) {
+        reject(line, reason, message, rawLine);
+      },
+    },
+  );
+  return { rowsRead: result.rowsRead, accepted, rejectedByReason, mapping: result.mapping };
+}
 
-  // IMMEDIATE takes the write lock now, so no other writer can slip in between our reads and writes.
+/** Writes the upload's final counts and raises the campaign's data version (cached summaries of it lapse), in the open transaction. */
+function finishUpload(db: Database.Database, job: IngestJob, result: ReadResult): void {
+  db.prepare(
+    `UPDATE upload SET status = 'done', rows_read = ?, samples_accepted = ?, rejected_by_reason = ?, mapping = ?, error = NULL, finished_at = ?
+     WHERE id = ?`,
+  ).run(result.rowsRead, result.accepted, JSON.stringify(result.rejectedByReason), JSON.stringify(result.mapping), new Date().toISOString(), job.uploadId);
+  db.prepare(BUMP_DATA_VERSION_SQL).run(job.campaignId);
+  if (job.holdCommitMs !== undefined) Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, job.holdCommitMs);
+}
+
+/**
+ * Phase 1, without the write lock: reads the whole file into a private staging database (samples keyed by time, so a
+ * time repeated in the file is caught; times the campaign already has are looked up in a plain WAL read) and the
+ * rejected rows beside them. Other writers (sign-ins, new uploads, exclusions) go on meanwhile.
+ */
+async function stage(db: Database.Database, job: IngestJob): Promise<{ staging: Database.Database; result: ReadResult }> {
+  mkdirSync(dirname(job.stagingPath), { recursive: true });
+  rmSync(job.stagingPath, { force: true });
+  const staging = new Database(job.stagingPath);
+  try {
+    // A scratch file: nothing to recover after a crash (start-up removes it), so no journal and no fsync.
+    staging.pragma("journal_mode = OFF");
+    staging.pragma("synchronous = OFF");
+    staging.exec(`CREATE TABLE staged_sample (time_ms INTEGER PRIMARY KEY, seeing_arcsec, r0_cm, zenith_deg, seeing_long_arcsec, seeing_trans_arcsec,
+      anisotropic, sun_alt_deg, flux, scint_index, tau0_ms, theta0_arcsec, wind_ms, rh_pct)`);
+    staging.exec("CREATE TABLE staged_reject (line INTEGER, reason TEXT, message TEXT, raw_line TEXT)");
+    const insertSample = staging.prepare(`INSERT OR IGNORE INTO staged_sample (${SAMPLE_COLUMNS}) VALUES (${Array.from({ length: 14 }, () => "?").join(", ")})`);
+    const insertReject = staging.prepare("INSERT INTO staged_reject (line, reason, message, raw_line) VALUES (?, ?, ?, ?)");
+    // Only a time inside the campaign's stored range can be taken: most samples need no look-up at all.
+    const range = db.prepare("SELECT MIN(time_ms) AS first, MAX(time_ms) AS last FROM sample WHERE campaign_id = ?").get(job.campaignId) as { first: number | null; last: number | null };
+    const taken = db.prepare("SELECT 1 FROM sample WHERE campaign_id = ? AND time_ms = ?").pluck();
+    staging.exec("BEGIN");
+    const result = await readInto(job, {
+      sample(sample) {
+        if (range.first !== null && range.last !== null && sample.timeMs >= range.first && sample.timeMs <= range.last && taken.get(job.campaignId, sample.timeMs) !== undefined) {
+          return false;
+        }
+        return insertSample.run(sample.timeMs, ...sampleValues(sample)).changes === 1;
+      },
+      reject(line, reason, message, rawLine) {
+        insertReject.run(line, reason, message, rawLine);
+      },
+    });
+    staging.exec("COMMIT");
+    return { staging, result };
+  } catch (error) {
+    staging.close();
+    throw error;
+  }
+}
+
+/**
+ * Phase 2, holding the write lock only for this: copies the staged samples and rejected rows into the database and
+ * writes the final counts in ONE transaction, so all of the upload is committed or none of it. Returns false (and
+ * changes nothing) when a staged time was taken meanwhile; the caller then reads the file again inside the lock.
+ */
+function commitStaged(db: Database.Database, job: IngestJob, result: ReadResult): boolean {
+  db.prepare("ATTACH DATABASE ? AS staging").run(job.stagingPath);
+  try {
+    db.exec("BEGIN IMMEDIATE");
+    try {
+      // Clear rejected rows of an earlier failed or interrupted attempt (a retry starts from the raw file).
+      db.prepare("DELETE FROM upload_reject WHERE upload_id = ?").run(job.uploadId);
+      const copied = db
+        .prepare(`INSERT OR IGNORE INTO sample (campaign_id, upload_id, ${SAMPLE_COLUMNS}) SELECT ?, ?, ${SAMPLE_COLUMNS} FROM staging.staged_sample ORDER BY time_ms`)
+        .run(job.campaignId, job.uploadId).changes;
+      if (copied !== result.accepted) {
+        db.exec("ROLLBACK");
+        return false;
+      }
+      db.prepare("INSERT INTO upload_reject (upload_id, line, reason, message, raw_line) SELECT ?, line, reason, message, raw_line FROM staging.staged_reject ORDER BY line").run(job.uploadId);
+      finishUpload(db, job, result);
+      db.exec("COMMIT");
+      return true;
+    } catch (error) {
+      if (db.inTransaction) db.exec("ROLLBACK");
+      throw error;
+    }
+  } finally {
+    db.exec("DETACH DATABASE staging");
+  }
+}
+
+/** The fallback: reads the file again straight into the database inside one write transaction (the lock held throughout). */
+async function ingestInsideLock(db: Database.Database, job: IngestJob): Promise<ReadResult> {
+  const insertSample = db.prepare(
+    `INSERT OR IGNORE INTO sample (campaign_id, upload_id, ${SAMPLE_COLUMNS}) VALUES (?, ?, ${Array.from({ length: 14 }, () => "?").join(", ")})`,
+  );
+  const insertReject = db.prepare("INSERT INTO upload_reject (upload_id, line, reason, message, raw_line) VALUES (?, ?, ?, ?, ?)");
   db.exec("BEGIN IMMEDIATE");
   try {
-    // Clear rejected rows of an earlier failed or interrupted attempt (a retry starts from the raw file).
-    db.prepare("DELETE FROM upload_reject WHERE upload_id = ?").run(uploadId);
-    const result = await streamLog(
-      createReadStream(job.rawPath),
-      {
-        // The stored mapping is complete (checked at upload): read exactly it, with nothing matched by name again.
-        mapping: exactMapping(job.mapping),
-        monitor: job.monitor,
-        site: job.site,
-        onProgress: (bytesRead) => {
-          const now = Date.now();
-          if (now - lastProgressMs < PROGRESS_EVERY_MS) return;
-          lastProgressMs = now;
-          post({ type: "progress", uploadId, bytesRead });
-        },
-      },
-      {
-        onSample(sample, line, fields, delimiter) {
-          if (job.failAfterSamples !== undefined && accepted >= job.failAfterSamples) {
-            throw new Error(`Test failure injected after ${accepted} samples.`);
-          }
-          if (job.pauseAfterSamples !== undefined && accepted === job.pauseAfterSamples.samples) {
-            // A synchronous sleep inside the open transaction, like a slow disk would cause.
-            Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, job.pauseAfterSamples.ms);
-          }
-          const changes = insertSample.run(
-            campaignId,
-            sample.timeMs,
-            uploadId,
-            sample.seeingArcsec,
-            sample.r0Cm,
-            sample.zenithDeg,
-            sample.seeingLongArcsec,
-            sample.seeingTransArcsec,
-            sample.anisotropic ? 1 : 0,
-            sample.sunAltDeg,
-            sample.flux,
-            sample.scintIndex,
-            sample.tau0Ms,
-            sample.theta0Arcsec,
-            sample.windMs,
-            sample.rhPct,
-          ).changes;
-          if (changes === 0) {
-            // The (campaign, time) key exists: an earlier row of this file or an earlier upload has this time.
-            reject(line, "duplicate_time", `Another sample of this campaign already has the time ${new Date(sample.timeMs).toISOString()}.`, fields.join(delimiter));
-          } else {
-            accepted += 1;
-          }
-        },
-        onReject(line, reason, message, rawLine) {
-          reject(line, reason, message, rawLine);
-        },
-      },
-    );
-    finish.run(result.rowsRead, accepted, JSON.stringify(rejectedByReason), JSON.stringify(result.mapping), new Date().toISOString(), uploadId);
-    // The campaign's samples changed: its data version rises in this same commit (cached summaries of it lapse).
-    db.prepare(BUMP_DATA_VERSION_SQL).run(campaignId);
+    db.prepare("DELETE FROM upload_reject WHERE upload_id = ?").run(job.uploadId);
+    const result = await readInto(job, {
+      sample: (sample) => insertSample.run(job.campaignId, job.uploadId, sample.timeMs, ...sampleValues(sample)).changes === 1,
+      reject: (line, reason, message, rawLine) => void insertReject.run(job.uploadId, line, reason, message, rawLine),
+    });
+    finishUpload(db, job, result);
     db.exec("COMMIT");
-    post({ type: "done", uploadId, rowsRead: result.rowsRead, accepted, rejectedByReason });
+    return result;
   } catch (error) {
     if (db.inTransaction) db.exec("ROLLBACK");
-    post({ type: "failed", uploadId, message: describe(error) });
+    throw error;
+  }
+}
+
+/** Resolves when the ingest queue says the write gate is ours (see IngestQueue): no main-thread writer is mid-write. */
+let grantCommit: (() => void) | null = null;
+
+function commitGranted(): Promise<void> {
+  return new Promise((resolve) => {
+    grantCommit = resolve;
+  });
+}
+
+/**
+ * Ingests one upload: reads the file into a staging database while others write as usual, asks the ingest queue
+ * for the write gate ("ready"), then commits every sample, every rejected row and the final counts in one short
+ * transaction. A failure anywhere leaves no sample behind.
+ */
+async function ingest(job: IngestJob): Promise<void> {
+  const db = open(job.dbFile);
+  let staging: Database.Database | null = null;
+  try {
+    const staged = await stage(db, job);
+    staging = staged.staging;
+    const granted = commitGranted();
+    post({ type: "ready", uploadId: job.uploadId });
+    await granted;
+    let result = staged.result;
+    if (!commitStaged(db, job, result)) result = await ingestInsideLock(db, job);
+    post({ type: "done", uploadId: job.uploadId, rowsRead: result.rowsRead, accepted: result.accepted, rejectedByReason: result.rejectedByReason });
+  } catch (error) {
+    post({ type: "failed", uploadId: job.uploadId, message: describe(error) });
+  } finally {
+    staging?.close();
+    rmSync(job.stagingPath, { force: true });
   }
 }
 
@@ -134,6 +263,11 @@ parentPort?.on("message", (message: ToWorker) => {
     connection?.close();
     connection = null;
     parentPort?.close();
+    return;
+  }
+  if (message.type === "commit") {
+    grantCommit?.();
+    grantCommit = null;
     return;
   }
   void ingest(message.job);

@@ -1,5 +1,6 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
+import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
 import { analyzeLog } from "@calmcrest/seeing-stats/node";
 import type { SummaryResponse, UploadDuplicateBody, UploadPreview } from "@calmcrest/contracts";
@@ -193,12 +194,41 @@ describe("the ingest queue", () => {
   });
 });
 
-describe("writes while an ingest holds the write lock", () => {
-  it("keep the server answering: a second upload and an exclusion wait for the running ingest instead of freezing the event loop", async () => {
+describe("writes while an ingest runs", () => {
+  it("go on while it reads its file: a second upload answers 202, an exclusion 201, and the ingest holds no write lock", async () => {
     const { campaign } = await createSiteAndCampaign(lead, monitor);
-    context.ingest.testHooks.pauseAfterSamples = { samples: 50, ms: 1500 };
+    // The ingest sleeps 2 s while reading (a slow disk, a huge file).
+    context.ingest.testHooks.pauseAfterSamples = { samples: 50, ms: 2000 };
     const first = (await postUpload(lead, campaign.id, nativeLog)).body.upload.id as number;
     context.ingest.testHooks.pauseAfterSamples = undefined;
+    while (((await lead.get(`/api/uploads/${first}`)).body as { status: string }).status !== "ingesting") await new Promise((resolve) => setTimeout(resolve, 10));
+    await new Promise((resolve) => setTimeout(resolve, 100));
+    // A writer that does not wait gets the write lock: the reading ingest does not hold it.
+    const probe = new Database(context.db.file);
+    probe.pragma("busy_timeout = 0");
+    probe.exec("BEGIN IMMEDIATE");
+    probe.exec("ROLLBACK");
+    probe.close();
+    const startedMs = Date.now();
+    const second = await postUpload(lead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv"));
+    expect(second.status).toBe(202);
+    const exclusion = await lead.post(`/api/campaigns/${campaign.id}/exclusions`).set(SAME_ORIGIN).send({ from: "2020-01-01", to: "2020-01-02", reason: "during ingest" });
+    expect(exclusion.status).toBe(201);
+    // Both answered long before the first ingest's 2 s of reading were over.
+    expect(Date.now() - startedMs).toBeLessThan(1000);
+    expect(((await lead.get(`/api/uploads/${first}`)).body as { status: string }).status).toBe("ingesting");
+    const done = await waitForUpload(lead, first);
+    expect(done.status).toBe("done");
+    expect(await sampleCount(first)).toBe(done.samples.accepted);
+    expect((await waitForUpload(lead, second.body.upload.id)).status).toBe("done");
+  });
+
+  it("keep the server answering during its commit: a second upload and an exclusion wait for the commit instead of freezing the event loop", async () => {
+    const { campaign } = await createSiteAndCampaign(lead, monitor);
+    // The commit's write transaction stays open 1.5 s (a slow disk).
+    context.ingest.testHooks.holdCommitMs = 1500;
+    const first = (await postUpload(lead, campaign.id, nativeLog)).body.upload.id as number;
+    context.ingest.testHooks.holdCommitMs = undefined;
     // Wait until the worker holds the write lock.
     await ingestHoldsWriteLock(context);
     const secondStartedMs = Date.now();

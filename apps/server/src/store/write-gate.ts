@@ -10,6 +10,7 @@ export class WriteGate {
   private writers = 0;
   private writerWaiters: (() => void)[] = [];
   private readonly freeListeners: (() => void)[] = [];
+  private noWriterWaiters: (() => void)[] = [];
 
   /** Waits until no ingest holds the gate and takes a writer's slot. Call the returned release exactly once (more calls are ignored). */
   async acquire(): Promise<() => void> {
@@ -20,7 +21,10 @@ export class WriteGate {
       if (released) return;
       released = true;
       this.writers -= 1;
-      if (this.writers === 0) for (const listener of this.freeListeners) listener();
+      if (this.writers === 0) {
+        for (const resolve of this.noWriterWaiters.splice(0)) resolve();
+        for (const listener of this.freeListeners) listener();
+      }
     };
   }
 
@@ -49,6 +53,11 @@ export class WriteGate {
   releaseFromIngest(): void {
     this.ingestHolds = false;
     for (const resolve of this.writerWaiters.splice(0)) resolve();
+  }
+
+  /** Resolves once no main-thread writer holds a slot (at once if none does). */
+  async noWriters(): Promise<void> {
+    while (this.writers > 0) await new Promise<void>((resolve) => this.noWriterWaiters.push(resolve));
   }
 
   /** Called every time the last main-thread writer releases its slot (the ingest queue starts the next ingest). */

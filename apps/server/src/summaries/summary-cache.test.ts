@@ -65,6 +65,18 @@ describe("the summary cache", () => {
     expect(more.samples.read).toBe(first.samples.read + second.samples.read);
   });
 
+  it("gives new numbers when an upload is withdrawn and the first ones again when it is restored", async () => {
+    const { campaign } = await campaignWithSamples(0, 100);
+    const one = await summaryOf(campaign.id);
+    const second = await waitForUpload(lead, (await postUpload(lead, campaign.id, part(100, 200), "second.csv")).body.upload.id);
+    const both = await summaryOf(campaign.id);
+    expect(both.samples.accepted).toBeGreaterThan(one.samples.accepted);
+    expect((await lead.post(`/api/uploads/${second.id}/withdraw`).set(SAME_ORIGIN).send({ reason: "sent to the wrong campaign" })).status).toBe(200);
+    expect(await summaryOf(campaign.id)).toEqual(one);
+    expect((await lead.post(`/api/uploads/${second.id}/restore`).set(SAME_ORIGIN).send({})).status).toBe(200);
+    expect(await summaryOf(campaign.id)).toEqual(both);
+  });
+
   it("raises a campaign's data version exactly when its samples or exclusions change, not for other edits", async () => {
     const { site, campaign } = await campaignWithSamples(0, 40);
     const version = () => readDataVersions(context.db.sqlite, [campaign.id])[0];

@@ -3,7 +3,7 @@ import { FILTER_LIMIT_MESSAGES, filterSettingAllowed } from "@calmcrest/seeing-s
 import { instantMs, isoInstantSchema } from "./campaigns";
 import type { ResponseSetName } from "./campaigns";
 import type { SampleCounts } from "./uploads";
-import type { SeeingSummary } from "@calmcrest/seeing-stats";
+import type { NightIntervalStatus, SeeingSummary } from "@calmcrest/seeing-stats";
 
 const optionalNumber = (name: string, unit: string) =>
   z.preprocess(
@@ -31,6 +31,11 @@ export const summaryQueryShape = {
   maxZenithDeg: optionalNumber("maxZenithDeg", "degrees").refine((v) => v === undefined || filterSettingAllowed("maxZenithDeg", v), FILTER_LIMIT_MESSAGES.maxZenithDeg),
   sunMaxDeg: optionalNumber("sunMaxDeg", "degrees").refine((v) => v === undefined || filterSettingAllowed("sunMaxDeg", v), FILTER_LIMIT_MESSAGES.sunMaxDeg),
   minFlux: optionalNumber("minFlux", "flux units"),
+  /** `true` keeps samples flagged anisotropic (their two axes disagree); left out by default, as in the analyzer. */
+  keepAnisotropic: z.preprocess(
+    (value) => (value === "true" ? true : value === "false" ? false : value === "" ? undefined : value),
+    z.boolean({ error: "keepAnisotropic must be true or false." }).optional(),
+  ),
 };
 
 /**
@@ -53,6 +58,25 @@ export type SummaryQuery = z.infer<typeof summaryQuerySchema>;
 /** Statistics of accepted samples, at zenith and 500 nm: exactly the seeing engine's SeeingSummary (one definition). */
 export type SeeingStatistics = SeeingSummary;
 
+/**
+ * The figures of one group of a site's campaigns (campaigns with one response set, or monitors at one height),
+ * given beside the pooled figures when the campaigns differ, so that nothing is pooled without a word.
+ */
+export interface SummaryGroup {
+  /** What the group has in common, in words (e.g. "Tokovinin 2002, Z-tilt" or "monitor 5 m above ground"). */
+  label: string;
+  campaignIds: number[];
+  samples: number;
+  nights: number;
+  /** Seeing at zenith and 500 nm; null when no sample of the group passes. */
+  median: number | null;
+  p25: number | null;
+  p75: number | null;
+  medianCi95: [number, number] | null;
+  interval: NightIntervalStatus | null;
+  seasonBalancedMedian: number | null;
+}
+
 /** Header of every summary answer: what was summarised and with which settings. */
 export interface SummaryScope {
   kind: "campaign" | "site";
@@ -60,7 +84,7 @@ export interface SummaryScope {
   siteName: string;
   /** The campaigns included (for a site: the caller's visible campaigns), with what makes them comparable. */
   campaigns: { id: number; name: string; heightAboveGroundM: number | null; response: ResponseSetName; wavelengthNm: number }[];
-  filters: { from: string | null; to: string | null; maxZenithDeg: number; sunMaxDeg: number; minFlux: number | null };
+  filters: { from: string | null; to: string | null; maxZenithDeg: number; sunMaxDeg: number; minFlux: number | null; leaveOutAnisotropic: boolean };
   exclusions: { from: string; to: string; reason: string }[];
   /**
    * read = stored samples in the time range (plus, with no time range, the rows rejected at ingest);
@@ -69,6 +93,10 @@ export interface SummaryScope {
   samples: SampleCounts;
   /** True when `samples` includes the rows rejected at ingest (only without from/to: those rows have no usable time). */
   includesIngestRejections: boolean;
+  /** Per campaign when the campaigns use different response coefficient sets (warning mixed_response_sets); else null. */
+  byCampaign: SummaryGroup[] | null;
+  /** Per monitor height when the campaigns' monitors stand at different heights (warning mixed_monitor_heights); else null. */
+  byHeight: SummaryGroup[] | null;
 }
 
 /**

@@ -1,5 +1,5 @@
 import type Database from "better-sqlite3";
-import { sortPositive, type SortedSeeing } from "@calmcrest/seeing-stats";
+import { sortPositive, tau0ToReference, theta0ToReference, type SortedSeeing } from "@calmcrest/seeing-stats";
 import type { SiteSummaryBrief } from "@calmcrest/contracts";
 import { readDataVersions } from "./data-version.server";
 
@@ -17,6 +17,11 @@ export interface CampaignColumns {
   /** Per-axis seeing (variance inputs only), for the longitudinal-against-transverse check. */
   seeingLongArcsec: Float64Array;
   seeingTransArcsec: Float64Array;
+  /** 1 where the sample was flagged anisotropic at ingest (the anisotropy filter), else 0 (always loaded). */
+  anisotropic?: Uint8Array;
+  /** τ0 and θ0 reduced to zenith and 500 nm (NaN where not logged); absent when the campaign logged none. */
+  tau0Ms?: Float64Array;
+  theta0Arcsec?: Float64Array;
 }
 
 export interface ExclusionWindow {
@@ -36,11 +41,10 @@ interface CampaignEntry {
   bytes: number;
 }
 
-/** About 60 bytes a sample: seven Float64 columns; the seeing sort adds 12 more (Float64 values and Uint32 order). */
-const COLUMN_COUNT = 7;
-
-function columnBytes(count: number): number {
-  return count * COLUMN_COUNT * Float64Array.BYTES_PER_ELEMENT;
+/** About 60 bytes a sample: seven Float64 columns and the anisotropy byte (τ0/θ0 add 8 each when logged); the seeing sort adds 12 more. */
+function columnBytes(columns: CampaignColumns): number {
+  const floatColumns = 7 + (columns.tau0Ms ? 1 : 0) + (columns.theta0Arcsec ? 1 : 0);
+  return columns.timeMs.length * (floatColumns * Float64Array.BYTES_PER_ELEMENT + 1);
 }
 
 /** What sync() read in one SQLite read snapshot: the data version of each campaign, in the order asked. */
@@ -89,7 +93,7 @@ export class SampleCache {
       return cached;
     }
     const columns = this.loadColumns(campaignId);
-    const entry: CampaignEntry = { columns, exclusions: this.loadExclusions(campaignId), seeingSort: null, version: -1, bytes: columnBytes(columns.timeMs.length) };
+    const entry: CampaignEntry = { columns, exclusions: this.loadExclusions(campaignId), seeingSort: null, version: -1, bytes: columnBytes(columns) };
     this.campaigns.set(campaignId, entry);
     this.heldBytes += entry.bytes;
     this.evict();
@@ -173,6 +177,11 @@ export class SampleCache {
   private loadColumns(campaignId: number): CampaignColumns {
     const countRow = this.sqlite.prepare("SELECT COUNT(*) AS n FROM sample WHERE campaign_id = ?").get(campaignId) as { n: number };
     const count = countRow.n;
+    // τ0 and θ0 are stored as logged; the summaries want them at zenith and 500 nm like the seeing.
+    const turbulence = this.sqlite
+      .prepare("SELECT COUNT(s.tau0_ms) AS tau0, COUNT(s.theta0_arcsec) AS theta0, c.wavelength_nm AS wavelengthNm FROM campaign c LEFT JOIN sample s ON s.campaign_id = c.id WHERE c.id = ?")
+      .get(campaignId) as { tau0: number; theta0: number; wavelengthNm: number | null };
+    const wavelengthNm = turbulence.wavelengthNm ?? 500;
     const columns: CampaignColumns = {
       count,
       timeMs: new Float64Array(count),
@@ -182,14 +191,23 @@ export class SampleCache {
       flux: new Float64Array(count),
       seeingLongArcsec: new Float64Array(count),
       seeingTransArcsec: new Float64Array(count),
+      ...(turbulence.tau0 > 0 ? { tau0Ms: new Float64Array(count).fill(Number.NaN) } : {}),
+      ...(turbulence.theta0 > 0 ? { theta0Arcsec: new Float64Array(count).fill(Number.NaN) } : {}),
     };
+    const { tau0Ms, theta0Arcsec } = columns;
+    const anisotropicFlags = new Uint8Array(count);
+    columns.anisotropic = anisotropicFlags;
     // The primary key (campaign_id, time_ms) returns them in time order without sorting.
     const rows = this.sqlite
-      .prepare("SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux, seeing_long_arcsec, seeing_trans_arcsec FROM sample WHERE campaign_id = ? ORDER BY time_ms")
+      .prepare(
+        "SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux, seeing_long_arcsec, seeing_trans_arcsec, anisotropic, tau0_ms, theta0_arcsec FROM sample WHERE campaign_id = ? ORDER BY time_ms",
+      )
       .raw()
-      .iterate(campaignId) as IterableIterator<[number, number, number, number | null, number | null, number | null, number | null]>;
+      .iterate(campaignId) as IterableIterator<
+      [number, number, number, number | null, number | null, number | null, number | null, number, number | null, number | null]
+    >;
     let index = 0;
-    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux, seeingLongArcsec, seeingTransArcsec] of rows) {
+    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux, seeingLongArcsec, seeingTransArcsec, anisotropic, tau0, theta0] of rows) {
       // A concurrent ingest cannot add rows mid-read (WAL snapshot), but guard the preallocated length anyway.
       if (index >= count) break;
       columns.timeMs[index] = timeMs;
@@ -199,6 +217,11 @@ export class SampleCache {
       columns.flux[index] = flux ?? Number.NaN;
       columns.seeingLongArcsec[index] = seeingLongArcsec ?? Number.NaN;
       columns.seeingTransArcsec[index] = seeingTransArcsec ?? Number.NaN;
+      anisotropicFlags[index] = anisotropic === 1 ? 1 : 0;
+      // A value that is not positive is left out of the τ0/θ0 figures (as in the analyzer).
+      const zenithForTurbulence = Math.min(zenithDeg, 89.999);
+      if (tau0Ms && tau0 !== null && tau0 > 0) tau0Ms[index] = tau0ToReference(tau0, zenithForTurbulence, wavelengthNm);
+      if (theta0Arcsec && theta0 !== null && theta0 > 0) theta0Arcsec[index] = theta0ToReference(theta0, zenithForTurbulence, wavelengthNm);
       index += 1;
     }
     return index === count ? columns : { ...columns, count: index };

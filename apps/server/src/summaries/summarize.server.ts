@@ -1,12 +1,14 @@
 import {
   DEFAULT_FILTERS,
+  RESPONSE_SET_NAMES,
   selectRuns,
   selectSamples as selectSampleRuns,
   summarizeSeeingPresorted,
   type FilterSettings,
   type SelectedSamples,
+  type SummaryOptions,
 } from "@calmcrest/seeing-stats";
-import { instantMs, type SeeingStatistics, type SiteSummaryBrief, type SummaryQuery, type SummaryResponse, type SummaryScope } from "@calmcrest/contracts";
+import { instantMs, type SeeingStatistics, type SiteSummaryBrief, type SummaryGroup, type SummaryQuery, type SummaryResponse, type SummaryScope } from "@calmcrest/contracts";
 import type { CampaignRow, IngestRejections, SiteRow } from "../store/index";
 import type { CampaignColumns, SampleCache } from "./sample-cache.server";
 
@@ -31,6 +33,7 @@ export function resolveQuery(query: SummaryQuery): ResolvedQuery {
     maxZenithDeg: query.maxZenithDeg ?? DEFAULT_FILTERS.maxZenithDeg,
     sunMaxDeg: query.sunMaxDeg ?? DEFAULT_FILTERS.sunMaxDeg,
     minFlux: query.minFlux ?? DEFAULT_FILTERS.minFlux,
+    leaveOutAnisotropic: query.keepAnisotropic !== true,
   };
   const fromMs = query.from ? instantMs(query.from) : null;
   const toMs = query.to ? instantMs(query.to) + (query.to.length === 10 ? DAY_MS : 0) : null;
@@ -113,18 +116,84 @@ export function buildSummary(cache: SampleCache, input: SummaryInput): SummaryRe
       response: campaign.response,
       wavelengthNm: campaign.wavelength_nm,
     })),
-    filters: { from: resolved.from, to: resolved.to, ...resolved.filters },
+    filters: { from: resolved.from, to: resolved.to, ...resolved.filters, leaveOutAnisotropic: resolved.filters.leaveOutAnisotropic !== false },
     exclusions,
     samples: { read, accepted, rejected: read - accepted, rejectedByReason },
     includesIngestRejections,
+    byCampaign: null,
+    byHeight: null,
   };
-  const statistics: SeeingStatistics | null = summarizeSeeingPresorted(
-    { timeMs: selected.timeMs, seeingArcsec: selected.seeingArcsec },
-    selected.presorted,
-    { longitudeDeg: site.longitude },
-  );
+  const options = summaryOptions(site, campaigns);
+  const statistics: SeeingStatistics | null = summarizeSeeingPresorted(columnsOf(selected), selected.presorted, options);
+  // Campaigns that differ in response set or monitor height are not pooled without a word: the engine warns
+  // (mixed_response_sets, mixed_monitor_heights) and the same figures are given per campaign / per height.
+  if (new Set(campaigns.map((campaign) => campaign.response)).size > 1) {
+    scope.byCampaign = campaigns.map((campaign) =>
+      groupFigures(cache, [campaign], resolved, site, `${campaign.name} (${RESPONSE_SET_NAMES[campaign.response]})`),
+    );
+  }
+  const heights = [...new Set(campaigns.map((campaign) => campaign.height_above_ground_m))];
+  if (heights.length > 1) {
+    scope.byHeight = heights.map((height) =>
+      groupFigures(
+        cache,
+        campaigns.filter((campaign) => campaign.height_above_ground_m === height),
+        resolved,
+        site,
+        height === null ? "monitor height not recorded" : `monitor ${height} m above ground`,
+      ),
+    );
+  }
   if (!statistics) return { ...scope, empty: true };
   return { ...scope, empty: false, ...statistics };
+}
+
+/** The selected samples as the engine's summary columns (τ0 and θ0 when the campaigns logged them). */
+function columnsOf(selected: SelectedSamples) {
+  return {
+    timeMs: selected.timeMs,
+    seeingArcsec: selected.seeingArcsec,
+    ...(selected.tau0Ms ? { tau0Ms: selected.tau0Ms } : {}),
+    ...(selected.theta0Arcsec ? { theta0Arcsec: selected.theta0Arcsec } : {}),
+  };
+}
+
+/**
+ * The site's position for nights, hours and the hemisphere's seasons, and what the engine needs to warn about
+ * pooling: the campaigns' response sets and monitor heights. Campaigns always store their wavelength, so no
+ * wavelength warning applies on the server.
+ */
+function summaryOptions(site: SiteRow, campaigns: readonly CampaignRow[]): SummaryOptions {
+  return {
+    longitudeDeg: site.longitude,
+    latitudeDeg: site.latitude,
+    context: {
+      responseSets: campaigns.map((campaign) => RESPONSE_SET_NAMES[campaign.response]),
+      monitorHeightsM: campaigns.map((campaign) => campaign.height_above_ground_m),
+    },
+  };
+}
+
+/** The headline figures of one group of campaigns with the query's settings. */
+function groupFigures(cache: SampleCache, group: readonly CampaignRow[], resolved: ResolvedQuery, site: SiteRow, label: string): SummaryGroup {
+  const selected = selectSamples(
+    cache,
+    group.map((campaign) => campaign.id),
+    resolved,
+  );
+  const statistics = summarizeSeeingPresorted(columnsOf(selected), selected.presorted, { longitudeDeg: site.longitude, latitudeDeg: site.latitude });
+  return {
+    label,
+    campaignIds: group.map((campaign) => campaign.id),
+    samples: selected.seeingArcsec.length,
+    nights: statistics?.nights ?? 0,
+    median: statistics?.seeing.median ?? null,
+    p25: statistics?.seeing.p25 ?? null,
+    p75: statistics?.seeing.p75 ?? null,
+    medianCi95: statistics?.seeing.medianCi95 ?? null,
+    interval: statistics?.interval ?? null,
+    seasonBalancedMedian: statistics?.seasonBalanced?.medianArcsec ?? null,
+  };
 }
 
 /** The short summary for the site list (default filters, no time range), memoised until the samples change. */
@@ -144,7 +213,7 @@ export function computeSiteBrief(cache: SampleCache, site: SiteRow, campaignIds:
   const statistics = summarizeSeeingPresorted(
     { timeMs: selected.timeMs, seeingArcsec: selected.seeingArcsec },
     selected.presorted,
-    { longitudeDeg: site.longitude, bootstrapReplicates: 10 },
+    { longitudeDeg: site.longitude, latitudeDeg: site.latitude, bootstrapReplicates: 10 },
   );
   return statistics
     ? { samples: selected.seeingArcsec.length, nights: statistics.nights, median: statistics.seeing.median, p25: statistics.seeing.p25, p75: statistics.seeing.p75 }

@@ -132,7 +132,7 @@ function answerBytes(key: string, json: string): number {
 /** The query with the engine's defaults filled in, as cache-key text: `?maxZenithDeg=60` and no parameter are the same answer. */
 function queryKey(query: SummaryQuery): string {
   const { from, to, filters } = resolveQuery(query);
-  return JSON.stringify([from, to, filters.maxZenithDeg, filters.sunMaxDeg, filters.minFlux]);
+  return JSON.stringify([from, to, filters.maxZenithDeg, filters.sunMaxDeg, filters.minFlux, filters.leaveOutAnisotropic]);
 }
 
 /** The fields of the site and its campaigns a summary shows besides the samples (names, longitude, monitor). */
@@ -141,6 +141,7 @@ function scopeKey(site: SiteRow, campaigns: readonly CampaignRow[]): string {
     site.id,
     site.name,
     site.longitude,
+    site.latitude,
     campaigns.map((campaign) => [campaign.id, campaign.name, campaign.height_above_ground_m, campaign.response, campaign.wavelength_nm]),
   ]);
 }

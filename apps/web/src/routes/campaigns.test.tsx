@@ -54,10 +54,12 @@ const emptySummary: SummaryResponse = {
   siteId: 2,
   siteName: "Basalt Rim",
   campaigns: [],
-  filters: { from: null, to: null, maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null },
+  filters: { from: null, to: null, maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null, leaveOutAnisotropic: true },
   exclusions: [],
   samples: { read: 0, accepted: 0, rejected: 0, rejectedByReason: {} },
   includesIngestRejections: true,
+  byCampaign: null,
+  byHeight: null,
   empty: true,
 };
 

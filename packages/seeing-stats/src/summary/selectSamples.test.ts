@@ -124,4 +124,28 @@ describe('selectSamples', () => {
     expect(selected.stored).toBe(3500);
     expect((selected.rejectedByReason.zenith_limit ?? 0) + (selected.rejectedByReason.excluded_window ?? 0)).toBe(3500);
   });
+
+  it('leaves out samples stored as anisotropic unless the filter is off, and carries τ0 and θ0 of the accepted samples', () => {
+    const columns: StoredSampleColumns = {
+      count: 4,
+      timeMs: Float64Array.from([0, 1, 2, 3], (index) => START_MS + index * MINUTE_MS),
+      seeingArcsec: Float64Array.from([0.7, 1.6, 0.8, 0.9]),
+      zenithDeg: Float64Array.from([10, 10, 10, 70]),
+      sunAltDeg: Float64Array.from([-30, -30, -30, -30]),
+      flux: Float64Array.from([Number.NaN, Number.NaN, Number.NaN, Number.NaN]),
+      anisotropic: Uint8Array.from([0, 1, 0, 0]),
+      tau0Ms: Float64Array.from([4, 5, Number.NaN, 7]),
+      theta0Arcsec: Float64Array.from([2, 2.1, 2.2, 2.3]),
+    };
+    const sortedRun = [{ columns, exclusions: [], seeingSort: sortPositive(columns.seeingArcsec) }];
+    const leftOut = selectSamples(sortedRun, { fromMs: null, toMs: null, filters: DEFAULT_FILTERS });
+    expect(Array.from(leftOut.seeingArcsec)).toEqual([0.7, 0.8]);
+    expect(leftOut.rejectedByReason).toEqual({ anisotropic: 1, zenith_limit: 1 });
+    expect(Array.from(leftOut.tau0Ms ?? [])).toEqual([4, Number.NaN]);
+    expect(Array.from(leftOut.theta0Arcsec ?? [])).toEqual([2, 2.2]);
+    const kept = selectSamples(sortedRun, { fromMs: null, toMs: null, filters: { ...DEFAULT_FILTERS, leaveOutAnisotropic: false } });
+    expect(Array.from(kept.seeingArcsec)).toEqual([0.7, 1.6, 0.8]);
+    // runs without the columns give none
+    expect(selectSamples(runs, query).tau0Ms).toBeUndefined();
+  });
 });

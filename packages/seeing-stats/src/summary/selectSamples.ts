@@ -12,6 +12,12 @@ export interface StoredSampleColumns {
   zenithDeg: Float64Array;
   sunAltDeg: Float64Array;
   flux: Float64Array;
+  /** 1 where the sample was flagged anisotropic at reading (variance inputs), 0 otherwise; absent: not known. */
+  anisotropic?: Uint8Array;
+  /** Coherence time τ0 at zenith and 500 nm, NaN where not logged; absent when the run has none. */
+  tau0Ms?: Float64Array;
+  /** Isoplanatic angle θ0 at zenith and 500 nm, NaN where not logged; absent when the run has none. */
+  theta0Arcsec?: Float64Array;
 }
 
 /** A window of excluded samples: fromMs inclusive, toMs exclusive. */
@@ -85,8 +91,9 @@ export function selectRun<Columns extends StoredSampleColumns>(run: SampleRun<Co
   const accepted = new Uint32Array(end - start);
   const rejectedCounts = new Int32Array(SELECTION_REASONS.length);
   const reasonsMet: number[] = [];
-  // One probe object reused for every sample: filterReason only reads these three fields.
-  const probe: { zenithDeg: number; sunAltDeg: number | null; flux: number | null } = { zenithDeg: 0, sunAltDeg: null, flux: null };
+  // One probe object reused for every sample: filterReason only reads these fields.
+  const probe: { zenithDeg: number; sunAltDeg: number | null; flux: number | null; anisotropic?: boolean } = { zenithDeg: 0, sunAltDeg: null, flux: null };
+  const anisotropic = columns.anisotropic;
   let acceptedCount = 0;
   for (let index = start; index < end; index += 1) {
     let reasonCode = NO_REJECTION;
@@ -97,6 +104,7 @@ export function selectRun<Columns extends StoredSampleColumns>(run: SampleRun<Co
       probe.zenithDeg = columns.zenithDeg[index] ?? Number.NaN;
       probe.sunAltDeg = Number.isNaN(sunAltDeg) ? null : sunAltDeg;
       probe.flux = Number.isNaN(flux) ? null : flux;
+      if (anisotropic !== undefined) probe.anisotropic = anisotropic[index] === 1;
       const reason = filterReason(probe, query.filters);
       if (reason !== null) reasonCode = SELECTION_REASONS.indexOf(reason);
     }
@@ -135,6 +143,9 @@ export interface SelectedSamples {
   /** Run after run, each in time order. */
   timeMs: Float64Array;
   seeingArcsec: Float64Array;
+  /** τ0 and θ0 (zenith, 500 nm) beside them, NaN where not logged; absent when no run has the column. */
+  tau0Ms?: Float64Array;
+  theta0Arcsec?: Float64Array;
   /** Exactly the sort sortPositive(seeingArcsec) would give, assembled from the runs' kept sorts. */
   presorted: SortedSeeing;
   /** Stored samples in the time range. */
@@ -156,15 +167,32 @@ export function selectSamples(runs: readonly SortedSampleRun[], query: SampleQue
   for (const selection of selections) acceptedCount += selection.accepted.length;
   const timeMs = new Float64Array(acceptedCount);
   const seeingArcsec = new Float64Array(acceptedCount);
+  const tau0Ms = runs.some((run) => run.columns.tau0Ms !== undefined) ? new Float64Array(acceptedCount).fill(Number.NaN) : undefined;
+  const theta0Arcsec = runs.some((run) => run.columns.theta0Arcsec !== undefined) ? new Float64Array(acceptedCount).fill(Number.NaN) : undefined;
   const sortedRuns: SortedSeeing[] = [];
   let firstPosition = 0;
   selections.forEach((selection, slot) => {
     copySelected(selection, firstPosition, timeMs, seeingArcsec);
+    if (tau0Ms !== undefined && selection.columns.tau0Ms !== undefined) copyColumn(selection, firstPosition, selection.columns.tau0Ms, tau0Ms);
+    if (theta0Arcsec !== undefined && selection.columns.theta0Arcsec !== undefined) copyColumn(selection, firstPosition, selection.columns.theta0Arcsec, theta0Arcsec);
     const run = runs[slot];
     if (run) sortedRuns.push(sortedSelection(run.seeingSort, selection, firstPosition));
     firstPosition += selection.accepted.length;
   });
-  return { timeMs, seeingArcsec, presorted: mergeSortedRuns(sortedRuns, acceptedCount), stored, rejectedByReason };
+  return {
+    timeMs,
+    seeingArcsec,
+    ...(tau0Ms === undefined ? {} : { tau0Ms }),
+    ...(theta0Arcsec === undefined ? {} : { theta0Arcsec }),
+    presorted: mergeSortedRuns(sortedRuns, acceptedCount),
+    stored,
+    rejectedByReason,
+  };
+}
+
+function copyColumn(selection: RunSelection, firstPosition: number, from: Float64Array, to: Float64Array): void {
+  const { accepted } = selection;
+  for (let slot = 0; slot < accepted.length; slot += 1) to[firstPosition + slot] = from[accepted[slot] ?? 0] ?? Number.NaN;
 }
 
 function copySelected(selection: RunSelection, firstPosition: number, timeMs: Float64Array, seeingArcsec: Float64Array): void {

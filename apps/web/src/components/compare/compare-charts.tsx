@@ -140,6 +140,12 @@ export function MonthlyMediansChart({ rows }: { rows: ComparisonRow[] }) {
 export function DifferenceHistogram({ pair, nameA, nameB }: { pair: ComparisonPair; nameA: string; nameB: string }) {
   const bins = pair.paired?.histogram ?? [];
   const data = bins.map((bin) => ({ ...bin, centreArcsec: (bin.lowArcsec + bin.highArcsec) / 2 }));
+  // Round ticks either side of zero (0.1″ apart, or 0.25″ for a wide spread), so the zero line always has a label.
+  const lowArcsec = Math.min(-0.1, ...bins.map((bin) => bin.lowArcsec));
+  const highArcsec = Math.max(0.1, ...bins.map((bin) => bin.highArcsec));
+  const step = highArcsec - lowArcsec > 1 ? 0.25 : 0.1;
+  const first = Math.floor(lowArcsec / step);
+  const ticks = Array.from({ length: Math.ceil(highArcsec / step) - first + 1 }, (_, index) => Number(((first + index) * step).toFixed(2)));
   return (
     <ChartFrame
       title={`Night by night: ${nameA} − ${nameB}`}
@@ -156,7 +162,8 @@ export function DifferenceHistogram({ pair, nameA, nameB }: { pair: ComparisonPa
           <XAxis
             dataKey="centreArcsec"
             type="number"
-            domain={[(min: number) => Math.min(-0.1, min), (max: number) => Math.max(0.1, max)]}
+            domain={[ticks[0] ?? lowArcsec, ticks[ticks.length - 1] ?? highArcsec]}
+            ticks={ticks}
             tick={AXIS_TICK}
             tickFormatter={(value: number) => value.toFixed(2)}
             label={{ value: "Difference of nightly medians (arcsec)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }}

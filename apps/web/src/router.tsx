@@ -4,15 +4,17 @@ import { meQuery } from "./api/auth";
 import { NAV_ITEMS, homeFor, mayUse } from "./navigation";
 import { requireMe, roleLoader } from "./route-guards";
 import { AppLayout } from "./routes/_app";
-import { ReportsPage } from "./routes/reports";
 import { RouteError } from "./routes/route-error";
 import { SignInPage } from "./routes/sign-in";
 import { configQuery, sitesQuery } from "./api/sites";
 import { usersQuery } from "./api/users";
 import { outboxQuery } from "./api/outbox";
+import { preferencesQuery, reportCommentsQuery, reportQuery, reportsQuery } from "./api/reports";
+import { idParam } from "./route-loaders";
 import { campaignLoader, siteLoader } from "./route-loaders";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
+const REPORT_ROLES = ["admin", "lead", "committee"] as const;
 
 /** Signed-in pages other areas add (sites, campaigns, upload, people): see DEVELOPERS.md "Add a page". */
 export function appRoutes(queryClient: QueryClient): RouteObject[] {
@@ -66,7 +68,39 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
       },
       lazy: async () => ({ Component: (await import("./routes/admin.outbox")).OutboxPage }),
     },
-    { path: "reports", loader: roleLoader(queryClient, ["admin", "lead", "committee"]), element: <ReportsPage /> },
+    {
+      path: "reports",
+      loader: async (args) => {
+        await roleLoader(queryClient, REPORT_ROLES)(args);
+        const me = await requireMe(queryClient, args.request);
+        // The new-report form lists sites for leads and admins.
+        await Promise.all([queryClient.ensureQueryData(reportsQuery), me.role === "committee" ? null : queryClient.ensureQueryData(sitesQuery)]);
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/reports")).ReportsPage }),
+    },
+    {
+      path: "reports/:reportId",
+      loader: async (args) => {
+        await roleLoader(queryClient, REPORT_ROLES)(args);
+        const me = await requireMe(queryClient, args.request);
+        const reportId = idParam(args.params.reportId);
+        const detail = await queryClient.ensureQueryData(reportQuery(reportId));
+        if (me.role !== "committee") void queryClient.prefetchQuery(sitesQuery);
+        if (detail.version) void queryClient.prefetchQuery(reportCommentsQuery(reportId));
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/reports.$reportId")).ReportPage }),
+    },
+    {
+      path: "account",
+      loader: async ({ request }) => {
+        await requireMe(queryClient, request);
+        await queryClient.ensureQueryData(preferencesQuery);
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/account")).AccountPage }),
+    },
   ];
 }
 

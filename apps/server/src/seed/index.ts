@@ -1,4 +1,5 @@
 import type { AppContext } from "../context";
+import { seedDemoReport } from "./demo-report";
 import { seedDemoScenario } from "./demo-scenario";
 import { verifyPassword } from "../auth/passwords.server";
 import { DEMO_USERS, seedDemoUsers } from "./demo-users";
@@ -9,6 +10,10 @@ export const demoScenarioSteps: ((context: AppContext) => Promise<void>)[] = [
     const startedMs = Date.now();
     await seedDemoScenario(context);
     console.log(`Calmcrest: seeded the demo scenario (four invented candidate ridges) in ${((Date.now() - startedMs) / 1000).toFixed(1)} s.`);
+  },
+  async (context) => {
+    await seedDemoReport(context);
+    console.log("Calmcrest: seeded the demo report (two published versions and a comment thread).");
   },
 ];
 

@@ -27,7 +27,7 @@ export function AppLayout() {
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-[2000] focus:rounded focus:bg-panel focus:px-3 focus:py-2">
         Skip to content
       </a>
-      <header className="bg-night text-night-ink">
+      <header className="bg-night text-night-ink print:hidden">
         <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3 sm:px-6">
           <NavLink to="/" className="flex items-center gap-2 font-semibold text-white">
             <Logo className="h-7 w-7" />
@@ -47,10 +47,10 @@ export function AppLayout() {
             ))}
           </nav>
           <div className="ml-auto flex items-center gap-3 text-sm">
-            <span>
-              <span className="font-semibold text-white">{me.name}</span>
+            <NavLink to="/account" title="Your account and e-mail settings" className="rounded-md px-1 hover:bg-white/10">
+              <span className="font-semibold text-white underline-offset-2 hover:underline">{me.name}</span>
               <span className="text-night-ink"> · {ROLE_LABELS[me.role]}</span>
-            </span>
+            </NavLink>
             <button type="button" onClick={onSignOut} className="rounded-md border border-white/30 px-3 py-1 font-semibold hover:bg-white/10">
               Sign out
             </button>
@@ -58,7 +58,7 @@ export function AppLayout() {
         </div>
       </header>
       {/* Page loaders fetch before a page shows; this bar says something is on its way. */}
-      <div aria-live="polite" className="h-1 bg-night">
+      <div aria-live="polite" className="h-1 bg-night print:hidden">
         {navigation.state === "loading" ? (
           <div role="progressbar" aria-label="Loading the page" className="h-1 w-1/3 animate-pulse bg-accent-pale" />
         ) : null}
@@ -66,7 +66,7 @@ export function AppLayout() {
       <main id="main" className="flex-1">
         <Outlet />
       </main>
-      <footer className="border-t border-line px-4 py-3 text-center text-xs text-ink-soft">
+      <footer className="border-t border-line px-4 py-3 text-center text-xs text-ink-soft print:hidden">
         Calmcrest reports seeing statistics; the choice of site rests with the site-selection committee.
       </footer>
     </div>

@@ -1,0 +1,57 @@
+import { useState } from "react";
+import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
+import { ROLE_LABELS } from "@calmcrest/contracts";
+import { meQuery } from "../api/auth";
+import { ApiError } from "../api/client";
+import { preferencesQuery, setPreferences } from "../api/reports";
+import { Page } from "../components/page";
+
+/** /account: the signed-in person's own settings (for now: which e-mails they get). */
+export function AccountPage() {
+  const { data: me } = useSuspenseQuery(meQuery);
+  const { data: preferences } = useSuspenseQuery(preferencesQuery);
+  const queryClient = useQueryClient();
+  const [problem, setProblem] = useState<string | null>(null);
+  const [saved, setSaved] = useState(false);
+  if (!me) return null;
+  return (
+    <Page title="Your account" intro={`${me.name} · ${me.email} · ${ROLE_LABELS[me.role]}`}>
+      <fieldset className="max-w-2xl space-y-3 rounded-lg border border-line bg-panel p-4">
+        <legend className="px-1 font-semibold">E-mail</legend>
+        <label className="flex items-start gap-3">
+          <input
+            type="checkbox"
+            className="mt-1"
+            checked={preferences.commentEmails}
+            onChange={async (event) => {
+              setProblem(null);
+              setSaved(false);
+              try {
+                queryClient.setQueryData(preferencesQuery.queryKey, await setPreferences({ commentEmails: event.target.checked }));
+                setSaved(true);
+              } catch (error) {
+                setProblem(error instanceof ApiError ? error.message : "The setting could not be saved. Try again.");
+              }
+            }}
+          />
+          <span>
+            <span className="block font-semibold">Comment e-mails</span>
+            <span className="text-sm text-ink-soft">
+              New comments on reports you lead, replies in threads you take part in, and threads being resolved. E-mails about a report version being published always come.
+            </span>
+          </span>
+        </label>
+        {saved ? (
+          <p role="status" className="text-sm text-good">
+            Saved.
+          </p>
+        ) : null}
+        {problem ? (
+          <p role="alert" className="text-sm text-bad">
+            {problem}
+          </p>
+        ) : null}
+      </fieldset>
+    </Page>
+  );
+}

@@ -1,6 +1,6 @@
 // `npm run bench`: runs every benchmark module and prints and writes bench/results.json with the machine it ran on.
 // Add a benchmark by adding a module that exports run({ rows }) to BENCHMARKS. Speed is measured, never asserted.
-import { writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { cpus, totalmem, type as osType, release } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -12,6 +12,7 @@ export interface BenchmarkModule {
 const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   analyzer: () => import('./analyzer.ts'),
   ingest: () => import('./ingest.ts'),
+  compare: () => import('./compare.ts'),
   intervalCoverage: () => import('./intervalCoverage.ts'),
 };
 
@@ -56,5 +57,9 @@ for (const [name, load] of Object.entries(BENCHMARKS)) {
   benchmarks[name] = await module.run({ rows: flags.rows, runs: flags.runs });
   console.log(benchmarks[name]);
 }
-writeFileSync(flags.out, `${JSON.stringify(results, null, 2)}\n`);
+// A run of some benchmarks (--only) keeps the figures of the others already in the file; every run keeps keys other
+// tools own there (the load test's `load`).
+const previous = existsSync(flags.out) ? (JSON.parse(readFileSync(flags.out, 'utf8')) as Record<string, unknown>) : {};
+const previousBenchmarks = flags.only.length > 0 ? ((previous.benchmarks ?? {}) as Record<string, unknown>) : {};
+writeFileSync(flags.out, `${JSON.stringify({ ...previous, ...results, benchmarks: { ...previousBenchmarks, ...benchmarks } }, null, 2)}\n`);
 console.log(`machine: ${JSON.stringify(results.machine)}\nwritten: ${flags.out}`);

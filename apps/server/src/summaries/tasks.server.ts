@@ -2,6 +2,7 @@ import type { SamplesQuery, SummaryQuery } from "@calmcrest/contracts";
 import type { CampaignRow, IngestRejections, SiteRow } from "../store/index";
 import type { SampleCache } from "./sample-cache.server";
 import { sampleSeries } from "./sample-series.server";
+import { runComparisonTask, type ComparisonTaskInput } from "./comparison";
 import { buildSummary, computeSiteBrief, resolveQuery } from "./summarize.server";
 
 // The computations the summary workers run (summary-worker.ts), by name. Each names the campaigns it reads, so
@@ -52,6 +53,11 @@ export const SUMMARY_TASKS = {
   series: task<SeriesTaskInput>({
     campaignIds: (input) => input.campaignIds,
     run: (cache, input) => sampleSeries(cache, input.campaignIds, input.longitudeDeg, input.query),
+  }),
+  // GET /api/comparisons: 2–6 rows side by side (comparison.ts; the main thread's part is compare.server.ts).
+  comparison: task<ComparisonTaskInput>({
+    campaignIds: (input) => input.rows.flatMap((row) => row.campaignIds),
+    run: (cache, input) => runComparisonTask(cache, input),
   }),
 };
 

@@ -159,6 +159,7 @@ describe('the comparison warnings', () => {
     expect(comparisonWarnings([], { maxZenithDeg: 45, sunMaxDeg: -18, minFlux: 500 }).general[0]?.message).toBe(
       'The filters differ from the standard ones (zenith limit 45° instead of 60°; flux minimum 500 instead of none): these figures are not comparable with figures made with the standard filters.',
     );
+    expect(comparisonWarnings([], { maxZenithDeg: 60, sunMaxDeg: -18, minFlux: null, leaveOutAnisotropic: false }).general[0]?.message).toMatch(/\(anisotropic samples kept instead of left out\)/);
     expect(() => comparisonWarnings([site('Bad', ['March 1'])])).toThrow(/nightLabels must be 'YYYY-MM-DD' dates, got 'March 1' for Bad/);
   });
 });

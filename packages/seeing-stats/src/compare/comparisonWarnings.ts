@@ -61,7 +61,7 @@ const monthName = (month: string): string => `${MONTH_NAMES[Number(month.slice(5
  */
 export function comparisonWarnings(
   sites: readonly ComparedSiteFacts[],
-  filters: Pick<FilterSettings, 'maxZenithDeg' | 'sunMaxDeg' | 'minFlux'> = DEFAULT_FILTERS,
+  filters: Pick<FilterSettings, 'maxZenithDeg' | 'sunMaxDeg' | 'minFlux'> & { leaveOutAnisotropic?: boolean } = DEFAULT_FILTERS,
 ): ComparisonWarnings {
   const monthsOf = sites.map((site) => nightsByMonth(site));
   const rowWarnings = sites.map((site, index): ComparisonWarning[] => {
@@ -123,6 +123,7 @@ export function comparisonWarnings(
   if (filters.maxZenithDeg !== DEFAULT_FILTERS.maxZenithDeg) changed.push(`zenith limit ${filters.maxZenithDeg}° instead of ${DEFAULT_FILTERS.maxZenithDeg}°`);
   if (filters.sunMaxDeg !== DEFAULT_FILTERS.sunMaxDeg) changed.push(`sun limit ${filters.sunMaxDeg}° instead of ${DEFAULT_FILTERS.sunMaxDeg}°`);
   if (filters.minFlux !== DEFAULT_FILTERS.minFlux) changed.push(`flux minimum ${String(filters.minFlux)} instead of ${DEFAULT_FILTERS.minFlux === null ? 'none' : String(DEFAULT_FILTERS.minFlux)}`);
+  if (filters.leaveOutAnisotropic === false) changed.push('anisotropic samples kept instead of left out');
   if (changed.length > 0) {
     general.push({
       code: 'non_standard_filters',

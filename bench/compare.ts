@@ -1,0 +1,167 @@
+// Benchmark of the site comparison (issue 10): four invented ridges with `rows` stored samples each, through the
+// upload API of a real server process; then a fresh server process on the same data answers
+// GET /api/comparisons for the four: cold (first call: columns loaded from SQLite, sorted, everything computed),
+// warm (the same comparison again, median of 5: the server keeps finished comparisons until data changes) and
+// recomputed (columns in memory but a comparison not asked before: another outer scale each time, median of 3).
+// Run through bench/run.ts (`npm run bench -- --only compare`).
+import { spawn, type ChildProcess } from "node:child_process";
+import { existsSync, mkdirSync, mkdtempSync, openAsBlob, rmSync, statSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
+import { median } from "./childProcess.ts";
+import { freePort, peakRssMb, waitForHealth } from "./ingest.ts";
+
+const root = join(dirname(fileURLToPath(import.meta.url)), "..");
+const serverDir = join(root, "apps/server");
+const PASSWORD = "bench-password-1";
+const MONITOR = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: "z-tilt" as const };
+// Four invented ridges a few kilometres apart (same night sky, so their logs share nights), different seeing.
+const RIDGES = [
+  { name: "Bench Ridge A", latitudeDeg: -27.42, longitudeDeg: -70.15, elevationM: 2650, medianSeeingArcsec: 0.68, seed: 20_261_001 },
+  { name: "Bench Ridge B", latitudeDeg: -27.48, longitudeDeg: -70.21, elevationM: 2580, medianSeeingArcsec: 0.75, seed: 20_261_002 },
+  { name: "Bench Ridge C", latitudeDeg: -27.36, longitudeDeg: -70.09, elevationM: 2710, medianSeeingArcsec: 0.82, seed: 20_261_003 },
+  { name: "Bench Ridge D", latitudeDeg: -27.53, longitudeDeg: -70.02, elevationM: 2490, medianSeeingArcsec: 0.9, seed: 20_261_004 },
+];
+
+/** A ridge's seeded log with `rows` rows (written once under bench/out, then reused). */
+async function ridgeLog(ridge: (typeof RIDGES)[number], rows: number): Promise<string> {
+  const outDir = join(root, "bench", "out");
+  mkdirSync(outDir, { recursive: true });
+  const path = join(outDir, `compare-${rows}-rows-seed-${ridge.seed}.csv`);
+  if (existsSync(path) && statSync(path).size > 0) return path;
+  const nights = Math.ceil(rows / 300) + 30;
+  await writeSyntheticLog(path, {
+    seed: ridge.seed,
+    site: { latitudeDeg: ridge.latitudeDeg, longitudeDeg: ridge.longitudeDeg, elevationM: ridge.elevationM },
+    startDate: "2018-01-01",
+    nights,
+    medianSeeingArcsec: ridge.medianSeeingArcsec,
+    monitor: MONITOR,
+    maxRows: rows,
+  });
+  return path;
+}
+
+function startServer(dataDir: string, port: number): ChildProcess {
+  // One node process (tsx as a loader), so its /proc status is the server's own memory.
+  return spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+    cwd: serverDir,
+    env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
+}
+
+async function stopServer(server: ChildProcess): Promise<void> {
+  if (server.exitCode !== null) return;
+  const exited = new Promise((resolve) => server.once("exit", resolve));
+  server.kill("SIGTERM");
+  await exited;
+}
+
+async function signIn(base: string): Promise<Record<string, string>> {
+  const response = await fetch(`${base}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { Origin: base, "Content-Type": "application/json" },
+    body: JSON.stringify({ email: "lead@calmcrest.test", password: PASSWORD }),
+  });
+  if (!response.ok) throw new Error(`sign-in failed: ${response.status}`);
+  return { Origin: base, Cookie: (response.headers.get("set-cookie") ?? "").split(";")[0] ?? "" };
+}
+
+/** Creates the four ridges with a campaign each and uploads their logs; returns the site ids and samples stored. */
+async function loadRidges(base: string, rows: number): Promise<{ siteIds: number[]; stored: number }> {
+  const headers = await signIn(base);
+  const json = async (path: string, body: unknown) => {
+    const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
+    if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
+    return (await response.json()) as { id: number };
+  };
+  const siteIds: number[] = [];
+  let stored = 0;
+  for (const ridge of RIDGES) {
+    const logPath = await ridgeLog(ridge, rows);
+    const site = await json("/api/sites", { name: ridge.name, latitude: ridge.latitudeDeg, longitude: ridge.longitudeDeg, elevationM: ridge.elevationM });
+    const campaign = await json(`/api/sites/${site.id}/campaigns`, { name: `${ridge.name} mast`, monitor: MONITOR });
+    const form = new FormData();
+    form.append("file", await openAsBlob(logPath), `${ridge.name}.csv`);
+    const posted = await fetch(`${base}/api/campaigns/${campaign.id}/uploads`, { method: "POST", headers, body: form });
+    if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
+    const { upload } = (await posted.json()) as { upload: { id: number } };
+    for (;;) {
+      const status = (await (await fetch(`${base}/api/uploads/${upload.id}`, { headers })).json()) as { status: string; samples: { accepted: number }; error: string | null };
+      if (status.status === "done") {
+        stored += status.samples.accepted;
+        break;
+      }
+      if (status.status !== "queued" && status.status !== "ingesting") throw new Error(`ingest ended ${status.status}: ${status.error ?? ""}`);
+      await new Promise((resolve) => setTimeout(resolve, 50));
+    }
+    siteIds.push(site.id);
+  }
+  return { siteIds, stored };
+}
+
+export async function run({ rows }: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
+  const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-compare-"));
+  try {
+    const loadPort = await freePort();
+    const loader = startServer(dataDir, loadPort);
+    let loaded: { siteIds: number[]; stored: number };
+    try {
+      await waitForHealth(`http://127.0.0.1:${loadPort}`, loader, 60_000);
+      loaded = await loadRidges(`http://127.0.0.1:${loadPort}`, rows);
+    } finally {
+      await stopServer(loader);
+    }
+
+    // A fresh process on the same data: nothing of the samples is in memory yet.
+    const port = await freePort();
+    const base = `http://127.0.0.1:${port}`;
+    const server = startServer(dataDir, port);
+    try {
+      await waitForHealth(base, server, 60_000);
+      const headers = await signIn(base);
+      let commonNights = 0;
+      let verdicts = "";
+      const compareMs = async (extra = "") => {
+        const begin = performance.now();
+        const response = await fetch(`${base}/api/comparisons?sites=${loaded.siteIds.join(",")}${extra}`, { headers });
+        if (!response.ok) throw new Error(`comparison: ${response.status} ${await response.text()}`);
+        const body = (await response.json()) as { pairs: { paired: { commonNights: number; verdict: string | null } | null }[] };
+        const elapsedMs = performance.now() - begin;
+        commonNights = Math.min(...body.pairs.map((pair) => pair.paired?.commonNights ?? 0));
+        verdicts = body.pairs.map((pair) => pair.paired?.verdict ?? "none").join(",");
+        return elapsedMs;
+      };
+      const coldMs = await compareMs();
+      const warm: number[] = [];
+      for (let index = 0; index < 5; index += 1) warm.push(await compareMs());
+      const recomputed: number[] = [];
+      for (const outerScaleM of [26, 27, 28]) recomputed.push(await compareMs(`&outerScaleM=${outerScaleM}`));
+      return {
+        sites: RIDGES.length,
+        storedSamplesPerSite: Math.round(loaded.stored / RIDGES.length),
+        storedSamplesTotal: loaded.stored,
+        fewestCommonNights: commonNights,
+        verdicts,
+        comparisonColdMs: Math.round(coldMs),
+        comparisonWarmMedianMs: Math.round(median(warm)),
+        comparisonRecomputedMedianMs: Math.round(median(recomputed)),
+        serverPeakRssMb: Math.round(peakRssMb(server.pid ?? 0)),
+        runAt: new Date().toISOString(),
+      };
+    } finally {
+      await stopServer(server);
+    }
+  } finally {
+    rmSync(dataDir, { recursive: true, force: true });
+  }
+}
+
+// Run alone: node_modules/.bin/tsx bench/compare.ts [rows]
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  const rows = Number(process.argv[2] ?? 1_000_000);
+  console.log(await run({ rows }));
+}

@@ -1,7 +1,8 @@
 import { useMemo } from "react";
 import { keepPreviousData, useQuery, useSuspenseQuery } from "@tanstack/react-query";
-import { useNavigate, useSearchParams } from "react-router-dom";
+import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import type { ComparisonResponse, SiteListItem } from "@calmcrest/contracts";
+import { meQuery } from "../api/auth";
 import { comparisonQuery } from "../api/comparisons";
 import { configQuery } from "../api/sites";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
@@ -125,6 +126,8 @@ export function ComparePage() {
   const ready = selection.ids.length >= 2;
   const comparison = useQuery({ ...comparisonQuery(comparisonQueryString(selection, filters)), enabled: ready, placeholderData: keepPreviousData });
   const apply = (next: CompareSelection) => setSearchParams(paramsWithSelection(searchParams, next));
+  const { data: me } = useSuspenseQuery(meQuery);
+  const writesReports = me?.role === "lead" || me?.role === "admin";
   const pickerKey = [selection.kind, selection.ids.join(","), selection.apertureM, selection.bandNm, selection.outerScaleM, selection.pairing].join("|");
 
   return (
@@ -158,6 +161,14 @@ export function ComparePage() {
             {comparison.isFetching ? (
               <p role="status" className="text-sm text-ink-soft">
                 Updating the comparison for the new settings…
+              </p>
+            ) : null}
+            {writesReports ? (
+              <p>
+                <Link to={`/reports?${comparisonQueryString(selection, filters)}`} className="font-semibold text-accent underline">
+                  Write a report from this comparison
+                </Link>{" "}
+                <span className="text-sm text-ink-soft">(a draft for the committee; its numbers are frozen when you publish it)</span>
               </p>
             ) : null}
             <Results comparison={comparison.data} stale={comparison.isPlaceholderData} />

@@ -1,21 +1,10 @@
-import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { ComparisonResponse, ComparisonRow } from "@calmcrest/contracts";
 import { formatArcsec, formatNumber, formatPercent } from "../../lib/format";
-import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, ChartFrame } from "../charts/chart-frame";
+import { MonthlyMediansChart, OverlaidCdfChart, SeriesLegend } from "../compare/compare-charts";
 
 // The frozen comparison of a report version: one table row per site (or campaign), the paired verdicts in words,
-// and two charts, all drawn from the stored numbers only (never recomputed).
-
-/** Lines told apart without colour: each row gets its own dash pattern and marker as well. */
-const LINE_STYLES = [
-  { colour: "#1f6f78", dash: undefined, marker: "circle" },
-  { colour: "#8a4b00", dash: "8 4", marker: "square" },
-  { colour: "#5b3f8c", dash: "2 3", marker: "diamond" },
-  { colour: "#2d6a2f", dash: "12 4 2 4", marker: "triangle" },
-  { colour: "#a3262a", dash: "4 4", marker: "cross" },
-  { colour: "#1c2733", dash: "1 5", marker: "star" },
-] as const;
-const styleOf = (index: number) => LINE_STYLES[index % LINE_STYLES.length] ?? LINE_STYLES[0];
+// and the Compare page's two overlaid charts (same line styles as there), all drawn from the stored numbers only
+// (never recomputed). The table is this module's own: fewer columns than the Compare page's, so it fits an A4 page.
 
 function interval(ci: [number, number] | null | undefined): string {
   return ci ? `${ci[0].toFixed(2)}–${ci[1].toFixed(2)}″` : "none (too few nights)";
@@ -89,94 +78,6 @@ export function ComparisonTable({ comparison }: { comparison: ComparisonResponse
   );
 }
 
-function CumulativeOverlay({ comparison }: { comparison: ComparisonResponse }) {
-  const series = comparison.rows.filter((row) => row.statistics);
-  return (
-    <ChartFrame
-      title="Share of time at or below a seeing value"
-      caption="One line per row (each with its own dash pattern and marker): read across from a seeing value to the share of the observed time that was at least that good. A line further left is the sharper site."
-    >
-      <ResponsiveContainer width="100%" height="100%">
-        <LineChart margin={{ top: 8, right: 16, bottom: 28, left: 8 }}>
-          <CartesianGrid stroke={CHART_COLOURS.grid} />
-          <XAxis
-            type="number"
-            dataKey="seeingArcsec"
-            domain={[0, "auto"]}
-            tick={AXIS_TICK}
-            tickFormatter={(value: number) => value.toFixed(1)}
-            label={{ value: "Seeing at zenith, 500 nm (arcsec)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }}
-            allowDuplicatedCategory={false}
-          />
-          <YAxis type="number" domain={[0, 1]} tick={AXIS_TICK} width={48} tickFormatter={(value: number) => `${Math.round(value * 100)} %`} />
-          <Tooltip formatter={(value) => (typeof value === "number" ? `${(value * 100).toFixed(0)} %` : String(value))} labelFormatter={(label) => `${Number(label).toFixed(2)}″`} />
-          <Legend verticalAlign="top" height={28} />
-          {series.map((row, index) => {
-            const style = styleOf(index);
-            return (
-              <Line
-                key={row.key}
-                data={row.statistics?.cdf ?? []}
-                dataKey="fraction"
-                name={row.label}
-                type="monotone"
-                stroke={style.colour}
-                strokeDasharray={style.dash}
-                strokeWidth={2}
-                dot={false}
-                legendType={style.marker}
-                isAnimationActive={false}
-              />
-            );
-          })}
-        </LineChart>
-      </ResponsiveContainer>
-    </ChartFrame>
-  );
-}
-
-function MonthlyOverlay({ comparison }: { comparison: ComparisonResponse }) {
-  const months = unique(comparison.rows.flatMap((row) => row.statistics?.monthly.map((month) => month.month) ?? [])).sort();
-  const data = months.map((month) => {
-    const point: Record<string, number | string | null> = { month };
-    for (const row of comparison.rows) point[row.key] = row.statistics?.monthly.find((entry) => entry.month === month)?.median ?? null;
-    return point;
-  });
-  return (
-    <ChartFrame
-      title="Median seeing by month"
-      caption="Monthly median seeing of each row (markers and dash patterns tell them apart). A gap means no sample that month; months observed at only one site are not a like-for-like comparison."
-    >
-      <ResponsiveContainer width="100%" height="100%">
-        <LineChart data={data} margin={{ top: 8, right: 16, bottom: 28, left: 8 }}>
-          <CartesianGrid stroke={CHART_COLOURS.grid} />
-          <XAxis dataKey="month" tick={AXIS_TICK} interval="preserveStartEnd" minTickGap={12} label={{ value: "Month (night date)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }} />
-          <YAxis tick={AXIS_TICK} width={48} domain={["auto", "auto"]} tickFormatter={(value: number) => `${value.toFixed(2)}″`} />
-          <Tooltip formatter={(value) => (typeof value === "number" ? `${value.toFixed(2)}″` : "no data")} />
-          <Legend verticalAlign="top" height={28} />
-          {comparison.rows.map((row, index) => {
-            const style = styleOf(index);
-            return (
-              <Line
-                key={row.key}
-                dataKey={row.key}
-                name={row.label}
-                stroke={style.colour}
-                strokeDasharray={style.dash}
-                strokeWidth={2}
-                connectNulls={false}
-                dot={{ r: 3 }}
-                legendType={style.marker}
-                isAnimationActive={false}
-              />
-            );
-          })}
-        </LineChart>
-      </ResponsiveContainer>
-    </ChartFrame>
-  );
-}
-
 /** How the frozen numbers were made: window, filters, coefficient sets, telescope, warnings, pairs. */
 function Settings({ comparison }: { comparison: ComparisonResponse }) {
   const window = comparison.window.from || comparison.window.to ? `${comparison.window.from ?? "first sample"} to ${comparison.window.to ?? "last sample"}` : "every stored night";
@@ -221,9 +122,12 @@ export function ComparisonView({ comparison }: { comparison: ComparisonResponse 
           </ul>
         </div>
       ) : null}
-      <div className="report-charts grid gap-4 lg:grid-cols-2">
-        <CumulativeOverlay comparison={comparison} />
-        <MonthlyOverlay comparison={comparison} />
+      <div className="report-charts space-y-3">
+        <SeriesLegend rows={comparison.rows} />
+        <div className="grid gap-4 lg:grid-cols-2">
+          <OverlaidCdfChart rows={comparison.rows} />
+          <MonthlyMediansChart rows={comparison.rows} />
+        </div>
       </div>
       <div className="rounded-lg border border-line bg-panel p-4">
         <h3 className="font-semibold">How these numbers were made</h3>

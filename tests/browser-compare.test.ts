@@ -23,7 +23,12 @@ afterAll(async () => {
 });
 
 /** How far the page itself scrolls sideways (0: nothing sticks out; tables scroll in their own box). */
-const sidewaysOverflowPx = () => browser.page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+const sidewaysOverflowPx = () =>
+  browser.page.evaluate(() => {
+    // Typed without the DOM library (the tests' tsconfig has Node types only).
+    const root = (globalThis as unknown as { document: { documentElement: { scrollWidth: number; clientWidth: number } } }).document.documentElement;
+    return root.scrollWidth - root.clientWidth;
+  });
 
 describe("the Compare page in a browser", () => {
   it("lets the survey lead compare the four demo ridges and read the paired verdicts in words", async () => {

@@ -81,4 +81,16 @@ describe("FilterPanel", () => {
     renderAt("/sites/3?minFlux=lots");
     expect(screen.getByRole("alert").textContent).toContain("minFlux");
   });
+
+  it("keeps anisotropic samples only when the switch is ticked, and reads the switch from the address", () => {
+    renderAt("/sites/3");
+    const keep = screen.getByRole("checkbox", { name: /Keep anisotropic samples/ }) as HTMLInputElement;
+    expect(keep.checked).toBe(false);
+    fireEvent.click(keep);
+    fireEvent.click(screen.getByRole("button", { name: "Apply" }));
+    expect(screen.getByTestId("address").textContent).toBe("keepAnisotropic=true");
+    cleanup();
+    renderAt("/sites/3?keepAnisotropic=true");
+    expect((screen.getByRole("checkbox", { name: /Keep anisotropic samples/ }) as HTMLInputElement).checked).toBe(true);
+  });
 });

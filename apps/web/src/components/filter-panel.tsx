@@ -1,13 +1,13 @@
 import { useState, type FormEvent } from "react";
 import { useSearchParams } from "react-router-dom";
 import { summaryQuerySchema, type SummaryQuery } from "@calmcrest/contracts";
-import { DEFAULT_FILTERS } from "@calmcrest/seeing-stats";
+import { DEFAULT_ANISOTROPY_RATIO_LIMIT, DEFAULT_FILTERS } from "@calmcrest/seeing-stats";
 import { FILTER_PARAM_NAMES, filtersFromParams, hasFilters, paramsWithFilters, type FilterParamName } from "../lib/filter-params";
 
 type Draft = Record<FilterParamName, string>;
 
 // Placeholders show the engine's defaults (what applies when a field is left empty).
-const FIELDS: { name: FilterParamName; label: string; unit?: string; type: "date" | "number"; placeholder?: string; help: string; step?: string }[] = [
+const FIELDS: { name: Exclude<FilterParamName, "keepAnisotropic">; label: string; unit?: string; type: "date" | "number"; placeholder?: string; help: string; step?: string }[] = [
   { name: "from", label: "From", type: "date", help: "First night included (UTC date)." },
   { name: "to", label: "To", type: "date", help: "Last day included (UTC date)." },
   { name: "maxZenithDeg", label: "Zenith limit", unit: "°", type: "number", placeholder: String(DEFAULT_FILTERS.maxZenithDeg), help: "Samples pointed further from the zenith are set aside.", step: "any" },
@@ -57,7 +57,9 @@ function FilterForm({ filters, linkProblems, onApply }: { filters: SummaryQuery;
         <h2 id="filters-heading" className="text-lg font-semibold">
           Date window and filters
         </h2>
-        <p className="text-sm text-ink-soft">{hasFilters(filters) ? "Figures below use these settings." : "Showing all dates with the standard filters (zenith 60°, sun −18°)."}</p>
+        <p className="text-sm text-ink-soft">
+          {hasFilters(filters) ? "Figures below use these settings." : "Showing all dates with the standard filters (zenith 60°, sun −18°, anisotropic samples left out)."}
+        </p>
       </div>
       {linkProblems.length > 0 ? (
         <ul role="alert" className="mb-3 rounded-md bg-warn-pale px-3 py-2 text-sm text-warn">
@@ -93,6 +95,23 @@ function FilterForm({ filters, linkProblems, onApply }: { filters: SummaryQuery;
             </div>
           );
         })}
+      </div>
+      <div className="mt-3">
+        <label className="inline-flex items-start gap-2 text-sm">
+          <input
+            type="checkbox"
+            className="mt-1"
+            checked={draft.keepAnisotropic === "true"}
+            onChange={(event) => setDraft({ ...draft, keepAnisotropic: event.target.checked ? "true" : "" })}
+            aria-describedby="filter-keepAnisotropic-help"
+          />
+          <span>
+            <span className="font-semibold">Keep anisotropic samples</span>
+            <span id="filter-keepAnisotropic-help" className="block text-xs text-ink-soft">
+              Samples whose longitudinal and transverse seeing differ by more than a ratio of {DEFAULT_ANISOTROPY_RATIO_LIMIT} (a wind-shaken monitor) are set aside unless this is ticked.
+            </span>
+          </span>
+        </label>
       </div>
       <div className="mt-3 flex flex-wrap gap-2">
         <button type="submit" className="rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong">

@@ -1,5 +1,6 @@
 import type { SummaryResponse } from "@calmcrest/contracts";
 import { formatArcsec, formatNumber, formatPercent, reasonLabel } from "../lib/format";
+import { SummaryWarnings } from "./summary-details";
 
 function Figure({ label, value, detail }: { label: string; value: string; detail?: string }) {
   return (
@@ -16,14 +17,13 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
   const { samples } = summary;
   if (samples.read === 0 && summary.empty) return null;
   const reasons = Object.entries(samples.rejectedByReason).filter(([, count]) => (count ?? 0) > 0);
-  // Seeing measured 2 m and 20 m above a ridge differs a lot: say so when a site pools monitors at different heights.
-  const heights = [...new Set(summary.campaigns.map((campaign) => campaign.heightAboveGroundM))];
   const wavelengths = [...new Set(summary.campaigns.map((campaign) => campaign.wavelengthNm))];
   return (
     <section aria-labelledby="figures-heading" className="space-y-3">
       <h2 id="figures-heading" className="text-lg font-semibold">
         Headline figures <span className="text-sm font-normal text-ink-soft">at zenith, 500 nm</span>
       </h2>
+      {summary.empty ? null : <SummaryWarnings warnings={summary.warnings} />}
       {summary.empty ? null : (
         <dl className="grid grid-cols-2 gap-3 md:grid-cols-3 xl:grid-cols-6" data-testid="headline-figures">
           <Figure
@@ -52,12 +52,6 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
           </span>
         ))}
         {reasons.length > 0 ? "." : ""}
-        {heights.length > 1 ? (
-          <span className="mt-2 block rounded-md bg-warn-pale px-3 py-2 text-warn" role="note">
-            The campaigns of this site have monitors at different heights above the ground (
-            {heights.map((height) => (height === null ? "not recorded" : `${height} m`)).join(", ")}), and these figures pool them; a lower monitor sees more ground-layer turbulence. Open each campaign for its own figures.
-          </span>
-        ) : null}
         {wavelengths.length > 1 ? ` Campaigns measured at ${wavelengths.join(" and ")} nm; all figures are scaled to 500 nm.` : null}
         {summary.includesIngestRejections ? " Rows rejected while reading the files are included." : " Rows rejected while reading the files are not included when a date window is set (they have no usable time)."}
       </p>

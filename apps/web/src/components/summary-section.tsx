@@ -4,6 +4,7 @@ import type { Scope } from "../api/samples";
 import { ApiError } from "../api/client";
 import { Notice } from "./page";
 import { SeeingCharts } from "./seeing-charts";
+import { BalancedFigures, GroupFigures, SeasonsTable, TurbulenceFigures } from "./summary-details";
 import { SummaryFigures } from "./summary-figures";
 
 /**
@@ -49,7 +50,13 @@ export function SummarySection({
           {noData ? noDataText : nothingPassesText}
         </Notice>
       ) : (
-        <SeeingCharts scope={scope} filters={filters} summary={data} />
+        <>
+          <GroupFigures summary={data} />
+          <BalancedFigures summary={data} />
+          <SeasonsTable summary={data} />
+          <TurbulenceFigures summary={data} />
+          <SeeingCharts scope={scope} filters={filters} summary={data} />
+        </>
       )}
     </div>
   );

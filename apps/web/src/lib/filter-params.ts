@@ -1,7 +1,7 @@
 import { summaryQuerySchema, type SummaryQuery } from "@calmcrest/contracts";
 
 /** The summary filters as they appear in the page address, so a filtered view can be bookmarked and shared. */
-export const FILTER_PARAM_NAMES = ["from", "to", "maxZenithDeg", "sunMaxDeg", "minFlux"] as const;
+export const FILTER_PARAM_NAMES = ["from", "to", "maxZenithDeg", "sunMaxDeg", "minFlux", "keepAnisotropic"] as const;
 export type FilterParamName = (typeof FILTER_PARAM_NAMES)[number];
 
 /**

@@ -3,7 +3,7 @@ import type { ReactNode } from "react";
 /** Every chart sits in a figure with a title and a plain-words caption saying what it shows. */
 export function ChartFrame({ title, caption, children, actions }: { title: string; caption: ReactNode; children: ReactNode; actions?: ReactNode }) {
   return (
-    <figure className="flex flex-col rounded-lg border border-line bg-panel p-4">
+    <figure className="flex min-w-0 flex-col rounded-lg border border-line bg-panel p-4">
       <div className="mb-2 flex flex-wrap items-start justify-between gap-2">
         <h3 className="font-semibold">{title}</h3>
         {actions}

@@ -1,6 +1,7 @@
 import type { AppDatabase } from "./db/database.server";
 import type { AppLucia } from "./auth/lucia.server";
 import type { SessionAdapter } from "./auth/session-adapter.server";
+import type { SignInGuard } from "./auth/sign-in-guard.server";
 import type { Env } from "./env.server";
 import type { IngestQueue } from "./ingest/ingest-queue.server";
 import type { MailSender } from "./mail/sender.server";
@@ -15,6 +16,8 @@ export interface AppContext {
   lucia: AppLucia;
   /** Lucia's session storage (deferred writes while an ingest holds the write lock). */
   sessionStore: SessionAdapter;
+  /** Sign-in rate limits and the sign-in audit writes still landing. */
+  signInGuard: SignInGuard;
   /** Every query and write of the application tables (routes -> store -> engine). */
   store: Store;
   /** Background ingest of stored uploads, one at a time. */

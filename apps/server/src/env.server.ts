@@ -36,6 +36,10 @@ const envSchema = z.object({
     .optional(),
   /** The From address of Calmcrest's e-mail. */
   CALMCREST_MAIL_FROM: z.string().min(3).default("Calmcrest <calmcrest@localhost>"),
+  /** Sign-in protection: failed sign-ins allowed per account and per client address within the window. */
+  CALMCREST_SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
+  CALMCREST_SIGNIN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(20),
+  CALMCREST_SIGNIN_WINDOW_S: z.coerce.number().int().min(1).default(900),
   /** Largest accepted upload. */
   CALMCREST_MAX_UPLOAD_MB: z.coerce.number().positive().default(256),
 });

@@ -3,6 +3,7 @@ import { createApp } from "./app";
 import { createLucia } from "./auth/lucia.server";
 import { prepareSignInCheck } from "./auth/passwords.server";
 import { SessionAdapter } from "./auth/session-adapter.server";
+import { SignInGuard } from "./auth/sign-in-guard.server";
 import type { AppContext } from "./context";
 import { openDatabase } from "./db/database.server";
 import type { Env } from "./env.server";
@@ -45,11 +46,17 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
   const sessionStore = new SessionAdapter(db.file, (write) => gate.withSlot(write));
   const mail = startMail(env, store, options.mailTransport ? { transport: options.mailTransport } : {});
   const lucia = createLucia(sessionStore, { secureCookies: env.NODE_ENV === "production" });
+  const signInGuard = new SignInGuard({
+    maxFailuresPerAccount: env.CALMCREST_SIGNIN_MAX_FAILURES,
+    maxFailuresPerAddress: env.CALMCREST_SIGNIN_MAX_FAILURES_PER_ADDRESS,
+    windowMs: env.CALMCREST_SIGNIN_WINDOW_S * 1000,
+  }, Date.now, () => sessionStore.settled());
   const context: AppContext = {
     env,
     db,
     lucia,
     sessionStore,
+    signInGuard,
     store,
     ingest,
     samples,
@@ -57,7 +64,7 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
     summaries,
     close: () => {
       // Idempotent: a test may close a context early (a simulated restart) and again in afterAll.
-      closing ??= Promise.all([ingest.stop(), mail.stop(), summaries.close()]).then(() => {
+      closing ??= signInGuard.settled().then(() => Promise.all([ingest.stop(), mail.stop(), summaries.close()])).then(() => {
         sessionStore.close();
         return db.close();
       });

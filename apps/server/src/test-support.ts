@@ -42,6 +42,8 @@ export async function createTestServer(
     DEMO_PASSWORD: DEMO_PASSWORD_FOR_TESTS,
     ...(options.seed === null ? {} : { CALMCREST_SEED: options.seed ?? "users" }),
     ...(options.publicUrl === null ? {} : { CALMCREST_PUBLIC_URL: options.publicUrl ?? TEST_PUBLIC_URL }),
+    // Every supertest request comes from the same address: only the tests of the limit itself keep it low.
+    CALMCREST_SIGNIN_MAX_FAILURES_PER_ADDRESS: "1000",
     ...options.env,
   });
   const context: AppContext = await createContext(env, options.mailTransport ? { mailTransport: options.mailTransport } : {});

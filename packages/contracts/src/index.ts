@@ -13,3 +13,5 @@ export * from "./comparisons";
 export * from "./outbox";
 export * from "./markdown";
 export * from "./reports";
+export * from "./audit";
+export * from "./passwords";

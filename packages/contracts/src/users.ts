@@ -1,19 +1,31 @@
 import { z } from "zod";
+import type { AccountStatus, AuditListItem } from "./audit";
 import { ROLES, type Role } from "./auth";
+import { checkPasswordRules, passwordField } from "./passwords";
 
-/** Body of `POST /api/users` (admin). */
-export const createUserSchema = z.object({
-  // People type e-mail in any case; accounts are stored lower-case.
-  email: z.string().trim().toLowerCase().email("Enter a valid e-mail address."),
-  name: z.string().trim().min(1, "Enter the person's name.").max(120),
-  role: z.enum(ROLES, { error: "role must be admin, lead, engineer or committee." }),
-  password: z.string().min(10, "The first password needs at least 10 characters.").max(200),
-});
+const emailField = z.string().trim().toLowerCase().email("Enter a valid e-mail address.");
+const nameField = z.string().trim().min(1, "Enter the person's name.").max(120, "Keep the name under 120 characters.");
+const roleField = z.enum(ROLES, { error: "role must be admin, lead, engineer or committee." });
+
+/** Body of `POST /api/users` (admin): an account with a first password typed by the administrator. */
+export const createUserSchema = z
+  .object({
+    // People type e-mail in any case; accounts are stored lower-case.
+    email: emailField,
+    name: nameField,
+    role: roleField,
+    password: passwordField,
+  })
+  .superRefine(checkPasswordRules);
 export type CreateUserInput = z.infer<typeof createUserSchema>;
 
-/** Body of `PATCH /api/users/:id` (admin). */
-export const patchUserSchema = z.object({ role: z.enum(ROLES, { error: "role must be admin, lead, engineer or committee." }) });
+/** Body of `PATCH /api/users/:id` (admin). `undo` marks the change as the undo of the one just made. */
+export const patchUserSchema = z.object({ role: roleField, undo: z.boolean().optional() });
 export type PatchUserInput = z.infer<typeof patchUserSchema>;
+
+/** Body of `POST /api/users/:id/email` (admin). */
+export const changeEmailSchema = z.object({ email: emailField });
+export type ChangeEmailInput = z.infer<typeof changeEmailSchema>;
 
 /** One row of `GET /api/users` (admin). */
 export interface UserListItem {
@@ -21,7 +33,34 @@ export interface UserListItem {
   email: string;
   name: string;
   role: Role;
+  /** invited: has not chosen a password yet; deactivated: cannot sign in (kept, never deleted). */
+  status: AccountStatus;
   createdAt: string;
+  /** The last successful sign-in, or null. */
+  lastSignInAt: string | null;
   /** Campaigns this user is a member of. */
   campaigns: { id: number; name: string; siteName: string }[];
+}
+
+/** `GET /api/users/:id` (admin): one person's page. */
+export interface UserDetail extends UserListItem {
+  /** The person's own latest actions, newest first. */
+  recentActions: AuditListItem[];
+  /** Whether this person is the last active administrator (cannot be demoted or deactivated). */
+  lastActiveAdmin: boolean;
+}
+
+/** What each role may do, as short plain phrases (the role-change confirmation lists what is gained and lost). */
+export const ROLE_ABILITIES: Record<Role, readonly string[]> = {
+  admin: ["read every site and campaign", "manage people, roles and campaign access", "read the audit log", "read reports"],
+  lead: ["read every site and campaign", "create and change sites and campaigns", "upload logs to every campaign", "exclude time windows", "read reports"],
+  engineer: ["read the sites of their own campaigns", "upload logs to their own campaigns", "exclude time windows in their own campaigns"],
+  committee: ["read reports"],
+};
+
+/** What a person gains and loses when their role changes from `from` to `to`. */
+export function roleChangeEffects(from: Role, to: Role): { gains: string[]; loses: string[] } {
+  const before = new Set(ROLE_ABILITIES[from]);
+  const after = new Set(ROLE_ABILITIES[to]);
+  return { gains: [...after].filter((ability) => !before.has(ability)), loses: [...before].filter((ability) => !after.has(ability)) };
 }

@@ -1,6 +1,6 @@
 import { createHash } from "node:crypto";
 import { generateIdFromEntropySize, Lucia, TimeSpan, type Session } from "lucia";
-import type { Role } from "@calmcrest/contracts";
+import type { AccountStatus, Role } from "@calmcrest/contracts";
 import type { SessionAdapter } from "./session-adapter.server";
 
 export function createLucia(adapter: SessionAdapter, { secureCookies }: { secureCookies: boolean }) {
@@ -15,6 +15,7 @@ export function createLucia(adapter: SessionAdapter, { secureCookies }: { secure
       email: attributes.email,
       name: attributes.name,
       role: attributes.role,
+      status: attributes.status,
     }),
   });
 }
@@ -40,6 +41,6 @@ export async function startSession(lucia: AppLucia, userId: string): Promise<{ t
 declare module "lucia" {
   interface Register {
     Lucia: AppLucia;
-    DatabaseUserAttributes: { email: string; name: string; role: Role };
+    DatabaseUserAttributes: { email: string; name: string; role: Role; status: AccountStatus };
   }
 }

@@ -62,7 +62,10 @@ export function loadSession(lucia: AppLucia): RequestHandler {
     const token = lucia.readSessionCookie(req.headers.cookie ?? "");
     if (!token) return next();
     try {
-      const { session, user } = await lucia.validateSession(sessionIdOf(token));
+      const validated = await lucia.validateSession(sessionIdOf(token));
+      // A deactivated account's sessions are ended when it is deactivated; this check also covers a session write
+      // still waiting for the write lock at that moment.
+      const { session, user } = validated.user && validated.user.status !== "active" ? { session: null, user: null } : validated;
       if (session?.fresh) res.append("Set-Cookie", lucia.createSessionCookie(token).serialize());
       if (!session) res.append("Set-Cookie", lucia.createBlankSessionCookie().serialize());
       res.locals.user = user;

@@ -13,7 +13,8 @@ import { retryDelayMs } from "../store/outbox";
 async function writeWithMail(context: AppContext, to: string, options: { fail?: boolean } = {}) {
   const parts = composeMail({ heading: `Hello ${to}`, paragraphs: ["A test message."], links: [{ label: "Open Calmcrest", url: "http://calmcrest.test/reports" }], footer: "You get this because it is a test." });
   return context.store.write(async ({ trx, audit }) => {
-    await audit({ userId: null, action: "test.mail", targetType: "user", targetId: to });
+    // Any audited change will do; the audit vocabulary is fixed (packages/contracts/src/audit.ts).
+    await audit({ userId: null, action: "user.mail-preferences", targetType: "user", targetId: to, details: { commentEmails: true } });
     await queueMail(trx, { kind: "invitation", to, subject: `Subject for ${to}`, ...parts });
     if (options.fail) throw new Error("the change failed after queueing its message");
   });

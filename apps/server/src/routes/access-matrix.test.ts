@@ -35,6 +35,9 @@ await admin.post(`/api/campaigns/${mine.id}/members`).set(SAME_ORIGIN).send({ us
 const secondSite = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ name: "Matrix Spur", latitude: -25.1, longitude: -68.2, elevationM: 3900 })).body as SiteDetail;
 const secondMine = (await lead.post(`/api/sites/${secondSite.id}/campaigns`).set(SAME_ORIGIN).send({ name: "Mine too", monitor })).body as CampaignDetail;
 await admin.post(`/api/campaigns/${secondMine.id}/members`).set(SAME_ORIGIN).send({ userId: engineerId });
+/** An account the account routes act on, so the demo agents keep their roles and sessions. */
+const spare = (await admin.post("/api/users").set(SAME_ORIGIN).send({ email: "spare@calmcrest.test", name: "Spare Person", role: "committee", password: "quartz-meadow-falcon-3" })).body as { id: string };
+let spareRole: "committee" | "lead" = "committee";
 
 let fileCounter = 0;
 /** A small readable log, different bytes each time (so no upload is a duplicate of another). */
@@ -85,7 +88,8 @@ const cases: RouteCase[] = [
   {
     // A wrong password: a successful sign-in would replace the agent's session.
     route: "POST /api/auth/sign-in",
-    send: (r) => as(r).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "lead@calmcrest.test", password: "not-the-password" }),
+    // An e-mail no agent uses: five failures put it under the sign-in limit.
+    send: (r) => as(r).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "matrix-nobody@calmcrest.test", password: "not-the-password" }),
     ok: 401,
   },
   {
@@ -234,8 +238,66 @@ const cases: RouteCase[] = [
   { route: "PATCH /api/comments/:id", send: async (r) => as(r).patch(`/api/comments/${await ownComment(r)}`).set(SAME_ORIGIN).send({ action: "withdraw" }), ok: 200 },
   { route: "GET /api/me/preferences", send: (r) => as(r).get("/api/me/preferences"), ok: 200 },
   { route: "PATCH /api/me/preferences", send: (r) => as(r).patch("/api/me/preferences").set(SAME_ORIGIN).send({ commentEmails: true }), ok: 200 },
-  { route: "PATCH /api/users/:id", send: (r) => as(r).patch(`/api/users/${committeeId}`).set(SAME_ORIGIN).send({ role: "committee" }), ok: 200 },
+  {
+    route: "PATCH /api/users/:id",
+    send: async (r) => {
+      const response = await as(r).patch(`/api/users/${spare.id}`).set(SAME_ORIGIN).send({ role: spareRole === "committee" ? "lead" : "committee" });
+      if (response.status === 200) spareRole = spareRole === "committee" ? "lead" : "committee";
+      return response;
+    },
+    ok: 200,
+  },
+  { route: "GET /api/users/:id", send: (r) => as(r).get(`/api/users/${spare.id}`), ok: 200 },
+  {
+    route: "POST /api/users/:id/email",
+    send: (r) => as(r).post(`/api/users/${spare.id}/email`).set(SAME_ORIGIN).send({ email: `spare-${r ?? "nobody"}@calmcrest.test` }),
+    ok: 200,
+  },
+  {
+    route: "POST /api/users/:id/deactivate",
+    send: async (r) => {
+      const response = await as(r).post(`/api/users/${spare.id}/deactivate`).set(SAME_ORIGIN);
+      // Back to active for the next case.
+      if (response.status === 200) await admin.post(`/api/users/${spare.id}/reactivate`).set(SAME_ORIGIN);
+      return response;
+    },
+    ok: 200,
+  },
+  {
+    route: "POST /api/users/:id/reactivate",
+    send: async (r) => {
+      await admin.post(`/api/users/${spare.id}/deactivate`).set(SAME_ORIGIN);
+      const response = await as(r).post(`/api/users/${spare.id}/reactivate`).set(SAME_ORIGIN);
+      if (response.status !== 200) await admin.post(`/api/users/${spare.id}/reactivate`).set(SAME_ORIGIN);
+      return response;
+    },
+    ok: 200,
+  },
+  { route: "POST /api/users/:id/sign-out-everywhere", send: (r) => as(r).post(`/api/users/${spare.id}/sign-out-everywhere`).set(SAME_ORIGIN), ok: 200 },
+  {
+    // Signs out every session of a throwaway sign-in of that role, not the agent's (which later cases still use).
+    route: "POST /api/auth/sign-out-everywhere",
+    send: async (r) => {
+      if (r === null) return anonymous.post("/api/auth/sign-out-everywhere").set(SAME_ORIGIN);
+      const email = await makeThrowaway(r);
+      const agent = request.agent(app);
+      await agent.post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email, password: "quartz-meadow-falcon-3" });
+      return agent.post("/api/auth/sign-out-everywhere").set(SAME_ORIGIN);
+    },
+    ok: 200,
+  },
+  { route: "GET /api/audit", send: (r) => as(r).get("/api/audit?pageSize=5"), ok: 200 },
+  { route: "GET /api/audit/export.csv", send: (r) => as(r).get("/api/audit/export.csv?action=user.role"), ok: 200 },
 ];
+
+let throwaways = 0;
+/** A fresh account of that role (its own sessions only). */
+async function makeThrowaway(role: Role): Promise<string> {
+  throwaways += 1;
+  const email = `throwaway-${throwaways}@calmcrest.test`;
+  await admin.post("/api/users").set(SAME_ORIGIN).send({ email, name: `Throwaway ${throwaways}`, role, password: "quartz-meadow-falcon-3" });
+  return email;
+}
 
 const table = routeTable(context);
 const entryOf = (routeCase: RouteCase): RouteTableEntry | undefined => table.find((entry) => `${entry.method} ${entry.path}` === routeCase.route);

@@ -1,5 +1,6 @@
 import type { AppContext } from "../context";
 import type { ApiRouter, RouteTableEntry } from "../http/route-table";
+import { auditRoutes } from "./audit";
 import { authRoutes, meRoutes } from "./auth";
 import { campaignRoutes } from "./campaigns";
 import { comparisonRoutes } from "./comparisons";
@@ -27,6 +28,7 @@ export const apiRouteModules: ((context: AppContext) => ApiRouter)[] = [
   reportRoutes,
   commentRoutes,
   preferenceRoutes,
+  auditRoutes,
 ];
 
 export function apiRouters(context: AppContext): ApiRouter[] {

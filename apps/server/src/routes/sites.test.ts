@@ -159,7 +159,8 @@ describe("users", () => {
     expect(patched.body.role).toBe("lead");
     const newcomer = request.agent(app);
     expect((await newcomer.post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "new.person@calmcrest.test", password: "long-enough-pw" })).status).toBe(200);
+    await context.signInGuard.settled();
     const audit = await context.store.audit.list({ targetType: "user", targetId: created.body.id });
-    expect(audit.map((row: { action: string }) => row.action)).toEqual(["user.create", "user.role"]);
+    expect(audit.map((row: { action: string }) => row.action)).toEqual(["user.create", "user.role", "auth.sign_in"]);
   });
 });

@@ -228,7 +228,7 @@ export function campaignsStore(core: StoreCore) {
     },
 
     /** Creates a campaign at a site with its audit row; returns its id. */
-    create(actorId: string, siteId: number, input: ParsedCreateCampaign, auditDetails: Record<string, unknown> = {}): Promise<number> {
+    create(actorId: string, siteId: number, input: ParsedCreateCampaign, auditDetails: { demo?: boolean } = {}): Promise<number> {
       return core.write(async ({ trx, audit, afterCommit }) => {
         const now = new Date().toISOString();
         const [inserted] = await trx("campaign")

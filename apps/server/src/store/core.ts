@@ -1,22 +1,17 @@
 import type { Knex } from "knex";
+import { isAuditAction, type AuditEntry as ContractAuditEntry } from "@calmcrest/contracts";
 import type { AppDatabase } from "../db/database.server";
 import type { SampleCache } from "../summaries/sample-cache.server";
 import type { WriteGate } from "./write-gate";
 
-/** Who did what to which item; every change to field data and accounts leaves one audit row. */
-export interface AuditEntry {
-  /** The acting user; null for the system (start-up recovery, the demo seed's own steps). */
-  userId: string | null;
-  action: string;
-  targetType: "site" | "campaign" | "upload" | "exclusion" | "member" | "user" | "report" | "comment";
-  targetId: string | number;
-  details?: Record<string, unknown>;
-}
+/**
+ * Who did what to which item; every change to field data and accounts leaves one audit row. The action is one of
+ * the contracts' fixed vocabulary (AUDIT_ACTIONS) and its details have the type that action declares.
+ */
+export type AuditEntry = ContractAuditEntry;
 
 /** A change as listeners see it: the audit entry and when it was written. */
-export interface Change extends AuditEntry {
-  at: string;
-}
+export type Change = AuditEntry & { at: string };
 
 /**
  * The seam for modules that must react to every change (a report's outbox, comments, a summary cache):
@@ -88,6 +83,7 @@ export class StoreCore {
         const scope: WriteScope = {
           trx,
           audit: async (entry) => {
+            if (!isAuditAction(entry.action)) throw new Error(`Unknown audit action ${String(entry.action)}: add it to the vocabulary in packages/contracts/src/audit.ts.`);
             const change: Change = { ...entry, at: new Date().toISOString() };
             await trx("audit_log").insert({
               at: change.at,
@@ -95,7 +91,7 @@ export class StoreCore {
               action: change.action,
               target_type: change.targetType,
               target_id: String(change.targetId),
-              details: JSON.stringify(change.details ?? {}),
+              details: JSON.stringify(change.details),
             });
             changes.push(change);
             for (const listener of this.listeners) await listener.inTransaction?.(change, trx);

@@ -41,7 +41,7 @@ export function exclusionsStore(core: StoreCore) {
     },
 
     /** Adds a window; the campaign's cached samples are dropped once it commits (summaries must see it at once). */
-    async add(actorId: string, campaignId: number, input: CreateExclusionInput, auditDetails: Record<string, unknown> = {}): Promise<Exclusion> {
+    async add(actorId: string, campaignId: number, input: CreateExclusionInput, auditDetails: { demo?: boolean } = {}): Promise<Exclusion> {
       const id = await core.write(async ({ trx, audit, afterCommit }) => {
         const [inserted] = await trx("exclusion")
           .insert({

@@ -19,6 +19,7 @@ import type { WriteGate } from "./write-gate";
 export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGate, options: { publicBaseUrl?: string } = {}) {
   const core = new StoreCore(db, samples, gate, options.publicBaseUrl);
   const campaigns = campaignsStore(core);
+  const audit = auditStore(core);
   return {
     core,
     /** Hook for later modules (outbox, comments, summary cache): hear every change, in its transaction and after commit. */
@@ -30,8 +31,8 @@ export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGa
     memberships: membershipsStore(core),
     exclusions: exclusionsStore(core),
     uploads: uploadsStore(core, { campaignForUser: campaigns.forUser }),
-    users: usersStore(core),
-    audit: auditStore(core),
+    users: usersStore(core, audit),
+    audit,
     /** E-mail waiting to be sent or sent; `queueMail(trx, …)` queues one inside a write (store/outbox.ts). */
     outbox: outboxStore(core),
     /** Committee reports: working copies, frozen versions, sharing, comments (and the e-mails they queue). */

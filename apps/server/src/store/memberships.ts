@@ -41,7 +41,7 @@ export function membershipsStore(core: StoreCore) {
     },
 
     /** Adds a member (400 for an unknown user); adding an existing member changes nothing and writes no audit row. */
-    add(actorId: string | null, campaignId: number, userId: string, auditDetails: Record<string, unknown> = {}): Promise<void> {
+    add(actorId: string | null, campaignId: number, userId: string, auditDetails: { demo?: boolean } = {}): Promise<void> {
       return core.write(
         async ({ trx, audit, afterCommit }) => {
           const member = await trx("user").where({ id: userId }).first<{ id: string } | undefined>();

@@ -88,7 +88,7 @@ export function sitesStore(core: StoreCore) {
     },
 
     /** Creates a site with its audit row; returns its id. */
-    create(actorId: string, input: CreateSiteInput, auditDetails: Record<string, unknown> = {}): Promise<number> {
+    create(actorId: string, input: CreateSiteInput, auditDetails: { demo?: boolean } = {}): Promise<number> {
       return core.write(async ({ trx, audit }) => {
         const now = new Date().toISOString();
         const [inserted] = await trx("site")

@@ -26,7 +26,8 @@ function numberOrNull(value: unknown): number | null {
  * in its details is looked up in the same transaction.
  */
 export async function campaignChangedBy(change: Change, trx: Knex.Transaction): Promise<number | null> {
-  const details = change.details ?? {};
+  // Details are typed per action; this reads the two fields any change may carry.
+  const details: Record<string, unknown> = { ...change.details };
   const campaignId = numberOrNull(details.campaignId);
   if (change.targetType === "exclusion") return campaignId;
   if (change.targetType === "upload" && !UPLOAD_ACTIONS_WITHOUT_SAMPLE_CHANGE.has(change.action)) {

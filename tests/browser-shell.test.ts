@@ -16,7 +16,7 @@ afterAll(async () => {
 });
 
 const expectedNav: Record<Role, string[]> = {
-  admin: ["Sites", "Compare", "Reports", "People and access", "Outbox"],
+  admin: ["Sites", "Compare", "Reports", "People and access", "Audit log", "Outbox"],
   lead: ["Sites", "Compare", "Upload logs", "Reports"],
   engineer: ["Sites", "Compare", "Upload logs"],
   committee: ["Reports"],

@@ -13,7 +13,7 @@ describe("navigation by role", () => {
   });
 
   it("lets admins manage people and read sites", () => {
-    expect(navFor("admin").map((item) => item.to)).toEqual(["/sites", "/compare", "/reports", "/admin/people", "/admin/outbox"]);
+    expect(navFor("admin").map((item) => item.to)).toEqual(["/sites", "/compare", "/reports", "/admin/people", "/admin/audit", "/admin/outbox"]);
     expect(mayUse("admin", "/admin/people")).toBe(true);
     expect(mayUse("admin", "/admin/outbox")).toBe(true);
     expect(mayUse("lead", "/admin/outbox")).toBe(false);

@@ -14,6 +14,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: "/upload", label: "Upload logs", roles: ["lead", "engineer"] },
   { to: "/reports", label: "Reports", roles: ["admin", "lead", "committee"] },
   { to: "/admin/people", label: "People and access", roles: ["admin"] },
+  { to: "/admin/audit", label: "Audit log", roles: ["admin"] },
   { to: "/admin/outbox", label: "Outbox", roles: ["admin"] },
 ];
 

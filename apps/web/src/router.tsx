@@ -7,10 +7,11 @@ import { AppLayout } from "./routes/_app";
 import { RouteError } from "./routes/route-error";
 import { SignInPage } from "./routes/sign-in";
 import { configQuery, sitesQuery } from "./api/sites";
-import { usersQuery } from "./api/users";
+import { userQuery, usersQuery } from "./api/users";
 import { outboxQuery } from "./api/outbox";
 import { preferencesQuery, reportCommentsQuery, reportQuery, reportsQuery } from "./api/reports";
 import { idParam } from "./route-loaders";
+import { auditFiltersFrom, auditQuery } from "./api/audit";
 import { campaignLoader, siteLoader } from "./route-loaders";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
@@ -100,6 +101,25 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         return null;
       },
       lazy: async () => ({ Component: (await import("./routes/account")).AccountPage }),
+    },
+    {
+      path: "admin/people/:userId",
+      loader: async (args) => {
+        await roleLoader(queryClient, ["admin"])(args);
+        await Promise.all([queryClient.ensureQueryData(userQuery(args.params.userId ?? "")), queryClient.ensureQueryData(usersQuery)]);
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/admin.people.$userId")).PersonPage }),
+    },
+    {
+      path: "admin/audit",
+      loader: async (args) => {
+        await roleLoader(queryClient, ["admin"])(args);
+        const filters = auditFiltersFrom(new URL(args.request.url).searchParams);
+        await Promise.all([queryClient.ensureQueryData(auditQuery(filters)), queryClient.ensureQueryData(usersQuery)]);
+        return null;
+      },
+      lazy: async () => ({ Component: (await import("./routes/admin.audit")).AuditPage }),
     },
   ];
 }

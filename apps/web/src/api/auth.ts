@@ -18,3 +18,4 @@ export const meQuery = queryOptions({
 
 export const signIn = (input: SignInInput) => api<Me>("/auth/sign-in", { body: input });
 export const signOut = () => api<{ ok: true }>("/auth/sign-out", { method: "POST" });
+export const signOutEverywhere = () => api<{ ok: true }>("/auth/sign-out-everywhere", { method: "POST" });

@@ -1,5 +1,5 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { CreateUserInput, PatchUserInput, UserListItem } from "@calmcrest/contracts";
+import type { ChangeEmailInput, CreateUserInput, PatchUserInput, UserDetail, UserListItem } from "@calmcrest/contracts";
 import { api } from "./client";
 
 export const usersQuery = queryOptions({
@@ -10,3 +10,15 @@ export const usersQuery = queryOptions({
 export const createUser = (input: CreateUserInput) => api<UserListItem>("/users", { body: input });
 export const patchUser = (userId: string, input: PatchUserInput) =>
   api<UserListItem>(`/users/${encodeURIComponent(userId)}`, { method: "PATCH", body: input });
+
+export const userQuery = (userId: string) =>
+  queryOptions({
+    queryKey: ["users", "detail", userId],
+    queryFn: () => api<UserDetail>(`/users/${encodeURIComponent(userId)}`),
+  });
+
+const userAction = (userId: string, action: "deactivate" | "reactivate" | "sign-out-everywhere") => api<UserListItem>(`/users/${encodeURIComponent(userId)}/${action}`, { method: "POST" });
+export const deactivateUser = (userId: string) => userAction(userId, "deactivate");
+export const reactivateUser = (userId: string) => userAction(userId, "reactivate");
+export const signOutUserEverywhere = (userId: string) => userAction(userId, "sign-out-everywhere");
+export const changeEmail = (userId: string, input: ChangeEmailInput) => api<UserListItem>(`/users/${encodeURIComponent(userId)}/email`, { body: input });

@@ -1,71 +1,30 @@
-import { useState } from "react";
+import { useCallback, useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
-import { createColumnHelper } from "@tanstack/react-table";
-import { createUserSchema, ROLE_LABELS, ROLES, type CreateUserInput, type Role, type UserListItem } from "@calmcrest/contracts";
+import { useSuspenseQuery } from "@tanstack/react-query";
+import { Link } from "react-router-dom";
+import { createUserSchema, PASSWORD_RULES_TEXT, ROLE_LABELS, ROLES, type CreateUserInput, type UserListItem } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
 import { addMember, removeMember } from "../api/campaigns";
-import { ApiError } from "../api/client";
-import { createUser, patchUser, usersQuery } from "../api/users";
+import { createUser, usersQuery } from "../api/users";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
-import { DataTable } from "../components/data-table";
 import { Page } from "../components/page";
-import { formatDateUtc } from "../lib/format";
+import { ChangeRoleButton, SavedBanner, StatusBadge, messageOf, roleLock, useRefreshPeople, type SavedNote } from "../components/people";
+import { formatDateTimeUtc } from "../lib/format";
 
-const messageOf = (error: unknown, fallback: string) => (error instanceof ApiError ? error.message : fallback);
+type Report = (note: Omit<SavedNote, "id">) => void;
 
-function useRefreshPeople() {
-  const queryClient = useQueryClient();
-  // Membership decides what engineers see, so sites and campaigns are refreshed with the user list.
-  return async () => {
-    await Promise.all([
-      queryClient.invalidateQueries({ queryKey: ["users"] }),
-      queryClient.invalidateQueries({ queryKey: ["campaigns"] }),
-      queryClient.invalidateQueries({ queryKey: ["sites"] }),
-    ]);
-  };
-}
-
-function RoleCell({ user, onProblem }: { user: UserListItem; onProblem: (message: string | null) => void }) {
-  const refresh = useRefreshPeople();
-  const { data: me } = useSuspenseQuery(meQuery);
-  return (
-    <select
-      aria-label={`Role of ${user.name}`}
-      value={user.role}
-      // Admins cannot demote themselves here: the last admin locking everyone out is hard to undo.
-      disabled={me?.id === user.id}
-      onChange={async (event) => {
-        onProblem(null);
-        try {
-          await patchUser(user.id, { role: event.target.value as Role });
-          await refresh();
-        } catch (error) {
-          onProblem(messageOf(error, "The role could not be changed. Try again."));
-        }
-      }}
-      className="rounded-md border border-line bg-panel px-2 py-1"
-    >
-      {ROLES.map((role) => (
-        <option key={role} value={role}>
-          {ROLE_LABELS[role]}
-        </option>
-      ))}
-    </select>
-  );
-}
-
-function MembershipCell({ user, onProblem }: { user: UserListItem; onProblem: (message: string | null) => void }) {
+function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSaved: Report; onProblem: (message: string | null) => void }) {
   const refresh = useRefreshPeople();
   const { campaigns } = useVisibleCampaigns();
   const [choice, setChoice] = useState("");
   const available = campaigns.filter((campaign) => !user.campaigns.some((member) => member.id === campaign.id));
-  const run = async (action: () => Promise<unknown>, failure: string) => {
+  const run = async (action: () => Promise<unknown>, failure: string, note: Omit<SavedNote, "id">) => {
     onProblem(null);
     try {
       await action();
       await refresh();
+      onSaved(note);
     } catch (error) {
       onProblem(messageOf(error, failure));
     }
@@ -79,14 +38,22 @@ function MembershipCell({ user, onProblem }: { user: UserListItem; onProblem: (m
       {user.campaigns.length === 0 ? <p className="text-ink-soft">No campaigns yet: sees no sites until added to one.</p> : null}
       <ul className="space-y-1">
         {user.campaigns.map((campaign) => (
-          <li key={campaign.id} className="flex items-center justify-between gap-2">
-            <span>
+          <li key={campaign.id} className="flex flex-wrap items-center justify-between gap-2">
+            <span className="min-w-0 break-words">
               {campaign.siteName} — {campaign.name}
             </span>
             <button
               type="button"
               aria-label={`Remove ${user.name} from ${campaign.name}`}
-              onClick={() => void run(() => removeMember(campaign.id, user.id), "The membership could not be removed.")}
+              onClick={() =>
+                void run(() => removeMember(campaign.id, user.id), "The membership could not be removed.", {
+                  text: `${user.name} no longer has access to ${campaign.siteName} — ${campaign.name}.`,
+                  undo: async () => {
+                    await addMember(campaign.id, { userId: user.id });
+                    await refresh();
+                  },
+                })
+              }
               className="rounded border border-line px-2 py-0.5 text-xs font-semibold hover:bg-bad-pale"
             >
               Remove
@@ -95,7 +62,7 @@ function MembershipCell({ user, onProblem }: { user: UserListItem; onProblem: (m
         ))}
       </ul>
       {available.length > 0 ? (
-        <div className="flex gap-2">
+        <div className="flex flex-wrap gap-2">
           <select aria-label={`Campaign to add ${user.name} to`} value={choice} onChange={(event) => setChoice(event.target.value)} className="min-w-0 flex-1 rounded-md border border-line bg-panel px-2 py-1 text-sm">
             <option value="">Add to campaign…</option>
             {available.map((campaign) => (
@@ -107,10 +74,24 @@ function MembershipCell({ user, onProblem }: { user: UserListItem; onProblem: (m
           <button
             type="button"
             disabled={choice === ""}
-            onClick={() => void run(async () => {
-              await addMember(Number(choice), { userId: user.id });
-              setChoice("");
-            }, "The membership could not be added.")}
+            onClick={() => {
+              const campaignId = Number(choice);
+              const campaign = available.find((candidate) => candidate.id === campaignId);
+              void run(
+                async () => {
+                  await addMember(campaignId, { userId: user.id });
+                  setChoice("");
+                },
+                "The membership could not be added.",
+                {
+                  text: `${user.name} now has access to ${campaign ? `${campaign.siteName} — ${campaign.name}` : "the campaign"}.`,
+                  undo: async () => {
+                    await removeMember(campaignId, user.id);
+                    await refresh();
+                  },
+                },
+              );
+            }}
             className="rounded-md border border-accent px-2 py-1 text-sm font-semibold text-accent disabled:opacity-50"
           >
             Add
@@ -121,19 +102,17 @@ function MembershipCell({ user, onProblem }: { user: UserListItem; onProblem: (m
   );
 }
 
-function NewPerson() {
+function NewPerson({ onSaved }: { onSaved: Report }) {
   const refresh = useRefreshPeople();
   const [failure, setFailure] = useState<string | null>(null);
-  const [created, setCreated] = useState<string | null>(null);
   const { register, handleSubmit, formState, reset } = useForm<CreateUserInput>({ resolver: zodResolver(createUserSchema), defaultValues: { role: "engineer" } });
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
-    setCreated(null);
     try {
       const user = await createUser(input);
       reset({ role: "engineer", email: "", name: "", password: "" });
-      setCreated(`${user.name} can now sign in as ${user.email}. Give them the first password by a separate channel.`);
       await refresh();
+      onSaved({ text: `${user.name} can now sign in as ${user.email}. Give them the first password by a separate channel.` });
     } catch (error) {
       setFailure(messageOf(error, "The account could not be created. Try again."));
     }
@@ -148,13 +127,24 @@ function NewPerson() {
       <h2 id="new-person-heading" className="text-lg font-semibold">
         Add a person
       </h2>
-      <div className="grid gap-3 md:grid-cols-4">
+      <p id="password-rules" className="text-sm text-ink-soft">
+        Password rules: {PASSWORD_RULES_TEXT}
+      </p>
+      <div className="grid gap-3 md:grid-cols-2 xl:grid-cols-4">
         {fields.map(([name, label, type, autoComplete]) => (
           <div key={name}>
             <label htmlFor={`new-${name}`} className="block text-sm font-semibold">
               {label}
             </label>
-            <input id={`new-${name}`} type={type} autoComplete={autoComplete} aria-invalid={formState.errors[name] ? true : undefined} className="mt-1 w-full rounded-md border border-line px-2 py-1.5" {...register(name)} />
+            <input
+              id={`new-${name}`}
+              type={type}
+              autoComplete={autoComplete}
+              aria-invalid={formState.errors[name] ? true : undefined}
+              aria-describedby={name === "password" ? "password-rules" : undefined}
+              className="mt-1 w-full rounded-md border border-line px-2 py-1.5"
+              {...register(name)}
+            />
             {formState.errors[name] ? <p className="mt-1 text-xs text-bad">{formState.errors[name]?.message}</p> : null}
           </div>
         ))}
@@ -179,36 +169,88 @@ function NewPerson() {
           {failure}
         </p>
       ) : null}
-      {created ? (
-        <p role="status" className="rounded-md bg-accent-pale px-3 py-2 text-sm text-accent-strong">
-          {created}
-        </p>
-      ) : null}
     </form>
+  );
+}
+
+/** Column heads of the people list, shown where the rows sit side by side (wide screens). */
+const GRID = "lg:grid lg:grid-cols-[minmax(10rem,1.1fr)_minmax(12rem,1.2fr)_minmax(11rem,1fr)_minmax(16rem,1.6fr)_minmax(8rem,0.7fr)] lg:gap-4";
+
+function PersonRow({ user, everyone, meId, onSaved, onProblem }: { user: UserListItem; everyone: UserListItem[]; meId: string | undefined; onSaved: Report; onProblem: (message: string | null) => void }) {
+  const label = "text-xs font-semibold uppercase tracking-wide text-ink-soft lg:sr-only";
+  return (
+    <li className={`space-y-3 border-b border-line px-4 py-3 last:border-b-0 sm:grid sm:grid-cols-2 sm:gap-x-6 sm:gap-y-3 sm:space-y-0 ${GRID}`} aria-label={user.name}>
+      <div className="sm:col-span-2 lg:col-span-1">
+        <Link to={`/admin/people/${encodeURIComponent(user.id)}`} className="font-semibold text-accent underline-offset-2 hover:underline">
+          {user.name}
+        </Link>
+        {user.id === meId ? <span className="text-ink-soft"> (you)</span> : null}
+        <StatusBadge status={user.status} />
+      </div>
+      <div className="min-w-0 break-words">
+        <p className={label}>E-mail</p>
+        {user.email}
+      </div>
+      <div>
+        <p className={label}>Role</p>
+        <ChangeRoleButton user={user} isSelf={user.id === meId} lock={roleLock(user, everyone)} onSaved={onSaved} onProblem={onProblem} />
+      </div>
+      <div>
+        <p className={label}>Campaign access</p>
+        <MembershipCell user={user} onSaved={onSaved} onProblem={onProblem} />
+      </div>
+      <div>
+        <p className={label}>Last sign-in</p>
+        <span className="tabular-nums">{user.lastSignInAt ? formatDateTimeUtc(user.lastSignInAt) : "Never"}</span>
+      </div>
+    </li>
   );
 }
 
 export function PeoplePage() {
   const { data: users } = useSuspenseQuery(usersQuery);
+  const { data: me } = useSuspenseQuery(meQuery);
   const [problem, setProblem] = useState<string | null>(null);
-  const column = createColumnHelper<UserListItem>();
-  const columns = [
-    column.accessor("name", { header: "Name", cell: (cell) => <span className="font-semibold">{cell.getValue()}</span> }),
-    column.accessor("email", { header: "E-mail" }),
-    column.accessor("role", { header: "Role", cell: (cell) => <RoleCell user={cell.row.original} onProblem={setProblem} /> }),
-    column.accessor((user) => user.campaigns.length, { id: "campaigns", header: "Campaign access", cell: (cell) => <MembershipCell user={cell.row.original} onProblem={setProblem} /> }),
-    column.accessor("createdAt", { header: "Since", cell: (cell) => <span className="tabular-nums">{formatDateUtc(cell.getValue())}</span> }),
-  ];
+  const [note, setNote] = useState<SavedNote | null>(null);
+  const onSaved = useCallback((saved: Omit<SavedNote, "id">) => setNote({ ...saved, id: Date.now() }), []);
+  const clearNote = useCallback(() => setNote(null), []);
   return (
-    <Page title="People and access" intro="Who can sign in, in which role, and which campaigns each field engineer works on. Engineers see and upload to their campaigns only; survey leads see every campaign.">
-      <div className="space-y-6">
+    <Page
+      title="People and access"
+      intro="Who can sign in, in which role, and which campaigns each field engineer works on. Engineers see and upload to their campaigns only; survey leads see every campaign. Open a person for their account: e-mail, sessions, deactivation and their recent actions."
+      actions={
+        <Link to="/admin/audit" className="rounded-md border border-line bg-panel px-3 py-1.5 text-sm font-semibold text-accent hover:bg-accent-pale">
+          Audit log
+        </Link>
+      }
+    >
+      <div className="space-y-4">
         {problem ? (
           <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
             {problem}
           </p>
         ) : null}
-        <DataTable caption="People with a Calmcrest account" columns={columns} data={users} initialSorting={[{ id: "name", desc: false }]} getRowId={(user) => user.id} />
-        <NewPerson />
+        <SavedBanner note={note} onDone={clearNote} onProblem={setProblem} />
+        <section aria-labelledby="people-heading" className="overflow-hidden rounded-lg border border-line bg-panel">
+          <h2 id="people-heading" className="sr-only">
+            People with a Calmcrest account
+          </h2>
+          <div aria-hidden="true" className={`hidden border-b border-line bg-paper px-4 py-2 text-sm font-semibold ${GRID}`}>
+            <span>Name</span>
+            <span>E-mail</span>
+            <span>Role</span>
+            <span>Campaign access</span>
+            <span>Last sign-in (UTC)</span>
+          </div>
+          <ul>
+            {[...users]
+              .sort((a, b) => a.name.localeCompare(b.name))
+              .map((user) => (
+                <PersonRow key={user.id} user={user} everyone={users} meId={me?.id} onSaved={onSaved} onProblem={setProblem} />
+              ))}
+          </ul>
+        </section>
+        <NewPerson onSaved={onSaved} />
       </div>
     </Page>
   );

@@ -46,6 +46,9 @@ export interface AuditDetailsByAction {
   "upload.create": { campaignId: number; fileName: string; sizeBytes: number; sha256: string };
   "upload.retry": { previousStatus: UploadStatusName; previousError: string | null };
   "upload.ingested": { campaignId: number };
+  "upload.withdraw": { campaignId: number; reason: string; samples: number; replacedBy?: number };
+  "upload.restore": { campaignId: number; reason: string | null; samples: number; withdrawnAt: string | null; withdrawnReason: string | null };
+  "upload.reread": { campaignId: number; replaces: number; reason: string; mapping: unknown; monitor: unknown };
   "user.mail-preferences": MailPreferences;
   "report.create": Pick<CreateReportData, "title" | "comparison">;
   "report.edit": PatchReportData;
@@ -90,6 +93,9 @@ export const AUDIT_ACTION_LABELS: Record<AuditAction, string> = {
   "upload.create": "Log uploaded",
   "upload.retry": "Upload retried",
   "upload.ingested": "Upload read",
+  "upload.withdraw": "Upload withdrawn",
+  "upload.restore": "Upload restored",
+  "upload.reread": "Upload re-read",
   "user.mail-preferences": "E-mail preferences changed",
   "report.create": "Report started",
   "report.edit": "Report changed",
@@ -202,6 +208,12 @@ export function describeAuditEntry(action: AuditAction, details: Record<string, 
       return `${AUDIT_ACTION_LABELS[action]} in campaign ${text(details.campaignId)}: ${text(details.from)} to ${text(details.to)} (${text(details.reason)})`;
     case "upload.create":
       return `Uploaded ${text(details.fileName)} to campaign ${text(details.campaignId)}`;
+    case "upload.withdraw":
+      return `Upload ${targetId} withdrawn from campaign ${text(details.campaignId)} (${text(details.samples)} samples set aside): ${text(details.reason)}`;
+    case "upload.restore":
+      return `Upload ${targetId} restored to campaign ${text(details.campaignId)} (${text(details.samples)} samples count again)`;
+    case "upload.reread":
+      return `Upload ${text(details.replaces)} re-read as upload ${targetId}: ${text(details.reason)}`;
     case "report.create":
       return `Report ${targetId} started: ${text(details.title)}`;
     case "report.publish":

@@ -10,7 +10,7 @@ async function demoUser(context: AppContext, email: string): Promise<User> {
   const id = await context.store.users.idByEmail(email);
   const row = id ? await context.store.users.byId(id) : undefined;
   if (!row) throw new Error(`The demo user ${email} is missing; the demo users are seeded first.`);
-  return { id: row.id, email: row.email, name: row.name, role: row.role };
+  return { id: row.id, email: row.email, name: row.name, role: row.role, status: row.status };
 }
 
 const SECTIONS = {

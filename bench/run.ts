@@ -61,5 +61,7 @@ for (const [name, load] of Object.entries(BENCHMARKS)) {
 // tools own there (the load test's `load`).
 const previous = existsSync(flags.out) ? (JSON.parse(readFileSync(flags.out, 'utf8')) as Record<string, unknown>) : {};
 const previousBenchmarks = flags.only.length > 0 ? ((previous.benchmarks ?? {}) as Record<string, unknown>) : {};
-writeFileSync(flags.out, `${JSON.stringify({ ...previous, ...results, benchmarks: { ...previousBenchmarks, ...benchmarks } }, null, 2)}\n`);
+// The top-level date and machine stay those of the last full run; a partial run's figures carry their own `runAt`.
+const partialKeep = flags.only.length > 0 ? { date: previous.date ?? results.date, machine: previous.machine ?? results.machine } : {};
+writeFileSync(flags.out, `${JSON.stringify({ ...previous, ...results, ...partialKeep, benchmarks: { ...previousBenchmarks, ...benchmarks } }, null, 2)}\n`);
 console.log(`machine: ${JSON.stringify(results.machine)}\nwritten: ${flags.out}`);

@@ -132,7 +132,7 @@ describe('the comparison warnings', () => {
     expect(warnings.sites[0]?.[0]?.message).toBe(
       "North's monitor stands at 6 m above ground, South's at 2 m: seeing improves with height above ground, so part of the difference is the mast, not the site.",
     );
-    expect(warnings.sites[1]?.[1]?.message).toBe('South is reduced with Sarazin & Roddier response coefficients, North with Tokovinin Z-tilt: the choice alone moves seeing by 7–10 %.');
+    expect(warnings.sites[1]?.[1]?.message).toBe("South's response coefficients (Sarazin & Roddier) differ from North's (Tokovinin Z-tilt): the choice alone moves seeing by 7–10 %.");
     expect(comparisonWarnings([site('North', march), site('South', march)]).sites).toEqual([[], []]);
   });
   it('name thinly covered months and too few nights', () => {

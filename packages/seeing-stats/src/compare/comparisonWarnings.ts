@@ -82,12 +82,14 @@ export function comparisonWarnings(
         message: `${site.name}'s monitor stands at ${ownHeights} above ground, ${otherHeights.map((other) => `${other.name}'s at ${heightText(other.monitorHeightsM)}`).join(', ')}: seeing improves with height above ground, so part of the difference is the mast, not the site.`,
       });
     }
-    const ownSets = [...new Set(site.responseSets)].join(' and ');
-    const otherSets = sites.filter((other) => other !== site && [...new Set(other.responseSets)].join(' and ') !== ownSets);
+    // Set names carry commas ('Tokovinin 2002, Z-tilt'), so each row's sets go in parentheses, joined with '+'.
+    const setsOf = (facts: ComparedSiteFacts) => [...new Set(facts.responseSets)].join(' + ');
+    const ownSets = setsOf(site);
+    const otherSets = sites.filter((other) => other !== site && setsOf(other) !== ownSets);
     if (otherSets.length > 0 && site.responseSets.length > 0) {
       warnings.push({
         code: 'different_response_sets',
-        message: `${site.name} is reduced with ${ownSets} response coefficients, ${otherSets.map((other) => `${other.name} with ${[...new Set(other.responseSets)].join(' and ')}`).join(', ')}: the choice alone moves seeing by 7–10 %.`,
+        message: `${site.name}'s response coefficients (${ownSets}) differ from ${otherSets.map((other) => `${other.name}'s (${setsOf(other)})`).join(', ')}: the choice alone moves seeing by 7–10 %.`,
       });
     }
     if (nights < MINIMUM_NIGHTS_FOR_INTERVAL) {

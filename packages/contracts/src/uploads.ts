@@ -156,3 +156,33 @@ export interface UploadPreview {
   mappingUsed: ColumnMappingInput;
   rows: { line: number; values: Record<string, string>; sample: PreviewSample | null; problem: string | null }[];
 }
+
+/** One problem line of the whole-file check, with its text as it is in the file. */
+export interface CheckedProblemLine {
+  line: number;
+  reason: RejectReasonName;
+  message: string;
+  rawLine: string;
+}
+
+/**
+ * `POST /api/campaigns/:id/uploads/check`: every row of the file read as the upload would read it; nothing stored.
+ * usable + rejected = rowsRead. `setAsideByStandardFilters` counts usable rows that the standard zenith and sun
+ * limits leave out of the statistics later (the analyzer counts those as rejected).
+ */
+export interface WholeFileCheck {
+  fileName: string;
+  sizeBytes: number;
+  delimiter: string;
+  headers: string[];
+  mapping: ColumnMappingInput;
+  rowsRead: number;
+  usable: number;
+  rejected: number;
+  rejectedByReason: Partial<Record<RejectReasonName, number>>;
+  /** The first few problem lines of each reason, in line order. */
+  problemLines: CheckedProblemLine[];
+  setAsideByStandardFilters: { zenith_limit: number; sun_above_limit: number; maxZenithDeg: number; sunMaxDeg: number };
+  warnings: UploadListItem["warnings"];
+  durationMs: number;
+}

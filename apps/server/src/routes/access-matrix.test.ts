@@ -177,6 +177,18 @@ const cases: RouteCase[] = [
     send: (r) => as(r).post(`/api/campaigns/${other.id}/uploads/preview`).set(SAME_ORIGIN).attach("file", freshLog(), "head.csv"),
     ok: 200,
   },
+  {
+    route: "POST /api/campaigns/:id/uploads/check",
+    campaign: "mine",
+    send: (r) => as(r).post(`/api/campaigns/${mine.id}/uploads/check`).set(SAME_ORIGIN).attach("file", freshLog(), "whole.csv"),
+    ok: 200,
+  },
+  {
+    route: "POST /api/campaigns/:id/uploads/check",
+    campaign: "other",
+    send: (r) => as(r).post(`/api/campaigns/${other.id}/uploads/check`).set(SAME_ORIGIN).attach("file", freshLog(), "whole.csv"),
+    ok: 200,
+  },
   { route: "POST /api/campaigns/:id/uploads", campaign: "mine", send: (r) => postUpload(as(r), mine.id, freshLog()), ok: 202 },
   { route: "POST /api/campaigns/:id/uploads", campaign: "other", send: (r) => postUpload(as(r), other.id, freshLog()), ok: 202 },
   { route: "GET /api/uploads/:id", campaign: "mine", send: (r) => as(r).get(`/api/uploads/${mineUpload}`), ok: 200 },

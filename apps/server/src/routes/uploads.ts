@@ -2,7 +2,7 @@ import { createReadStream } from "node:fs";
 import { access } from "node:fs/promises";
 import type { RequestHandler } from "express";
 import multer from "multer";
-import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type ColumnMapping, type MappingOverrides } from "@calmcrest/seeing-stats";
+import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type ColumnMapping, type MappingOverrides, type SiteLocation } from "@calmcrest/seeing-stats";
 import {
   dateInWords,
   mappingOverridesSchema,
@@ -23,6 +23,7 @@ import { currentUser } from "../http/session";
 import { effectiveCampaign, monitorColumns, monitorOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
 import { acceptUpload, checkHeader } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
+import { checkingStorage, type CheckedFile } from "../uploads/whole-file-check.server";
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -30,6 +31,8 @@ declare global {
     interface Locals {
       /** Set by campaignAccess before multer runs. */
       campaign?: CampaignRow;
+      /** The campaign's site, set before the whole-file check's multer runs (its storage engine cannot wait for a query). */
+      siteLocation?: SiteLocation;
     }
   }
 }
@@ -135,6 +138,51 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
       throw error;
     }
   });
+
+  // The whole file read as the upload would read it, as it arrives; nothing is stored (the wizard's honest check).
+  const receiveCheck = withUploadErrors(
+    multer({
+      storage: checkingStorage((req) => {
+        const locals = req.res?.locals;
+        if (!locals?.siteLocation) throw notFound("That campaign");
+        const campaign = accessedCampaign(locals);
+        return {
+          mapping: parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping),
+          monitor: monitorOf(campaign),
+          site: locals.siteLocation,
+          storedTimes: () => store.uploads.storedTimes(campaign.id),
+        };
+      }),
+      limits: { fileSize: env.maxUploadBytes, files: 1, fields: 10 },
+    }).single("file"),
+    limitMb,
+  );
+
+  routes.route(
+    "POST",
+    "/check",
+    { access: FIELD_ROLES, campaignAction: "upload" },
+    campaignAccess("upload"),
+    async (_req, res, next) => {
+      res.locals.siteLocation = siteLocationOf(await store.campaigns.siteOf(accessedCampaign(res.locals)));
+      next();
+    },
+    async (req, res, next) => {
+      try {
+        await new Promise<void>((resolve, reject) => receiveCheck(req, res, (error?: unknown) => (error ? reject(error) : resolve())));
+      } catch (error) {
+        if (error instanceof LogFormatError) return next(new HttpError(400, "unreadable_log", describeLogFormatError(error).text));
+        if (error instanceof SeeingInputError) return next(new HttpError(400, "invalid_input", error.message));
+        return next(error);
+      }
+      next();
+    },
+    async (req, res) => {
+      const file = req.file as (Express.Multer.File & CheckedFile) | undefined;
+      if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file" (after the mapping field).', { file: ["No file was sent."] });
+      res.json(file.check);
+    },
+  );
 
   routes.route("POST", "/", { access: FIELD_ROLES, campaignAction: "upload" }, campaignAccess("upload"), receiveFile, async (req, res) => {
     const user = currentUser(res.locals);

@@ -10,6 +10,7 @@ import type {
   UploadDuplicateBody,
   UploadPreview,
   UploadStatus,
+  WholeFileCheck,
   WithdrawUploadInput,
 } from "@calmcrest/contracts";
 import { ApiError, api } from "./client";
@@ -113,4 +114,41 @@ export async function rawFileHead(uploadId: number, maxBytes: number): Promise<s
     offset += part.length;
   }
   return new TextDecoder().decode(bytes);
+}
+
+/**
+ * Sends a whole log to the server's check (nothing is stored) with XMLHttpRequest for the progress: the server
+ * reads the rows as the bytes arrive, so the fraction sent is also the fraction checked.
+ */
+export function checkWholeFile(campaignId: number, file: File, mapping: ColumnMappingInput, onProgress: (fraction: number) => void, signal?: AbortSignal): Promise<WholeFileCheck> {
+  return new Promise((resolve, reject) => {
+    const request = new XMLHttpRequest();
+    request.open("POST", `/api/campaigns/${campaignId}/uploads/check`);
+    request.setRequestHeader("Accept", "application/json");
+    request.withCredentials = true;
+    request.upload.onprogress = (event) => {
+      if (event.lengthComputable && event.total > 0) onProgress(event.loaded / event.total);
+    };
+    request.onerror = () => reject(new ApiError(0, "network", "The connection broke during the check. Check the network and try again."));
+    request.onabort = () => reject(new DOMException("The check was cancelled.", "AbortError"));
+    request.onload = () => {
+      let body: unknown = undefined;
+      try {
+        body = request.responseText ? JSON.parse(request.responseText) : undefined;
+      } catch {
+        body = undefined;
+      }
+      if (request.status === 200) resolve(body as WholeFileCheck);
+      else {
+        const error = (body as ApiErrorBody | undefined)?.error;
+        reject(new ApiError(request.status, error?.code ?? "http_error", error?.message ?? `The server answered ${request.status}. Try again.`, error?.fields, body));
+      }
+    };
+    signal?.addEventListener("abort", () => request.abort());
+    const form = new FormData();
+    // The mapping goes first: the server reads the file as it arrives, with the mapping it already has.
+    form.append("mapping", JSON.stringify(exactMapping(mapping)));
+    form.append("file", file, file.name);
+    request.send(form);
+  });
 }

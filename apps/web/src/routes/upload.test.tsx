@@ -2,7 +2,7 @@ import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
 import { act, cleanup, fireEvent, render, screen, waitFor } from "@testing-library/react";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { createMemoryRouter, RouterProvider } from "react-router-dom";
-import type { CampaignDetail, SiteDetail, SiteListItem, UploadPreview } from "@calmcrest/contracts";
+import type { CampaignDetail, SiteDetail, SiteListItem, UploadPreview, WholeFileCheck } from "@calmcrest/contracts";
 import { UploadPage } from "./upload";
 
 // Invented fixtures shaped by the contract types: one site with one campaign that has a saved mapping.
@@ -26,6 +26,24 @@ const campaign = (): CampaignDetail => ({
 });
 const preview: UploadPreview = { delimiter: ";", headers: [], proposedMapping: {}, mappingProblems: [], mappingUsed: {}, rows: [] };
 
+/** The server's whole-file check of the test file (one good row), changed by the tests that need another answer. */
+const goodCheck = (): WholeFileCheck => ({
+  fileName: "trip.csv",
+  sizeBytes: 80,
+  delimiter: ";",
+  headers: ["Timestamp (UTC)", "FWHM [arcsec]", "Airmass", "Notes"],
+  mapping: {},
+  rowsRead: 1,
+  usable: 1,
+  rejected: 0,
+  rejectedByReason: {},
+  problemLines: [],
+  setAsideByStandardFilters: { zenith_limit: 0, sun_above_limit: 0, maxZenithDeg: 60, sunMaxDeg: -18 },
+  warnings: [],
+  durationMs: 3,
+});
+let checkAnswer: () => WholeFileCheck = goodCheck;
+
 const answers: Record<string, () => unknown> = {
   "/api/sites": () => [site],
   "/api/sites/3": () => siteDetail,
@@ -44,11 +62,22 @@ class FakeUploadRequest {
   withCredentials = false;
   url = "";
   aborted = false;
+  status = 0;
+  responseText = "";
   open(_method: string, url: string) {
     this.url = url;
   }
   setRequestHeader() {}
   send() {
+    // The whole-file check answers at once; uploads wait for the test to drive them.
+    if (this.url.endsWith("/uploads/check")) {
+      setTimeout(() => {
+        this.status = 200;
+        this.responseText = JSON.stringify(checkAnswer());
+        this.onload?.();
+      }, 0);
+      return;
+    }
     FakeUploadRequest.sent.push(this);
   }
   abort() {
@@ -59,6 +88,7 @@ class FakeUploadRequest {
 
 beforeEach(() => {
   savedMapping = null;
+  checkAnswer = goodCheck;
   FakeUploadRequest.sent = [];
   vi.stubGlobal("XMLHttpRequest", FakeUploadRequest);
   vi.stubGlobal(
@@ -96,7 +126,8 @@ describe("upload wizard", () => {
     fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
     await waitFor(() => expect((screen.getByLabelText(/Time of the sample/) as HTMLSelectElement).value).toBe("Timestamp (UTC)"));
     expect(screen.getByText(/Proposed from the column names of trip.csv/)).toBeTruthy();
-    expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(false);
+    await waitFor(() => expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(false), { timeout: 4000 });
+    expect(screen.getByTestId("check-summary").textContent).toBe("All 1 rows checked: 1 usable, 0 with a problem. Nothing has been stored yet.");
   });
 
   it("fills in the campaign's saved mapping when it fits the file", async () => {
@@ -131,7 +162,7 @@ describe("upload wizard", () => {
     await screen.findByText(/60 mm subapertures/);
     fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog(), foreignLog("trip-2.csv")] } });
     const uploadButton = await screen.findByRole("button", { name: "Upload 2 files" });
-    await waitFor(() => expect((uploadButton as HTMLButtonElement).disabled).toBe(false));
+    await waitFor(() => expect((uploadButton as HTMLButtonElement).disabled).toBe(false), { timeout: 4000 });
     fireEvent.click(uploadButton);
 
     await waitFor(() => expect(FakeUploadRequest.sent).toHaveLength(1));
@@ -156,11 +187,57 @@ describe("upload wizard", () => {
     await screen.findByText(/60 mm subapertures/);
     fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
     const uploadButton = await screen.findByRole("button", { name: "Upload" });
-    await waitFor(() => expect((uploadButton as HTMLButtonElement).disabled).toBe(false));
+    await waitFor(() => expect((uploadButton as HTMLButtonElement).disabled).toBe(false), { timeout: 4000 });
     fireEvent.click(uploadButton);
     await waitFor(() => expect(FakeUploadRequest.sent).toHaveLength(1));
     act(() => FakeUploadRequest.sent[0]?.upload.onprogress?.({ lengthComputable: true, loaded: 100, total: 100 }));
     fireEvent.click(screen.getByRole("button", { name: "Cancel sending trip.csv" }));
     await screen.findByText(/Cancelled after the whole file had been sent: the server may have stored it/);
+  });
+
+  it("asks for an explicit 'store it anyway' when the check finds no usable row, and a confirmation when most rows are rejected", async () => {
+    checkAnswer = () => ({
+      ...goodCheck(),
+      rowsRead: 60,
+      usable: 0,
+      rejected: 60,
+      rejectedByReason: { unreadable_time: 60 },
+      problemLines: [{ line: 2, reason: "unreadable_time", message: "The time 2460000.5 is not an ISO 8601 time.", rawLine: "2460000.5;0.81;1.12;ok" }],
+    });
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
+    await screen.findByText(/No row of this file can be used/, undefined, { timeout: 4000 });
+    expect(screen.getByText("2460000.5;0.81;1.12;ok")).toBeTruthy();
+    const upload = screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement;
+    expect(upload.disabled).toBe(true);
+    fireEvent.click(screen.getByLabelText(/Store it anyway/));
+    await waitFor(() => expect(upload.disabled).toBe(false), { timeout: 4000 });
+
+    cleanup();
+    checkAnswer = () => ({ ...goodCheck(), rowsRead: 10, usable: 4, rejected: 6, rejectedByReason: { missing_value: 6 } });
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
+    await screen.findByText(/Most rows of this file would be rejected: 6 of 10 cannot be used/, undefined, { timeout: 4000 });
+    expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(true);
+    fireEvent.click(screen.getByLabelText(/Upload it anyway/));
+    await waitFor(() => expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(false), { timeout: 4000 });
+  });
+
+  it("removes one file from a batch before the upload", async () => {
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog(), foreignLog("trip-2.csv")] } });
+    await screen.findByRole("button", { name: "Upload 2 files" }, { timeout: 4000 });
+    fireEvent.click(screen.getByRole("button", { name: "Remove trip-2.csv from this batch" }));
+    await waitFor(() => expect(screen.queryByRole("button", { name: "Remove trip-2.csv from this batch" })).toBeNull(), { timeout: 4000 });
+    await waitFor(() => expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(false), { timeout: 4000 });
+  });
+
+  it("keeps the hidden file input out of the tab order (the Choose files button opens it)", async () => {
+    renderWizard("/upload?campaign=7");
+    await screen.findByText(/60 mm subapertures/);
+    expect(screen.getByLabelText("Log files").getAttribute("tabindex")).toBe("-1");
   });
 });

@@ -9,10 +9,12 @@ import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { campaignQuery, saveMapping } from "../api/campaigns";
 import { ApiError } from "../api/client";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
-import { previewUpload, sendUpload } from "../api/uploads";
+import { checkWholeFile, previewUpload, sendUpload } from "../api/uploads";
 import { Notice, Page } from "../components/page";
 import { FileProgress, type FileSend } from "../components/upload/file-progress";
 import { MappingEditor, mappingProblems } from "../components/upload/mapping-editor";
+import { confirmationNeeded, WholeFileCheckView, type CheckState } from "../components/upload/whole-file-check";
+import { leadingComments, monitorDisagreements, statedMonitor } from "../lib/comment-monitor";
 import { HEAD_BYTES, mappingFitsHeaders, readLogHead, unitsOfMapping, type LogHead } from "../lib/log-head";
 import { formatArcsec, formatBytes, formatNumber } from "../lib/format";
 import { readText } from "../lib/read-text";
@@ -103,6 +105,18 @@ function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file:
   );
 }
 
+/** The sentence a screen reader hears once the batch is through. */
+function announce(sends: FileSend[], finishedCount: number): string {
+  const stored = sends.filter((send) => send.state === "stored").length;
+  const duplicates = sends.filter((send) => send.state === "duplicate").length;
+  const refused = sends.filter((send) => send.state === "refused").length;
+  if (stored > 0 && finishedCount < stored) return `${stored} ${stored === 1 ? "file" : "files"} stored; reading into the database.`;
+  const parts = [`${stored} of ${sends.length} ${sends.length === 1 ? "file" : "files"} stored and read`];
+  if (duplicates > 0) parts.push(`${duplicates} already uploaded`);
+  if (refused > 0) parts.push(`${refused} refused`);
+  return `Upload finished: ${parts.join(", ")}. The counts are below.`;
+}
+
 export function UploadPage() {
   const [searchParams, setSearchParams] = useSearchParams();
   const queryClient = useQueryClient();
@@ -118,6 +132,11 @@ export function UploadPage() {
 
   const [files, setFiles] = useState<File[]>([]);
   const [head, setHead] = useState<LogHead | null>(null);
+  /** The opening text of the first file, shown raw beside the mapping (comments included). */
+  const [headText, setHeadText] = useState("");
+  const [checks, setChecks] = useState<CheckState[]>([]);
+  const [confirmed, setConfirmed] = useState<boolean[]>([]);
+  const resultsHeading = useRef<HTMLHeadingElement>(null);
   const [headError, setHeadError] = useState<string | null>(null);
   const [headerMismatch, setHeaderMismatch] = useState<string[]>([]);
   const [mappingSource, setMappingSource] = useState<"saved" | "proposed" | null>(null);
@@ -134,13 +153,18 @@ export function UploadPage() {
     setFinishedCount(0);
     setFailure(null);
     setFiles(chosen);
+    setChecks(chosen.map(() => ({ state: "waiting" })));
+    setConfirmed(chosen.map(() => false));
     setHead(null);
+    setHeadText("");
     setHeadError(null);
     setHeaderMismatch([]);
     const first = chosen[0];
     if (!first) return;
     try {
-      const heads = await Promise.all(chosen.map(async (file) => readLogHead(await readText(file.slice(0, HEAD_BYTES)))));
+      const texts = await Promise.all(chosen.map((file) => readText(file.slice(0, HEAD_BYTES))));
+      const heads = texts.map((text) => readLogHead(text));
+      setHeadText(texts[0] ?? "");
       const firstHead = heads[0];
       if (!firstHead) return;
       // One mapping is used for every file of a batch, so all files must share the first file's columns.
@@ -166,7 +190,52 @@ export function UploadPage() {
 
   const pixelScaleArcsec = campaign.data?.monitor.pixelScaleArcsec ?? null;
   const problems = useMemo(() => (head ? mappingProblems(mapping, head.headers, pixelScaleArcsec) : []), [head, mapping, pixelScaleArcsec]);
-  const ready = Boolean(campaign.data && head && problems.length === 0 && headerMismatch.length === 0 && files.length > 0);
+  const mappingReady = Boolean(campaign.data && head && problems.length === 0 && headerMismatch.length === 0 && files.length > 0);
+
+  // The whole-file check: every file read on the server as the upload would read it, again whenever the mapping,
+  // the campaign or the files change (after a short pause, so typing through a mapping does not send the file each time).
+  const checkKey = mappingReady && sends === null ? JSON.stringify([campaignId, mapping, files.map((file) => [file.name, file.size, file.lastModified])]) : null;
+  useEffect(() => {
+    if (checkKey === null || campaignId === null) return;
+    const controller = new AbortController();
+    const state: CheckState[] = files.map(() => ({ state: "waiting" }));
+    setChecks([...state]);
+    setConfirmed(files.map(() => false));
+    const timer = setTimeout(async () => {
+      for (const [index, file] of files.entries()) {
+        state[index] = { state: "checking", fraction: 0 };
+        setChecks([...state]);
+        try {
+          const result = await checkWholeFile(
+            campaignId,
+            file,
+            mapping,
+            (fraction) => {
+              state[index] = { state: "checking", fraction };
+              setChecks([...state]);
+            },
+            controller.signal,
+          );
+          state[index] = { state: "done", result };
+        } catch (error) {
+          if (controller.signal.aborted) return;
+          state[index] = { state: "failed", message: error instanceof ApiError ? error.message : "The check failed. Try again." };
+        }
+        setChecks([...state]);
+      }
+    }, 300);
+    return () => {
+      clearTimeout(timer);
+      controller.abort();
+    };
+    // checkKey stands for campaignId, mapping and files.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [checkKey]);
+
+  const checksDone = checks.length === files.length && checks.every((check) => check.state === "done");
+  const unconfirmed = checks.filter((check, index) => check.state === "done" && confirmationNeeded(check.result) !== "none" && !confirmed[index]).length;
+  const ready = mappingReady && checksDone && unconfirmed === 0;
+  const monitorWarning = useMemo(() => (campaign.data ? monitorDisagreements(statedMonitor(leadingComments(headText)), campaign.data.monitor) : []), [headText, campaign.data]);
   const running = sends !== null && sends.some((send) => send.state === "sending" || send.state === "waiting");
 
   const onUpload = handleSubmit(async (values) => {
@@ -221,7 +290,20 @@ export function UploadPage() {
       setSends([...state]);
     }
     transfer.current = null;
+    // The result is where the person's attention goes next (and what a screen reader reads).
+    resultsHeading.current?.focus();
   });
+
+  /** Says what is still missing before the upload, in the order a person meets it. */
+  const notReadyText = () => {
+    if (!campaign.data) return "Choose the campaign first.";
+    if (files.length === 0) return "Choose the log files.";
+    if (headerMismatch.length > 0) return "Upload files with other columns separately (see above).";
+    if (problems.length > 0) return "Fix the mapping problems listed above.";
+    if (!checksDone) return checks.some((check) => check.state === "failed") ? "The check found a file that cannot be read (see above)." : "Waiting for the check of every row.";
+    if (unconfirmed > 0) return "Confirm the files with mostly rejected rows above, or correct the mapping.";
+    return "";
+  };
 
   const onFinished = useCallback(() => setFinishedCount((count) => count + 1), []);
 
@@ -307,15 +389,28 @@ export function UploadPage() {
               accept=".csv,.txt,.tsv,.log,.dat,text/csv,text/plain"
               aria-label="Log files"
               className="sr-only"
+              tabIndex={-1}
               onChange={(event) => void chooseFiles(Array.from(event.target.files ?? []))}
             />
           </div>
           {files.length > 0 ? (
             <ul className="mt-3 space-y-1 text-sm">
               {files.map((file) => (
-                <li key={`${file.name}-${file.size}`} className="flex justify-between gap-3">
-                  <span className="font-semibold">{file.name}</span>
-                  <span className="tabular-nums text-ink-soft">{formatBytes(file.size)}</span>
+                <li key={`${file.name}-${file.size}`} className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1">
+                  <span className="min-w-0 break-all font-semibold">{file.name}</span>
+                  <span className="flex items-center gap-3">
+                    <span className="tabular-nums text-ink-soft">{formatBytes(file.size)}</span>
+                    {sends === null || !running ? (
+                      <button
+                        type="button"
+                        onClick={() => void chooseFiles(files.filter((other) => other !== file))}
+                        aria-label={`Remove ${file.name} from this batch`}
+                        className="rounded border border-line px-2 py-0.5 text-xs font-semibold hover:bg-bad-pale"
+                      >
+                        Remove
+                      </button>
+                    ) : null}
+                  </span>
                 </li>
               ))}
             </ul>
@@ -339,14 +434,29 @@ export function UploadPage() {
                 ? "The mapping saved for this campaign fits these files and is filled in. Check it and go on."
                 : `Proposed from the column names of ${files[0]?.name ?? "the file"} (delimiter “${head.delimiter === "\t" ? "tab" : head.delimiter}”). Correct anything that is wrong.`}
             </p>
-            <MappingEditor
-              headers={head.headers}
-              rows={head.rows}
-              mapping={mapping}
-              onChange={(next) => setValue("mapping", next, { shouldDirty: true })}
-              pixelScaleArcsec={pixelScaleArcsec}
-              wavelengthNm={selectedCampaign.monitor.wavelengthNm}
-            />
+            {monitorWarning.length > 0 ? (
+              <p role="alert" className="mb-3 rounded-md border border-warn/40 bg-warn-pale px-3 py-2 text-sm text-warn" data-testid="comment-monitor-warning">
+                The comment lines of {files[0]?.name ?? "the file"} state other monitor settings than the campaign {selectedCampaign.name}: {monitorWarning.join("; ")}. Is this the right campaign? Its samples would be computed with the campaign's settings.
+              </p>
+            ) : null}
+            <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
+              <div className="min-w-0">
+                <MappingEditor
+                  headers={head.headers}
+                  rows={head.rows}
+                  mapping={mapping}
+                  onChange={(next) => setValue("mapping", next, { shouldDirty: true })}
+                  pixelScaleArcsec={pixelScaleArcsec}
+                  wavelengthNm={selectedCampaign.monitor.wavelengthNm}
+                />
+              </div>
+              <figure className="min-w-0">
+                <figcaption className="mb-1 text-sm font-semibold">First lines of {files[0]?.name ?? "the file"}, as written</figcaption>
+                <pre className="max-h-96 overflow-auto rounded-md border border-line bg-paper p-2 font-mono text-xs" data-testid="raw-lines">
+                  {headText.split(/\r\n|\n|\r/).slice(0, 15).join("\n")}
+                </pre>
+              </figure>
+            </div>
             <label className="mt-4 flex items-center gap-2 text-sm">
               <input type="checkbox" {...register("keepMapping")} />
               Save this mapping for the campaign, so the next trip's logs need one click
@@ -355,7 +465,19 @@ export function UploadPage() {
         ) : null}
 
         {head && selectedCampaign && problems.length === 0 && files[0] && sends === null ? (
-          <Step number={4} title="How the server reads the first rows">
+          <Step number={4} title="Check of every row" done={checksDone}>
+            <p className="mb-3 text-sm text-ink-soft">The server reads each whole file with this mapping, as the upload will, and stores nothing. The first rows as it reads them are listed below.</p>
+            <ol className="mb-4 space-y-3">
+              {files.map((file, index) => (
+                <WholeFileCheckView
+                  key={`${file.name}-${file.size}-${index}`}
+                  fileName={file.name}
+                  check={checks[index] ?? { state: "waiting" }}
+                  confirmed={confirmed[index] ?? false}
+                  onConfirm={(value) => setConfirmed((previous) => previous.map((old, at) => (at === index ? value : old)))}
+                />
+              ))}
+            </ol>
             <PreviewTable campaignId={selectedCampaign.id} file={files[0]} mapping={mapping} />
           </Step>
         ) : null}
@@ -372,7 +494,7 @@ export function UploadPage() {
               <button type="submit" disabled={!ready} className="rounded-md bg-accent px-5 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-50">
                 {files.length > 1 ? `Upload ${files.length} files` : "Upload"}
               </button>
-              {!ready ? <span className="text-sm text-ink-soft">Choose a campaign and files, and complete the mapping, to upload.</span> : null}
+              {!ready ? <span className="text-sm text-ink-soft">{notReadyText()}</span> : null}
             </>
           ) : (
             <span className="text-sm text-ink-soft">
@@ -388,12 +510,26 @@ export function UploadPage() {
 
       {sends && selectedCampaign ? (
         <section aria-labelledby="results-heading" className="mt-6 space-y-3">
-          <h2 id="results-heading" className="text-lg font-semibold">
+          <h2 id="results-heading" ref={resultsHeading} tabIndex={-1} className="text-lg font-semibold">
             Upload
           </h2>
+          <p role="status" aria-live="polite" className="sr-only" data-testid="upload-announcement">
+            {running ? "" : announce(sends, finishedCount)}
+          </p>
           <ol className="space-y-3">
             {files.map((file, index) => (
-              <FileProgress key={`${file.name}-${index}`} file={file} send={sends[index] ?? { state: "waiting" }} campaignId={selectedCampaign.id} onFinished={onFinished} onCancel={() => transfer.current?.abort()} />
+              <FileProgress
+                key={`${file.name}-${index}`}
+                file={file}
+                send={sends[index] ?? { state: "waiting" }}
+                campaignId={selectedCampaign.id}
+                onFinished={onFinished}
+                onCancel={() => transfer.current?.abort()}
+                check={(() => {
+                  const check = checks[index];
+                  return check?.state === "done" ? check.result : undefined;
+                })()}
+              />
             ))}
           </ol>
           {finishedCount > 0 ? (

@@ -1,10 +1,11 @@
 import { useEffect, useRef } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { Link } from "react-router-dom";
-import type { UploadDuplicateBody, UploadListItem } from "@calmcrest/contracts";
+import type { UploadDuplicateBody, UploadListItem, WholeFileCheck } from "@calmcrest/contracts";
 import { uploadQuery } from "../../api/uploads";
 import { formatNumber, reasonLabel } from "../../lib/format";
 import { RereadOffer } from "./reread";
+import { setAsideSentence } from "./whole-file-check";
 
 export type FileSend =
   | { state: "waiting" }
@@ -32,7 +33,7 @@ function Bar({ label, fraction, tone = "accent" }: { label: string; fraction: nu
   );
 }
 
-function Counts({ upload }: { upload: UploadListItem }) {
+function Counts({ upload, check }: { upload: UploadListItem; check?: WholeFileCheck | undefined }) {
   const reasons = Object.entries(upload.samples.rejectedByReason).filter(([, count]) => (count ?? 0) > 0);
   return (
     <div className="space-y-1 text-sm" data-testid="upload-result">
@@ -47,6 +48,7 @@ function Counts({ upload }: { upload: UploadListItem }) {
         {" · "}
         {formatNumber(upload.samples.read)} rows read
       </p>
+      {check && check.usable === upload.samples.accepted ? <p className="text-ink-soft" data-testid="result-set-aside">{setAsideSentence(check, `the ${formatNumber(upload.samples.accepted)} accepted`)}</p> : null}
       {upload.warnings.map((warning) => (
         <p key={warning.code} role="note" className="rounded bg-warn-pale px-2 py-1 text-warn">
           <span className="font-semibold">Warning:</span> {warning.message}
@@ -56,7 +58,7 @@ function Counts({ upload }: { upload: UploadListItem }) {
         <ul className="text-ink-soft" aria-label="Rejected by reason">
           {reasons.map(([reason, count]) => (
             <li key={reason}>
-              {formatNumber(count)} {reasonLabel(reason)}
+              {formatNumber(count)} {reasonLabel(reason)} <code className="text-xs">{reason}</code>
             </li>
           ))}
         </ul>
@@ -70,7 +72,7 @@ function Counts({ upload }: { upload: UploadListItem }) {
   );
 }
 
-function Ingest({ uploadId, onFinished }: { uploadId: number; onFinished: () => void }) {
+function Ingest({ uploadId, onFinished, check }: { uploadId: number; onFinished: () => void; check?: WholeFileCheck | undefined }) {
   const status = useQuery(uploadQuery(uploadId));
   const queryClient = useQueryClient();
   const reported = useRef(false);
@@ -102,13 +104,28 @@ function Ingest({ uploadId, onFinished }: { uploadId: number; onFinished: () => 
   return (
     <div className="space-y-2">
       <Bar label="Reading into the database" fraction={1} />
-      <Counts upload={upload} />
+      <Counts upload={upload} check={check} />
     </div>
   );
 }
 
 /** One file's way through the upload: transfer bar (with Cancel), ingest bar, then its result. */
-export function FileProgress({ file, send, campaignId, onFinished, onCancel }: { file: File; send: FileSend; campaignId: number; onFinished: () => void; onCancel: () => void }) {
+export function FileProgress({
+  file,
+  send,
+  campaignId,
+  onFinished,
+  onCancel,
+  check,
+}: {
+  file: File;
+  send: FileSend;
+  campaignId: number;
+  onFinished: () => void;
+  onCancel: () => void;
+  /** The whole-file check made before the upload, to explain the filters the statistics apply later. */
+  check?: WholeFileCheck | undefined;
+}) {
   return (
     <li className="space-y-2 rounded-lg border border-line bg-panel p-3">
       <p className="font-semibold">{file.name}</p>
@@ -134,7 +151,7 @@ export function FileProgress({ file, send, campaignId, onFinished, onCancel }: {
       {send.state === "stored" ? (
         <>
           <Bar label="Sending to the server" fraction={1} />
-          <Ingest uploadId={send.uploadId} onFinished={onFinished} />
+          <Ingest uploadId={send.uploadId} onFinished={onFinished} check={check} />
         </>
       ) : null}
       {send.state === "duplicate" ? (

@@ -39,7 +39,7 @@ describe("MappingEditor", () => {
     expect((screen.getByLabelText(/Time of the sample/) as HTMLSelectElement).value).toBe("Timestamp (UTC)");
     expect((screen.getByLabelText(/Seeing FWHM/) as HTMLSelectElement).value).toBe("FWHM [arcsec]");
     expect(screen.getByText("0.81 · 0.77")).toBeTruthy();
-    expect(screen.getByRole("status").textContent).toMatch(/complete/);
+    expect(screen.getByRole("status").textContent).toMatch(/Every needed field has a column/);
   });
 
   it("lists the problem when the time column is taken away, and maps a column the user picks", () => {
@@ -65,7 +65,7 @@ describe("MappingEditor", () => {
     expect(long2x.closest("tr")?.textContent).toMatch(/\(arcsec², optional\)/);
     expect(long2x.closest("tbody")?.textContent).toMatch(/^Seeing measure/);
     expect(screen.getByText("0.323142")).toBeTruthy();
-    expect(screen.getByRole("status").textContent).toMatch(/complete/);
+    expect(screen.getByRole("status").textContent).toMatch(/Every needed field has a column/);
   });
 
   it("moves the 2x columns with the variances when the unit changes, and lists a half-mapped pair as a problem", () => {

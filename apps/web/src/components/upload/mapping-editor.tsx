@@ -154,7 +154,7 @@ export function MappingEditor({
         </ul>
       ) : (
         <p role="status" className="rounded-md bg-accent-pale px-3 py-2 text-sm text-accent-strong">
-          The mapping is complete: the file can be read.
+          Every needed field has a column. Whether the rows can be read is checked below, row by row.
         </p>
       )}
     </div>

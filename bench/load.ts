@@ -12,7 +12,6 @@ import { existsSync, mkdtempSync, openAsBlob, readFileSync, rmSync, writeFileSyn
 import { cpus, tmpdir, totalmem } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
-import autocannon from "autocannon";
 import { benchLog, freePort, peakRssMb, waitForHealth } from "./ingest.ts";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
@@ -55,13 +54,6 @@ function rssMb(pid: number): number {
   return match ? Math.round(Number(match[1]) / 1024) : Number.NaN;
 }
 
-function percentile(sortedMs: readonly number[], fraction: number): number {
-  if (sortedMs.length === 0) return Number.NaN;
-  // Nearest rank, the usual definition for latency percentiles.
-  const rank = Math.min(sortedMs.length - 1, Math.max(0, Math.ceil(fraction * sortedMs.length) - 1));
-  return sortedMs[rank] ?? Number.NaN;
-}
-
 export interface LoadFigures {
   requestsPerS: number;
   requests: number;
@@ -73,30 +65,28 @@ export interface LoadFigures {
   non2xx: number;
 }
 
-/** One autocannon run; latencies of every answered request are kept to give p95 (autocannon reports p97.5, not p95). */
-function hammer(url: string, cookie: string, connections: number, durationS: number): Promise<LoadFigures> {
-  return new Promise((resolvePromise, reject) => {
-    const latenciesMs: number[] = [];
-    const instance = autocannon({ url, connections, duration: durationS, headers: { cookie }, timeout: 10 }, (error, result) => {
-      if (error) return reject(error);
-      latenciesMs.sort((left, right) => left - right);
-      resolvePromise({
-        requestsPerS: Math.round((result["2xx"] / result.duration) * 10) / 10,
-        requests: result["2xx"],
-        p50Ms: Math.round(percentile(latenciesMs, 0.5) * 10) / 10,
-        p95Ms: Math.round(percentile(latenciesMs, 0.95) * 10) / 10,
-        p99Ms: Math.round(percentile(latenciesMs, 0.99) * 10) / 10,
-        maxMs: Math.round((latenciesMs.at(-1) ?? Number.NaN) * 10) / 10,
-        errors: result.errors + result.timeouts,
-        non2xx: result.non2xx,
+/**
+ * Runs the summary and health measurements at the same moment, each in a process of its own (bench/hammer.mjs), so
+ * they never share an event loop with each other or with this script: a health request's time is the server's.
+ */
+async function hammerBoth(summaryUrl: string, healthUrl: string, cookie: string, connections: number, durationS: number): Promise<[LoadFigures, LoadFigures]> {
+  const startAtMs = Date.now() + 1000;
+  const run = (url: string, runConnections: number) =>
+    new Promise<LoadFigures>((resolvePromise, reject) => {
+      const child = spawn(process.execPath, [join(root, "bench/hammer.mjs"), url, String(runConnections), String(durationS), String(startAtMs)], {
+        cwd: root,
+        env: { ...process.env, CALMCREST_LOAD_COOKIE: cookie },
+        stdio: ["ignore", "pipe", "inherit"],
+      });
+      const out: Buffer[] = [];
+      child.stdout.on("data", (chunk: Buffer) => out.push(chunk));
+      child.on("error", reject);
+      child.on("close", (code) => {
+        if (code !== 0) return reject(new Error(`bench/hammer.mjs exited with code ${String(code)}`));
+        resolvePromise(JSON.parse(Buffer.concat(out).toString("utf8")) as LoadFigures);
       });
     });
-    // autocannon emits (client, statusCode, bytes, responseTimeMs); its published types leave out the client.
-    (instance as unknown as { on(event: "response", listener: (client: unknown, status: number, bytes: number, ms: number) => void): void }).on(
-      "response",
-      (_client, _status, _bytes, responseTimeMs) => latenciesMs.push(responseTimeMs),
-    );
-  });
+  return Promise.all([run(summaryUrl, connections), run(healthUrl, HEALTH_CONNECTIONS)]);
 }
 
 function describe(name: string, figures: LoadFigures): string {
@@ -160,10 +150,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     console.log(`load: ${stored.samples.accepted} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB)`);
 
     console.log(`load: ${flags.connections} connections on the repeated summary and ${HEALTH_CONNECTIONS} on /api/health for ${flags.durationS} s…`);
-    const [summary, health] = await Promise.all([
-      hammer(summaryUrl, cookie, flags.connections, flags.durationS),
-      hammer(`${base}/api/health`, cookie, HEALTH_CONNECTIONS, flags.durationS),
-    ]);
+    const [summary, health] = await hammerBoth(summaryUrl, `${base}/api/health`, cookie, flags.connections, flags.durationS);
     console.log(describe("repeated summary", summary));
     console.log(describe("/api/health", health));
     const rssAfterSummaryMb = rssMb(pid);
@@ -187,10 +174,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     await new Promise((resolveWait) => setTimeout(resolveWait, 300));
     console.log(`load: the same during ${flags.rows}-row ingests…`);
     const loadStartMs = performance.now();
-    const [summaryDuringIngest, healthDuringIngest] = await Promise.all([
-      hammer(summaryUrl, cookie, flags.connections, flags.durationS),
-      hammer(`${base}/api/health`, cookie, HEALTH_CONNECTIONS, flags.durationS),
-    ]);
+    const [summaryDuringIngest, healthDuringIngest] = await hammerBoth(summaryUrl, `${base}/api/health`, cookie, flags.connections, flags.durationS);
     const loadMs = performance.now() - loadStartMs;
     ingesting = false;
     await ingestLoop;

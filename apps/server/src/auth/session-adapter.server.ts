@@ -1,5 +1,6 @@
 import Database from "better-sqlite3";
 import type { Adapter, DatabaseSession, DatabaseUser, RegisteredDatabaseUserAttributes } from "lucia";
+import { reusePreparedStatements } from "../db/database.server";
 import { tune } from "../db/tune.server";
 
 /** How long a session write waits for SQLite's write lock on the main thread before it is deferred instead. */
@@ -55,6 +56,8 @@ export class SessionAdapter implements Adapter {
   ) {
     this.sqlite = new Database(file);
     tune(this.sqlite);
+    // Every request with a cookie reads its session and user: keep those statements prepared.
+    reusePreparedStatements(this.sqlite);
     this.sqlite.pragma(`busy_timeout = ${SESSION_WRITE_WAIT_MS}`);
   }
 

@@ -4,6 +4,7 @@ import { FIELD_ROLES, routeId } from "../access/access.server";
 import { parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
+import { sendAnswer } from "../summaries/summary-service.server";
 
 /**
  * /api/campaigns/:id and what hangs off one campaign (exclusions, members, summary, samples). Committee members
@@ -70,15 +71,15 @@ export function campaignRoutes(context: AppContext): ApiRouter {
     const campaign = await store.campaigns.forUser(currentUser(res.locals), campaignId(req.params.id), "read");
     const query = parseOr400(summaryQuerySchema, req.query, "The summary query");
     const site = await store.campaigns.siteOf(campaign);
-    const json = await summaries.summary({ kind: "campaign", site, campaigns: [campaign], query, ingestRejections: () => store.uploads.ingestRejections([campaign.id]) });
-    res.type("json").send(json);
+    const answer = await summaries.summary({ kind: "campaign", site, campaigns: [campaign], query, ingestRejections: () => store.uploads.ingestRejections([campaign.id]) });
+    sendAnswer(res, answer);
   });
 
   routes.route("GET", "/:id/samples", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
     const campaign = await store.campaigns.forUser(currentUser(res.locals), campaignId(req.params.id), "read");
     const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
     const site = await store.campaigns.siteOf(campaign);
-    res.type("json").send(await summaries.series([campaign.id], site.longitude, query));
+    sendAnswer(res, await summaries.series([campaign.id], site.longitude, query));
   });
 
   return routes;

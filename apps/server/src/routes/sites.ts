@@ -5,6 +5,7 @@ import { FIELD_ROLES, routeId } from "../access/access.server";
 import { parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
+import { sendAnswer } from "../summaries/summary-service.server";
 import { siteListItem, type SiteRow } from "../store/index";
 
 /** /api/sites: the candidate sites, their summaries and samples, and new campaigns at a site. */
@@ -55,14 +56,14 @@ export function siteRoutes(context: AppContext): ApiRouter {
     const { site, campaignIds } = await store.sites.forUser(currentUser(res.locals), routeId(req.params.id, "That site"));
     const query = parseOr400(summaryQuerySchema, req.query, "The summary query");
     const campaigns = await store.campaigns.listByIds(campaignIds);
-    const json = await summaries.summary({ kind: "site", site, campaigns, query, ingestRejections: () => store.uploads.ingestRejections(campaignIds) });
-    res.type("json").send(json);
+    const answer = await summaries.summary({ kind: "site", site, campaigns, query, ingestRejections: () => store.uploads.ingestRejections(campaignIds) });
+    sendAnswer(res, answer);
   });
 
   routes.route("GET", "/:id/samples", { access: FIELD_ROLES }, async (req, res) => {
     const { site, campaignIds } = await store.sites.forUser(currentUser(res.locals), routeId(req.params.id, "That site"));
     const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
-    res.type("json").send(await summaries.series(campaignIds, site.longitude, query));
+    sendAnswer(res, await summaries.series(campaignIds, site.longitude, query));
   });
 
   routes.route("POST", "/:id/campaigns", { access: ["admin", "lead"] }, async (req, res) => {

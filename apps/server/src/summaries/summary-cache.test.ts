@@ -44,12 +44,17 @@ describe("the summary cache", () => {
     const again = await summaryOf(campaign.id);
     expect(again).toEqual(first);
     expect(context.summaries.stats().hits).toBe(hitsBefore + 1);
+    // The answer's ETag names its data version: a client that holds it gets 304 until the data change.
+    const etag = (await lead.get(`/api/campaigns/${campaign.id}/summary`)).headers.etag ?? "";
+    expect(etag).toMatch(/^W\/"/);
+    expect((await lead.get(`/api/campaigns/${campaign.id}/summary`).set("If-None-Match", etag)).status).toBe(304);
 
     // An exclusion over the first half of the samples: fewer accepted, counted under excluded_window.
     const firstTime = rows[0]?.split(",")[0] ?? "";
     const middleTime = rows[100]?.split(",")[0] ?? "";
     const added = await lead.post(`/api/campaigns/${campaign.id}/exclusions`).set(SAME_ORIGIN).send({ from: firstTime, to: middleTime, reason: "dome maintenance" });
     expect(added.status).toBe(201);
+    expect((await lead.get(`/api/campaigns/${campaign.id}/summary`).set("If-None-Match", etag)).status).toBe(200);
     const excluded = await summaryOf(campaign.id);
     expect(excluded.samples.accepted).toBeLessThan(first.samples.accepted);
     // Every accepted sample that left was excluded (an excluded sample some filter refuses anyway is counted once, as excluded).
@@ -154,15 +159,25 @@ describe("the summary cache", () => {
 describe("memory bounds", () => {
   it("keep at most the configured bytes of answers, dropping the least recently used", async () => {
     const { site, campaign } = await campaignWithSamples(0, 300);
-    // The bound holds two and a half answers of this size (an answer and its key take two bytes a character).
-    const oneAnswerBytes = 2 * (await lead.get(`/api/campaigns/${campaign.id}/summary`)).text.length;
-    const maxBytes = Math.round(2.5 * oneAnswerBytes);
+    // First measure each answer (with its key) in a service without a bound, then bound a new one to hold the last two.
+    const measure = new SummaryService({ dbFile: context.db.file, sqlite: context.db.sqlite, workers: 1 });
+    const campaigns = await context.store.campaigns.listByIds([campaign.id]);
+    const siteRow = (await context.store.sites.forUser({ id: "", role: "admin" } as never, site.id)).site;
+    const askOf = (service: SummaryService) => (maxZenithDeg: number) =>
+      service.summary({ kind: "campaign", site: siteRow, campaigns, query: { maxZenithDeg }, ingestRejections: () => context.store.uploads.ingestRejections([campaign.id]) });
+    const sizes: number[] = [];
+    for (const limit of [10, 20, 30, 40, 50, 60]) {
+      const before = measure.stats().cachedBytes;
+      await askOf(measure)(limit);
+      sizes.push(measure.stats().cachedBytes - before);
+    }
+    await measure.close();
+    const [, , , third = 0, second = 0, last = 0] = sizes;
+    expect(third).toBeGreaterThan(1000);
+    const maxBytes = second + last + Math.floor(third / 2);
     const small = new SummaryService({ dbFile: context.db.file, sqlite: context.db.sqlite, workers: 1, resultCacheMaxBytes: maxBytes });
     try {
-      const campaigns = await context.store.campaigns.listByIds([campaign.id]);
-      const siteRow = (await context.store.sites.forUser({ id: "", role: "admin" } as never, site.id)).site;
-      const ask = (maxZenithDeg: number) =>
-        small.summary({ kind: "campaign", site: siteRow, campaigns, query: { maxZenithDeg }, ingestRejections: () => context.store.uploads.ingestRejections([campaign.id]) });
+      const ask = askOf(small);
       for (const limit of [10, 20, 30, 40, 50, 60]) await ask(limit);
       const stats = small.stats();
       expect(stats.cachedBytes).toBeLessThanOrEqual(maxBytes);

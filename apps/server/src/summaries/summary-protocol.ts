@@ -14,8 +14,8 @@ export type FromSummaryWorker =
   | {
       type: "result";
       id: number;
-      /** The answer as JSON text (serialised once, in the worker). */
-      json: string;
+      /** The answer as UTF-8 JSON (serialised and encoded once, in the worker; its buffer is transferred, not copied). */
+      body: Uint8Array;
       /** The data version of each campaign the answer was computed from, in the task's campaign order. */
       versions: number[];
       computeMs: number;

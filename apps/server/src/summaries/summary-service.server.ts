@@ -1,6 +1,8 @@
+import { createHash } from "node:crypto";
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
 import type Database from "better-sqlite3";
+import type { Response } from "express";
 import { readDataVersions } from "./data-version.server";
 import type { FromSummaryWorker, SummaryWorkerOptions, ToSummaryWorker } from "./summary-protocol";
 import type { SamplesQuery, SiteSummaryBrief, SummaryQuery } from "@calmcrest/contracts";
@@ -59,7 +61,7 @@ export interface SummaryServiceStats {
 }
 
 interface PendingTask {
-  resolve(result: { json: string; versions: number[] }): void;
+  resolve(result: { body: Buffer; versions: number[] }): void;
   reject(error: Error): void;
 }
 
@@ -81,7 +83,7 @@ class SummaryWorker {
       this.pending.delete(message.id);
       if (message.type === "result") {
         this.columnBytes = message.columnBytes;
-        task.resolve({ json: message.json, versions: message.versions });
+        task.resolve({ body: Buffer.from(message.body.buffer, message.body.byteOffset, message.body.byteLength), versions: message.versions });
       } else {
         task.reject(new Error(message.message));
       }
@@ -102,7 +104,7 @@ class SummaryWorker {
     return this.pending.size;
   }
 
-  run<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): Promise<{ json: string; versions: number[] }> {
+  run<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): Promise<{ body: Buffer; versions: number[] }> {
     const worker = this.ensure();
     const id = this.nextId;
     this.nextId += 1;
@@ -124,9 +126,19 @@ class SummaryWorker {
   }
 }
 
-/** Bytes a cached JSON answer and its key take (two bytes a character: the most a V8 string uses). */
-function answerBytes(key: string, json: string): number {
-  return (key.length + json.length) * 2;
+/** A cached answer: UTF-8 JSON, sent as it is, and its ETag (from the cache key, which names everything the answer depends on). */
+export interface SummaryAnswer {
+  body: Buffer;
+  etag: string;
+}
+
+/** Bytes a cached answer and its key take (the key at two bytes a character, the most a V8 string uses). */
+function answerBytes(key: string, answer: SummaryAnswer): number {
+  return key.length * 2 + answer.body.byteLength + answer.etag.length * 2;
+}
+
+function answerOf(key: string, body: Buffer): SummaryAnswer {
+  return { body, etag: `W/"${createHash("sha256").update(key).digest("base64url").slice(0, 32)}"` };
 }
 
 /** The query with the engine's defaults filled in, as cache-key text: `?maxZenithDeg=60` and no parameter are the same answer. */
@@ -151,9 +163,9 @@ function sameVersions(left: readonly number[], right: readonly number[]): boolea
 }
 
 export class SummaryService {
-  private readonly answers = new Map<string, string>();
+  private readonly answers = new Map<string, SummaryAnswer>();
   private answerBytes = 0;
-  private readonly inFlight = new Map<string, Promise<string>>();
+  private readonly inFlight = new Map<string, Promise<SummaryAnswer>>();
   private readonly workers: SummaryWorker[];
   private readonly maxBytes: number;
   private readonly maxEntries: number;
@@ -173,7 +185,7 @@ export class SummaryService {
    * are read when the request is served, so a request made after a change committed never gets an answer from
    * before it.
    */
-  compute<Kind extends SummaryTaskKind>(kind: Kind, request: ComputeRequest<Kind>): Promise<string> {
+  compute<Kind extends SummaryTaskKind>(kind: Kind, request: ComputeRequest<Kind>): Promise<SummaryAnswer> {
     const versions = readDataVersions(this.options.sqlite, request.campaignIds);
     const cacheKey = `${kind}|${request.campaignIds.join(",")}|v${versions.join(",")}|${request.key}`;
     const cached = this.answers.get(cacheKey);
@@ -195,7 +207,7 @@ export class SummaryService {
     return computation;
   }
 
-  private async computeFresh<Kind extends SummaryTaskKind>(kind: Kind, request: ComputeRequest<Kind>, versions: number[], cacheKey: string): Promise<string> {
+  private async computeFresh<Kind extends SummaryTaskKind>(kind: Kind, request: ComputeRequest<Kind>, versions: number[], cacheKey: string): Promise<SummaryAnswer> {
     let expected = versions;
     let key = cacheKey;
     for (let attempt = 1; ; attempt += 1) {
@@ -203,13 +215,14 @@ export class SummaryService {
       const worker = this.workerFor(request.campaignIds);
       this.counters.computations += 1;
       const result = await worker.run(kind, input);
+      const answer = answerOf(key, result.body);
       if (sameVersions(result.versions, expected)) {
-        this.remember(key, result.json);
-        return result.json;
+        this.remember(key, answer);
+        return answer;
       }
       // A campaign changed between reading the versions (and the input) and the worker's snapshot: the samples are
       // newer than the input, so compute again from fresh inputs; after a few tries give the newest as it is.
-      if (attempt >= MAX_ATTEMPTS) return result.json;
+      if (attempt >= MAX_ATTEMPTS) return answer;
       expected = readDataVersions(this.options.sqlite, request.campaignIds);
       key = `${kind}|${request.campaignIds.join(",")}|v${expected.join(",")}|${request.key}`;
     }
@@ -232,24 +245,24 @@ export class SummaryService {
     return best;
   }
 
-  private remember(key: string, json: string): void {
+  private remember(key: string, answer: SummaryAnswer): void {
     const previous = this.answers.get(key);
     if (previous !== undefined) {
       this.answers.delete(key);
       this.answerBytes -= answerBytes(key, previous);
     }
     // An answer larger than the whole bound is served but not kept.
-    if (answerBytes(key, json) > this.maxBytes) return;
-    this.answers.set(key, json);
-    this.answerBytes += answerBytes(key, json);
-    for (const [oldKey, oldJson] of this.answers) {
+    if (answerBytes(key, answer) > this.maxBytes) return;
+    this.answers.set(key, answer);
+    this.answerBytes += answerBytes(key, answer);
+    for (const [oldKey, oldAnswer] of this.answers) {
       if (this.answerBytes <= this.maxBytes && this.answers.size <= this.maxEntries) break;
       this.answers.delete(oldKey);
-      this.answerBytes -= answerBytes(oldKey, oldJson);
+      this.answerBytes -= answerBytes(oldKey, oldAnswer);
     }
   }
 
-  /** GET …/summary: the summary of a campaign or of a site's visible campaigns, as JSON text. */
+  /** GET …/summary: the summary of a campaign or of a site's visible campaigns (send it with sendAnswer). */
   summary(request: {
     kind: "campaign" | "site";
     site: SiteRow;
@@ -257,7 +270,7 @@ export class SummaryService {
     query: SummaryQuery;
     /** The campaigns' ingest rejections (store.uploads.ingestRejections), read only on a miss. */
     ingestRejections: () => Promise<IngestRejections>;
-  }): Promise<string> {
+  }): Promise<SummaryAnswer> {
     const { kind, site, campaigns, query } = request;
     return this.compute("summary", {
       campaignIds: campaigns.map((campaign) => campaign.id),
@@ -268,12 +281,12 @@ export class SummaryService {
 
   /** The site list's short summary of a site over these campaigns (default filters). */
   async brief(site: SiteRow, campaignIds: number[]): Promise<SiteSummaryBrief | null> {
-    const json = await this.compute("brief", { campaignIds, key: JSON.stringify([site.id, site.longitude]), input: () => ({ site, campaignIds }) });
-    return JSON.parse(json) as SiteSummaryBrief | null;
+    const answer = await this.compute("brief", { campaignIds, key: JSON.stringify([site.id, site.longitude]), input: () => ({ site, campaignIds }) });
+    return JSON.parse(answer.body.toString("utf8")) as SiteSummaryBrief | null;
   }
 
-  /** GET …/samples: the thinned sample series, as JSON text. */
-  series(campaignIds: number[], longitudeDeg: number, query: SamplesQuery): Promise<string> {
+  /** GET …/samples: the thinned sample series (send it with sendAnswer). */
+  series(campaignIds: number[], longitudeDeg: number, query: SamplesQuery): Promise<SummaryAnswer> {
     return this.compute("series", {
       campaignIds,
       key: JSON.stringify([longitudeDeg, queryKey(query), query.night ?? null, query.maxPoints ?? null]),
@@ -293,4 +306,10 @@ export class SummaryService {
   async close(): Promise<void> {
     await Promise.all(this.workers.map((worker) => worker.close()));
   }
+}
+
+/** Sends a cached answer as it is: its ETag spares Express hashing the body, and a client holding it gets 304. */
+export function sendAnswer(res: Response, answer: SummaryAnswer): void {
+  res.setHeader("ETag", answer.etag);
+  res.type("json").send(answer.body);
 }

@@ -18,12 +18,14 @@ function post(message: FromSummaryWorker): void {
   parentPort?.postMessage(message);
 }
 
-function runTask<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): { json: string; versions: number[] } {
+const encoder = new TextEncoder();
+
+function runTask<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): { body: Uint8Array; versions: number[] } {
   const definition = SUMMARY_TASKS[kind] as { campaignIds(input: SummaryTaskInputs[Kind]): readonly number[]; run(cache: SampleCache, input: SummaryTaskInputs[Kind]): unknown };
   const campaignIds = definition.campaignIds(input);
   const { versions } = cache.sync(campaignIds);
   try {
-    return { json: JSON.stringify(definition.run(cache, input)), versions };
+    return { body: encoder.encode(JSON.stringify(definition.run(cache, input))), versions };
   } finally {
     cache.unpin(campaignIds);
   }
@@ -37,8 +39,9 @@ parentPort?.on("message", (message: ToSummaryWorker) => {
   }
   const startedMs = performance.now();
   try {
-    const { json, versions } = runTask(message.kind, message.input);
-    post({ type: "result", id: message.id, json, versions, computeMs: performance.now() - startedMs, columnBytes: cache.bytesHeld });
+    const { body, versions } = runTask(message.kind, message.input);
+    const result: FromSummaryWorker = { type: "result", id: message.id, body, versions, computeMs: performance.now() - startedMs, columnBytes: cache.bytesHeld };
+    parentPort?.postMessage(result, [body.buffer as ArrayBuffer]);
   } catch (error) {
     post({ type: "error", id: message.id, message: error instanceof Error ? error.message : String(error) });
   }

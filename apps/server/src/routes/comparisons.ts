@@ -4,7 +4,8 @@ import { FIELD_ROLES } from "../access/access.server";
 import { parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
-import { compareForUserJson } from "../summaries/compare.server";
+import { compareForUserAnswer } from "../summaries/compare.server";
+import { sendAnswer } from "../summaries/summary-service.server";
 
 /** /api/comparisons: 2 to 6 sites or campaigns side by side, with the access of the site and campaign pages. */
 export function comparisonRoutes(context: AppContext): ApiRouter {
@@ -13,7 +14,7 @@ export function comparisonRoutes(context: AppContext): ApiRouter {
   // Committee members read published reports only (403); each site or campaign is checked for the caller (404).
   routes.route("GET", "/", { access: FIELD_ROLES }, async (req, res) => {
     const query = parseOr400(comparisonQuerySchema, req.query, "The comparison query");
-    res.type("json").send(await compareForUserJson(context, currentUser(res.locals), query));
+    sendAnswer(res, await compareForUserAnswer(context, currentUser(res.locals), query));
   });
 
   return routes;

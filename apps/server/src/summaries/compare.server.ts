@@ -5,6 +5,7 @@ import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
 import { campaignMonitor, siteRef, type CampaignRow, type SiteRow } from "../store/index";
 import type { ComparisonRowInput } from "./comparison";
+import type { SummaryAnswer } from "./summary-service.server";
 
 // GET /api/comparisons on the main thread: access to every site or campaign, the rows' campaigns, uploads and
 // exclusion windows from the store; the computation itself is the "comparison" task of the summary service
@@ -60,11 +61,11 @@ async function orUnknown<T>(user: User, parameter: "sites" | "campaigns", id: nu
 }
 
 /**
- * `GET /api/comparisons` for this user, as JSON text: checks access to every site or campaign, reads the rows'
+ * `GET /api/comparisons` for this user, as the summary service's cached answer (UTF-8 JSON and its ETag): checks access to every site or campaign, reads the rows'
  * campaigns, uploads and exclusion windows, and has the summary service compute the comparison (or answer it from
  * its cache while the campaigns' data is unchanged).
  */
-export async function compareForUserJson(context: AppContext, user: User, query: ComparisonQuery): Promise<string> {
+export async function compareForUserAnswer(context: AppContext, user: User, query: ComparisonQuery): Promise<SummaryAnswer> {
   const { store, summaries } = context;
   const kind: ComparisonResponse["kind"] = query.campaigns === undefined ? "sites" : "campaigns";
   const rowsToLoad: { key: string; label: string; site: SiteRow; campaignId: number | null; campaignIds: number[] }[] = [];
@@ -106,5 +107,5 @@ export async function compareForUserJson(context: AppContext, user: User, query:
 
 /** The comparison as an object, for other code (a report freezes it into a version). */
 export async function compareForUser(context: AppContext, user: User, query: ComparisonQuery): Promise<ComparisonResponse> {
-  return JSON.parse(await compareForUserJson(context, user, query)) as ComparisonResponse;
+  return JSON.parse((await compareForUserAnswer(context, user, query)).body.toString("utf8")) as ComparisonResponse;
 }

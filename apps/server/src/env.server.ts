@@ -42,6 +42,8 @@ const envSchema = z.object({
   CALMCREST_SIGNIN_WINDOW_S: z.coerce.number().int().min(1).default(900),
   /** Largest accepted upload. */
   CALMCREST_MAX_UPLOAD_MB: z.coerce.number().positive().default(256),
+  /** Sample columns the summary workers may hold, in MB (about 68 bytes a sample: 256 MB is about 3.9 million samples). */
+  CALMCREST_SAMPLE_CACHE_MB: z.coerce.number().int().min(16).max(65_536).default(256),
 });
 
 type ParsedEnv = z.infer<typeof envSchema>;

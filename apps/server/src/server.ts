@@ -39,7 +39,7 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
   const store = createStore(db, samples, gate, { publicBaseUrl: env.publicBaseUrl });
   // Every change to a campaign's samples, exclusions or withdrawals raises its data version in the same transaction.
   store.onChange(dataVersionListener());
-  const summaries = new SummaryService({ dbFile: db.file, sqlite: db.sqlite });
+  const summaries = new SummaryService({ dbFile: db.file, sqlite: db.sqlite, columnCacheMaxBytes: env.CALMCREST_SAMPLE_CACHE_MB * 1024 * 1024 });
   let closing: Promise<void> | undefined;
   const ingest = new IngestQueue(store, gate, { dbFile: db.file, dataDir: env.dataDir, allowTestHooks: env.NODE_ENV === "test" });
   // Session writes never wait on the main thread for an ingest's write lock; deferred ones land through the write gate.

@@ -66,7 +66,8 @@ export function SitesPage() {
             : "Survey leads and administrators add candidate sites; each site then gets a campaign per monitor deployment, and field engineers upload its logs."}
         </Notice>
       ) : (
-        <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1.3fr)]">
+        <div className="grid grid-cols-[minmax(0,1fr)] gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1.3fr)]">
+          {/* minmax(0, …) columns at every width: a grid item may not grow past the page for its widest content (the table). */}
           <section aria-labelledby="map-heading" className="space-y-3">
             <h2 id="map-heading" className="sr-only">
               Map of sites

@@ -3,7 +3,7 @@ import { useState } from "react";
 import { cleanup, fireEvent, render, screen } from "@testing-library/react";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { readLogHead } from "../../lib/log-head";
-import { MappingEditor } from "./mapping-editor";
+import { MappingEditor, unitNote } from "./mapping-editor";
 
 const head = readLogHead("Timestamp (UTC);FWHM [arcsec];Airmass;Star counts\n2026-03-01 23:00:00;0.81;1.12;5400\n2026-03-01 23:01:00;0.77;1.13;5380\n");
 
@@ -82,5 +82,14 @@ describe("MappingEditor", () => {
     const pixelHead = { time_utc: "Timestamp (UTC)", var_long_px2: "FWHM [arcsec]", var_trans_px2: "Star counts", airmass: "Airmass" };
     render(<Harness initial={pixelHead} />);
     expect(screen.getByRole("alert", { name: "Mapping problems" }).textContent).toMatch(/pixel scale/);
+  });
+});
+
+describe("the unit after a field's label", () => {
+  it("is not repeated when the label names it already, and says optional where it helps", () => {
+    expect(unitNote("Airmass of the star (sec z)", "sec z", false)).toBe("");
+    expect(unitNote("Time of the sample (ISO 8601, UTC)", "UTC", false)).toBe("");
+    expect(unitNote("Star flux", "counts", false)).toBe("(counts)");
+    expect(unitNote("Longitudinal variance at twice the exposure time", "arcsec²", true)).toBe("(arcsec², optional)");
   });
 });

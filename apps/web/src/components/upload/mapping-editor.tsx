@@ -96,6 +96,8 @@ export function MappingEditor({
         </div>
       </fieldset>
 
+      {/* A narrow screen scrolls the table inside its box, never the page. */}
+      <div className="overflow-x-auto">
       <table className="w-full border-collapse text-sm">
         <caption className="sr-only">Column mapping</caption>
         <thead>
@@ -120,11 +122,7 @@ export function MappingEditor({
                   <td className="py-1.5 pr-3">
                     <label htmlFor={selectId}>
                       {/* Optional rows inside a needed group say so, so nobody hunts for a column their monitor never writes. */}
-                      <span className="font-semibold">{info.label}</span>{" "}
-                      <span className="text-ink-soft">
-                        ({info.unit}
-                        {info.required === "optional" && group.title !== OPTIONAL_GROUP ? ", optional" : ""})
-                      </span>
+                      <span className="font-semibold">{info.label}</span> <span className="text-ink-soft">{unitNote(info.label, info.unit, info.required === "optional" && group.title !== OPTIONAL_GROUP)}</span>
                       <span className="block font-mono text-xs text-ink-soft">{field}</span>
                     </label>
                   </td>
@@ -138,13 +136,14 @@ export function MappingEditor({
                       ))}
                     </select>
                   </td>
-                  <td className="py-1.5 font-mono text-xs text-ink-soft">{examples(mapping[field])}</td>
+                  <td className="min-w-48 py-1.5 font-mono text-xs text-ink-soft">{examples(mapping[field])}</td>
                 </tr>
               );
             })}
           </tbody>
         ))}
       </table>
+      </div>
       {unmapped.length > 0 ? <p className="text-sm text-ink-soft">Columns not used: {unmapped.map((header) => `“${header}”`).join(", ")}.</p> : null}
       {problems.length > 0 ? (
         <ul role="alert" aria-label="Mapping problems" className="space-y-1 rounded-md border border-bad/40 bg-bad-pale px-3 py-2 text-sm text-bad">
@@ -159,6 +158,15 @@ export function MappingEditor({
       )}
     </div>
   );
+}
+
+/**
+ * The unit after a field's label, unless the label names it already ("Airmass of the star (sec z)" needs no second
+ * "(sec z)"), plus "optional" where that is worth saying. Empty when there is nothing to add.
+ */
+export function unitNote(label: string, unit: string, optional: boolean): string {
+  const parts = [...(label.includes(unit) ? [] : [unit]), ...(optional ? ["optional"] : [])];
+  return parts.length === 0 ? "" : `(${parts.join(", ")})`;
 }
 
 /** Problems that block the upload (the editor lists the same ones). */

@@ -40,6 +40,9 @@ const envSchema = z.object({
   CALMCREST_SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
   CALMCREST_SIGNIN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(20),
   CALMCREST_SIGNIN_WINDOW_S: z.coerce.number().int().min(1).default(900),
+  /** How long an invitation link works (72 hours) and a password reset link (2 hours). */
+  CALMCREST_INVITATION_TTL_S: z.coerce.number().int().min(1).default(72 * 3600),
+  CALMCREST_RESET_TTL_S: z.coerce.number().int().min(1).default(2 * 3600),
   /** Largest accepted upload. */
   CALMCREST_MAX_UPLOAD_MB: z.coerce.number().positive().default(256),
   /** Sample columns the summary workers may hold, in MB (about 68 bytes a sample: 256 MB is about 3.9 million samples). */

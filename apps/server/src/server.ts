@@ -36,7 +36,10 @@ export async function createContext(env: Env, options: { mailTransport?: MailTra
   const db = await openDatabase(env.dataDir);
   const samples = new SampleCache(db.sqlite);
   const gate = new WriteGate();
-  const store = createStore(db, samples, gate, { publicBaseUrl: env.publicBaseUrl });
+  const store = createStore(db, samples, gate, {
+    publicBaseUrl: env.publicBaseUrl,
+    linkLifetimes: { invitationMs: env.CALMCREST_INVITATION_TTL_S * 1000, resetMs: env.CALMCREST_RESET_TTL_S * 1000 },
+  });
   // Every change to a campaign's samples, exclusions or withdrawals raises its data version in the same transaction.
   store.onChange(dataVersionListener());
   const summaries = new SummaryService({ dbFile: db.file, sqlite: db.sqlite, columnCacheMaxBytes: env.CALMCREST_SAMPLE_CACHE_MB * 1024 * 1024 });

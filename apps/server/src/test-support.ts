@@ -6,6 +6,7 @@ import request from "supertest";
 import type { Express } from "express";
 import { afterAll } from "vitest";
 import { createApp } from "./app";
+import { hashPassword } from "./auth/passwords.server";
 import type { AppContext } from "./context";
 import { parseEnv } from "./env.server";
 import type { MailTransport } from "./mail/transport.server";
@@ -78,6 +79,14 @@ export async function tableRows(context: AppContext, table: string, where: Recor
 export async function countRows(context: AppContext, table: string, where: Record<string, unknown> = {}): Promise<number> {
   const row = await context.db.knex(table).where(where).count<{ n: number }[]>({ n: "*" }).first();
   return Number(row?.n ?? 0);
+}
+
+/**
+ * An active account with a password, made through the store as `npm run create-admin` does (people join by
+ * invitation in the app; tests that need a ready account use this). Returns its id.
+ */
+export async function createAccount(context: AppContext, input: { email: string; name: string; role: "admin" | "lead" | "engineer" | "committee"; password: string }): Promise<string> {
+  return context.store.users.create(null, { email: input.email.toLowerCase(), name: input.name, role: input.role }, await hashPassword(input.password));
 }
 
 /** The id of the account with that e-mail (the demo users exist in every test server). */

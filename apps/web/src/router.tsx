@@ -144,6 +144,9 @@ export function createRouter(queryClient: QueryClient) {
       element: <SignInPage />,
       hydrateFallbackElement: <LoadingPage />,
     },
+    // The pages an e-mail link opens: no session needed (the link is the credential).
+    { path: "/set-password", lazy: async () => ({ Component: (await import("./routes/set-password")).SetPasswordPage }), hydrateFallbackElement: <LoadingPage /> },
+    { path: "/reset-password", lazy: async () => ({ Component: (await import("./routes/reset-password")).ResetPasswordPage }), hydrateFallbackElement: <LoadingPage /> },
     {
       path: "/",
       loader: ({ request }) => requireMe(queryClient, request),

@@ -19,6 +19,37 @@ export const createUserSchema = z
   .superRefine(checkPasswordRules);
 export type CreateUserInput = z.infer<typeof createUserSchema>;
 
+/**
+ * Body of `POST /api/users/invitations` (admin): the person gets an e-mail with a one-time link (72 hours) to choose
+ * their password. Campaigns only for field engineers (other roles see by role).
+ */
+export const inviteSchema = z.object({
+  email: emailField,
+  name: nameField,
+  role: roleField,
+  campaignIds: z.array(z.number().int().positive()).max(200).default([]),
+});
+export type InviteInput = z.output<typeof inviteSchema>;
+export type InviteFormInput = z.input<typeof inviteSchema>;
+
+export type PasswordLinkPurpose = "invite" | "reset";
+
+/** `GET /api/auth/password-links/:token`: what a one-time link is for (the link itself is the credential). */
+export interface PasswordLinkInfo {
+  purpose: PasswordLinkPurpose;
+  email: string;
+  name: string;
+  expiresAt: string;
+}
+
+/** Body of `POST /api/auth/password-links/:token` (the rules that need the person are checked by the server). */
+export const setPasswordSchema = z.object({ password: passwordField.min(1, "Choose a password.") });
+export type SetPasswordInput = z.infer<typeof setPasswordSchema>;
+
+/** Body of `POST /api/auth/password-reset` (anyone): the same answer whether or not an account has the address. */
+export const resetRequestSchema = z.object({ email: emailField });
+export type ResetRequestInput = z.infer<typeof resetRequestSchema>;
+
 /** Body of `PATCH /api/users/:id` (admin). `undo` marks the change as the undo of the one just made. */
 export const patchUserSchema = z.object({ role: roleField, undo: z.boolean().optional() });
 export type PatchUserInput = z.infer<typeof patchUserSchema>;

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import type { CampaignDetail, Exclusion, ReportDetail, SiteDetail } from "@calmcrest/contracts";
 import { roleAllows } from "../access/access.server";
 import type { RouteTableEntry } from "../http/route-table";
-import { createTestServer, SAME_ORIGIN, signedInAgent, tableRows, userIdOf } from "../test-support";
+import { createAccount, createTestServer, SAME_ORIGIN, signedInAgent, tableRows, userIdOf } from "../test-support";
 import { routeTable } from "./index";
 import { postUpload, waitForUpload } from "./test-helpers";
 
@@ -36,7 +36,7 @@ const secondSite = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ name: 
 const secondMine = (await lead.post(`/api/sites/${secondSite.id}/campaigns`).set(SAME_ORIGIN).send({ name: "Mine too", monitor })).body as CampaignDetail;
 await admin.post(`/api/campaigns/${secondMine.id}/members`).set(SAME_ORIGIN).send({ userId: engineerId });
 /** An account the account routes act on, so the demo agents keep their roles and sessions. */
-const spare = (await admin.post("/api/users").set(SAME_ORIGIN).send({ email: "spare@calmcrest.test", name: "Spare Person", role: "committee", password: "quartz-meadow-falcon-3" })).body as { id: string };
+const spare = { id: await createAccount(context, { email: "spare@calmcrest.test", name: "Spare Person", role: "committee", password: "quartz-meadow-falcon-3" }) };
 let spareRole: "committee" | "lead" = "committee";
 
 let fileCounter = 0;
@@ -228,9 +228,23 @@ const cases: RouteCase[] = [
   }),
   { route: "GET /api/users", send: (r) => as(r).get("/api/users"), ok: 200 },
   {
-    route: "POST /api/users",
-    send: (r) => as(r).post("/api/users").set(SAME_ORIGIN).send({ email: `made-by-${r ?? "nobody"}@calmcrest.test`, name: "Made", role: "engineer", password: "a-long-password" }),
+    route: "POST /api/users/invitations",
+    send: (r) => as(r).post("/api/users/invitations").set(SAME_ORIGIN).send({ email: `invited-by-${r ?? "nobody"}@calmcrest.test`, name: "Invited", role: "engineer", campaignIds: [mine.id] }),
     ok: 201,
+  },
+  { route: "POST /api/users/:id/password-link", send: (r) => as(r).post(`/api/users/${spare.id}/password-link`).set(SAME_ORIGIN), ok: 200 },
+  {
+    // Public, with the same answer for any address.
+    route: "POST /api/auth/password-reset",
+    send: (r) => as(r).post("/api/auth/password-reset").set(SAME_ORIGIN).send({ email: `reset-${r ?? "nobody"}@calmcrest.test` }),
+    ok: 202,
+  },
+  // An unknown link is a 404 for everyone (the link is the credential, so no session is needed).
+  { route: "GET /api/auth/password-links/:token", send: (r) => as(r).get(`/api/auth/password-links/not-a-link-${r ?? "x"}`), ok: 404 },
+  {
+    route: "POST /api/auth/password-links/:token",
+    send: (r) => as(r).post(`/api/auth/password-links/not-a-link-${r ?? "x"}`).set(SAME_ORIGIN).send({ password: "quartz-meadow-falcon-3" }),
+    ok: 404,
   },
   { route: "GET /api/outbox", send: (r) => as(r).get("/api/outbox"), ok: 200 },
   { route: "GET /api/reports", send: (r) => as(r).get("/api/reports"), ok: 200 },
@@ -307,7 +321,7 @@ let throwaways = 0;
 async function makeThrowaway(role: Role): Promise<string> {
   throwaways += 1;
   const email = `throwaway-${throwaways}@calmcrest.test`;
-  await admin.post("/api/users").set(SAME_ORIGIN).send({ email, name: `Throwaway ${throwaways}`, role, password: "quartz-meadow-falcon-3" });
+  await createAccount(context, { email, name: `Throwaway ${throwaways}`, role, password: "quartz-meadow-falcon-3" });
   return email;
 }
 

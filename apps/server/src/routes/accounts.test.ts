@@ -1,7 +1,7 @@
 import request from "supertest";
 import { describe, expect, it } from "vitest";
 import type { AuditPage, UserDetail, UserListItem } from "@calmcrest/contracts";
-import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createTestServer, signedInAgent, userIdOf } from "../test-support";
+import { DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, createAccount, createTestServer, signedInAgent, userIdOf } from "../test-support";
 
 const { app, context } = await createTestServer();
 const admin = await signedInAgent(app, "admin");
@@ -10,9 +10,16 @@ const adminId = await userIdOf(context, "admin@calmcrest.test");
 const GOOD_PASSWORD = "granite-lantern-orbit-7";
 
 async function newPerson(email: string, role: "admin" | "lead" | "engineer" | "committee" = "engineer", name = "Mira Osei"): Promise<UserListItem> {
-  const response = await admin.post("/api/users").set(SAME_ORIGIN).send({ email, name, role, password: GOOD_PASSWORD });
-  if (response.status !== 201) throw new Error(`create ${email}: ${response.status} ${JSON.stringify(response.body)}`);
-  return response.body as UserListItem;
+  return context.store.users.listItem(await createAccount(context, { email, name, role, password: GOOD_PASSWORD }));
+}
+
+/** The token of the newest one-time link e-mailed to `email` (from the outbox, as the person would click it). */
+async function linkTokenFor(email: string): Promise<string> {
+  await context.signInGuard.settled();
+  const [message] = await context.store.outbox.list({ to: email, limit: 1 });
+  const url = message?.links[0]?.url;
+  if (!url) throw new Error(`No e-mail with a link to ${email}`);
+  return new URL(url).searchParams.get("token") ?? "";
 }
 
 async function agentFor(email: string, password = GOOD_PASSWORD) {
@@ -22,17 +29,109 @@ async function agentFor(email: string, password = GOOD_PASSWORD) {
   return agent;
 }
 
-describe("password rules on the server", () => {
-  it("refuses a short password, one holding the e-mail or name, and a common one, naming each problem", async () => {
-    const tryPassword = (password: string) => admin.post("/api/users").set(SAME_ORIGIN).send({ email: "kofi.mensah@calmcrest.test", name: "Kofi Mensah", role: "lead", password });
-    const short = await tryPassword("short-pass");
-    expect(short.status).toBe(400);
-    expect(short.body.error.fields.password).toEqual(["Use at least 12 characters (this one has 10)."]);
-    expect((await tryPassword("Kofi.Mensah-2026")).body.error.fields.password).toEqual(["Do not use your e-mail address or your name in the password."]);
-    expect((await tryPassword("kofimensah@calmcrest")).status).toBe(400);
-    expect((await tryPassword("Password1234")).body.error.fields.password).toEqual(["This is a commonly used password that is guessed early; choose another."]);
-    expect((await tryPassword("calmcrest-demo")).status).toBe(400);
-    expect((await tryPassword(GOOD_PASSWORD)).status).toBe(201);
+describe("invitations", () => {
+  it("creates an invited account with its campaigns and e-mails a one-time link whose token is stored only hashed", async () => {
+    const invited = await admin.post("/api/users/invitations").set(SAME_ORIGIN).send({ email: "Kofi.Mensah@Calmcrest.test", name: "Kofi Mensah", role: "lead" });
+    expect(invited.status).toBe(201);
+    expect(invited.body).toMatchObject({ email: "kofi.mensah@calmcrest.test", role: "lead", status: "invited", lastSignInAt: null });
+    const [message] = await context.store.outbox.list({ to: "kofi.mensah@calmcrest.test" });
+    expect(message?.kind).toBe("invitation");
+    expect(message?.subject).toBe("Your Calmcrest invitation");
+    expect(message?.text).toMatch(/Ines Okafor invites you to Calmcrest/);
+    const token = await linkTokenFor("kofi.mensah@calmcrest.test");
+    expect(token).toMatch(/^[A-Za-z0-9_-]{43}$/);
+    const stored = await context.db.knex("account_token").select<{ token_hash: string }[]>("token_hash");
+    expect(stored.some((row) => row.token_hash.includes(token))).toBe(false);
+    // Not yet able to sign in: no password (answered like an unknown account).
+    expect((await request(app).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "kofi.mensah@calmcrest.test", password: "" })).status).toBe(400);
+    expect((await admin.post("/api/users/invitations").set(SAME_ORIGIN).send({ email: "kofi.mensah@calmcrest.test", name: "Again", role: "lead" })).status).toBe(409);
+  });
+
+  it("refuses a password that breaks the rules, naming each problem, then sets a good one once: the person signs in, the link is spent", async () => {
+    await admin.post("/api/users/invitations").set(SAME_ORIGIN).send({ email: "ama.owusu@calmcrest.test", name: "Ama Owusu", role: "committee" });
+    const token = await linkTokenFor("ama.owusu@calmcrest.test");
+    const info = await request(app).get(`/api/auth/password-links/${token}`);
+    expect(info.body).toMatchObject({ purpose: "invite", email: "ama.owusu@calmcrest.test", name: "Ama Owusu" });
+    const setPassword = (password: string) => request(app).post(`/api/auth/password-links/${token}`).set(SAME_ORIGIN).send({ password });
+    expect((await setPassword("short-pass")).body.error.fields.password).toEqual(["Use at least 12 characters (this one has 10)."]);
+    expect((await setPassword("Ama.Owusu-2026!")).body.error.fields.password).toEqual(["Do not use your e-mail address or your name in the password."]);
+    expect((await setPassword("Password1234")).body.error.fields.password).toEqual(["This is a commonly used password that is guessed early; choose another."]);
+    expect((await setPassword("calmcrest-demo")).status).toBe(400);
+    const set = await setPassword(GOOD_PASSWORD);
+    expect(set.status).toBe(200);
+    expect(((await admin.get("/api/users")).body as UserListItem[]).find((user) => user.email === "ama.owusu@calmcrest.test")?.status).toBe("active");
+    await agentFor("ama.owusu@calmcrest.test");
+    const reused = await setPassword("another-good-phrase-5");
+    expect(reused.status).toBe(410);
+    expect(reused.body.error.code).toBe("link_used");
+    expect(reused.body.error.message).toMatch(/used already; each link works once/);
+    expect((await request(app).get(`/api/auth/password-links/${token}`)).status).toBe(410);
+  });
+
+  it("refuses an expired link with the date it expired and what to do", async () => {
+    const invited = (await admin.post("/api/users/invitations").set(SAME_ORIGIN).send({ email: "late.person@calmcrest.test", name: "Late Person", role: "lead" })).body as UserListItem;
+    const token = await linkTokenFor("late.person@calmcrest.test");
+    await context.db.knex("account_token").where({ user_id: invited.id }).update({ expires_at: "2026-01-01T00:00:00.000Z" });
+    const expired = await request(app).post(`/api/auth/password-links/${token}`).set(SAME_ORIGIN).send({ password: GOOD_PASSWORD });
+    expect(expired.status).toBe(410);
+    expect(expired.body.error.message).toBe("This invitation expired on 2026-01-01 00:00 UTC. Ask an administrator to send a new invitation.");
+    // A new link from the person's page works, and the old one stays dead.
+    const resent = await admin.post(`/api/users/${invited.id}/password-link`).set(SAME_ORIGIN);
+    expect(resent.body.purpose).toBe("invite");
+    const fresh = await linkTokenFor("late.person@calmcrest.test");
+    expect(fresh).not.toBe(token);
+    expect((await request(app).post(`/api/auth/password-links/${fresh}`).set(SAME_ORIGIN).send({ password: GOOD_PASSWORD })).status).toBe(200);
+  });
+
+  it("gives an invited engineer the chosen campaigns, and records the invitation and the password in the audit log", async () => {
+    const lead = await signedInAgent(app, "lead");
+    const site = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ name: "Invite Ridge", latitude: -24, longitude: -69, elevationM: 3000 })).body as { id: number };
+    const campaign = (await lead.post(`/api/sites/${site.id}/campaigns`).set(SAME_ORIGIN).send({ name: "Invite campaign", monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 } })).body as { id: number };
+    const invited = await admin.post("/api/users/invitations").set(SAME_ORIGIN).send({ email: "field.new@calmcrest.test", name: "Field New", role: "engineer", campaignIds: [campaign.id] });
+    expect(invited.body.campaigns.map((item: { id: number }) => item.id)).toEqual([campaign.id]);
+    expect((await admin.post("/api/users/invitations").set(SAME_ORIGIN).send({ email: "ghost.campaign@calmcrest.test", name: "Ghost", role: "engineer", campaignIds: [999_999] })).status).toBe(400);
+    const token = await linkTokenFor("field.new@calmcrest.test");
+    await request(app).post(`/api/auth/password-links/${token}`).set(SAME_ORIGIN).send({ password: GOOD_PASSWORD });
+    const engineer = await agentFor("field.new@calmcrest.test");
+    expect(((await engineer.get("/api/sites")).body as { id: number }[]).map((item) => item.id)).toEqual([site.id]);
+    const rows = await context.store.audit.list({ targetType: "user", targetId: invited.body.id });
+    expect(rows.map((row) => row.action)).toEqual(["user.invite", "auth.password_set", "auth.sign_in"]);
+    expect(rows[1]?.details).toEqual({ via: "invitation" });
+  });
+});
+
+describe("password reset by e-mail", () => {
+  it("answers the same at once for a known and an unknown address, e-mails a link only to the account, and ends its old sessions", async () => {
+    const person = await newPerson("forgetful@calmcrest.test", "lead", "Forgetful Person");
+    const open = await agentFor(person.email);
+    const known = await request(app).post("/api/auth/password-reset").set(SAME_ORIGIN).send({ email: "Forgetful@Calmcrest.test" });
+    const unknown = await request(app).post("/api/auth/password-reset").set(SAME_ORIGIN).send({ email: "nobody.at.all@calmcrest.test" });
+    expect(known.status).toBe(202);
+    expect(unknown.status).toBe(202);
+    expect(known.body.message.replace("forgetful@calmcrest.test", "X")).toBe(unknown.body.message.replace("nobody.at.all@calmcrest.test", "X"));
+    await context.signInGuard.settled();
+    expect(await context.store.outbox.list({ to: "nobody.at.all@calmcrest.test" })).toEqual([]);
+    const token = await linkTokenFor(person.email);
+    expect((await request(app).get(`/api/auth/password-links/${token}`)).body.purpose).toBe("reset");
+    expect((await request(app).post(`/api/auth/password-links/${token}`).set(SAME_ORIGIN).send({ password: "Forgetful-Person-1" })).status).toBe(400);
+    expect((await request(app).post(`/api/auth/password-links/${token}`).set(SAME_ORIGIN).send({ password: "harbour-lichen-comet-4" })).status).toBe(200);
+    expect((await open.get("/api/me")).status).toBe(401);
+    expect((await request(app).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: person.email, password: GOOD_PASSWORD })).status).toBe(401);
+    await agentFor(person.email, "harbour-lichen-comet-4");
+    const rows = await context.store.audit.list({ targetType: "user", targetId: person.id });
+    expect(rows.filter((row) => row.action.startsWith("auth.password")).map((row) => [row.action, row.details.by ?? row.details.via])).toEqual([
+      ["auth.password_reset_requested", "self"],
+      ["auth.password_set", "reset"],
+    ]);
+  });
+
+  it("sends no link to a deactivated account, and a link made before deactivation no longer works", async () => {
+    const person = await newPerson("soon.gone@calmcrest.test", "lead", "Soon Gone");
+    await admin.post(`/api/users/${person.id}/password-link`).set(SAME_ORIGIN).expect(200);
+    const token = await linkTokenFor(person.email);
+    await admin.post(`/api/users/${person.id}/deactivate`).set(SAME_ORIGIN).expect(200);
+    expect((await request(app).post(`/api/auth/password-links/${token}`).set(SAME_ORIGIN).send({ password: "harbour-lichen-comet-4" })).status).toBe(403);
+    expect((await admin.post(`/api/users/${person.id}/password-link`).set(SAME_ORIGIN)).status).toBe(409);
   });
 });
 

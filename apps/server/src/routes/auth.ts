@@ -1,8 +1,8 @@
 import type { Request } from "express";
-import { signInSchema, type Me } from "@calmcrest/contracts";
+import { passwordProblems, resetRequestSchema, setPasswordSchema, signInSchema, type Me } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { startSession } from "../auth/lucia.server";
-import { checkSignInPassword } from "../auth/passwords.server";
+import { checkSignInPassword, hashPassword } from "../auth/passwords.server";
 import { describeWait } from "../auth/sign-in-guard.server";
 import { HttpError, parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
@@ -62,6 +62,31 @@ export function authRoutes({ store, lucia, signInGuard }: AppContext): ApiRouter
     if (res.locals.session) await lucia.invalidateSession(res.locals.session.id);
     res.append("Set-Cookie", lucia.createBlankSessionCookie().serialize());
     res.json({ ok: true });
+  });
+
+  // Password reset by e-mail: the same answer, at once, whether or not an account has the address; the link (for
+  // an active account only) is made and queued in the background, so the time taken tells nothing either.
+  routes.route("POST", "/password-reset", { access: "public" }, async (req, res) => {
+    const input = parseOr400(resetRequestSchema, req.body, "The password reset form");
+    signInGuard.track(() => store.accountLinks.requestReset(input.email));
+    res.status(202).json({ ok: true, message: `If ${input.email} belongs to an active Calmcrest account, a link to choose a new password is on its way. It works once, for 2 hours.` });
+  });
+
+  routes.route("GET", "/password-links/:token", { access: "public" }, async (req, res) => {
+    res.json(await store.accountLinks.info(String(req.params.token)));
+  });
+
+  routes.route("POST", "/password-links/:token", { access: "public" }, async (req, res) => {
+    const token = String(req.params.token);
+    const input = parseOr400(setPasswordSchema, req.body, "The new password");
+    const link = await store.accountLinks.info(token);
+    const problems = passwordProblems(input.password, link);
+    if (problems.length > 0) throw new HttpError(400, "invalid_input", `The new password has invalid fields. password: ${problems.join(" ")}`, { password: problems });
+    // Hashing takes a while: done before the write takes the write gate.
+    const { userId, purpose } = await store.accountLinks.use(token, await hashPassword(input.password));
+    // After a reset, every session that was open with the old password ends.
+    if (purpose === "reset") await lucia.invalidateUserSessions(userId);
+    res.json({ ok: true, email: link.email });
   });
 
   routes.route("POST", "/sign-out-everywhere", { access: "signed-in" }, async (_req, res) => {

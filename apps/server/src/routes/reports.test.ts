@@ -6,7 +6,7 @@ import type { OutboxList, OutboxMessage, ReportComments, ReportDetail, ReportLis
 import { expectConsoleError } from "../../../../tests/support/fail-on-console-error";
 import { seedDemoScenario } from "../seed/demo-scenario";
 import { monitorOf } from "../store/index";
-import { countRows, createTestServer, SAME_ORIGIN, signedInAgent, userIdOf } from "../test-support";
+import { countRows, createAccount, createTestServer, SAME_ORIGIN, signedInAgent, userIdOf } from "../test-support";
 import { postUpload, waitForUpload } from "./test-helpers";
 
 // The report loop end to end through the API, on the demo ridges at a tenth of their length.
@@ -217,7 +217,7 @@ describe("a report from a comparison", async () => {
 
 describe("sharing", async () => {
   const report = await newReport("Named readers only");
-  const secondMember = (await admin.post("/api/users").set(SAME_ORIGIN).send({ email: "second@calmcrest.test", name: "Second Member", role: "committee", password: "a-long-password" })).body as { id: string };
+  const secondMember = { id: await createAccount(context, { email: "second@calmcrest.test", name: "Second Member", role: "committee", password: "a-long-password" }) };
   const recipients = (await lead.get("/api/reports/recipients")).body as { id: string }[];
 
   it("restricts a report to named committee members: others get 404 and no e-mail", async () => {

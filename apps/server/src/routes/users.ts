@@ -1,6 +1,5 @@
-import { changeEmailSchema, createUserSchema, patchUserSchema } from "@calmcrest/contracts";
+import { changeEmailSchema, inviteSchema, patchUserSchema } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
-import { hashPassword } from "../auth/passwords.server";
 import { parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
@@ -14,12 +13,19 @@ export function userRoutes(context: AppContext): ApiRouter {
     res.json(await store.users.list());
   });
 
-  routes.route("POST", "/", { access: ["admin"] }, async (req, res) => {
+  // People join by invitation: an e-mail with a one-time link to choose their own password. (The first
+  // administrator of an installation is made with `npm run create-admin`.)
+  routes.route("POST", "/invitations", { access: ["admin"] }, async (req, res) => {
     const admin = currentUser(res.locals);
-    const input = parseOr400(createUserSchema, req.body, "The new account");
-    // Hashing takes a while: done before the write takes the write gate.
-    const userId = await store.users.create(admin.id, input, await hashPassword(input.password));
+    const input = parseOr400(inviteSchema, req.body, "The invitation");
+    const userId = await store.accountLinks.invite(admin.id, input);
     res.status(201).json(await store.users.listItem(userId));
+  });
+
+  /** A new invitation (no password yet) or a password reset link, by e-mail; earlier open links stop working. */
+  routes.route("POST", "/:id/password-link", { access: ["admin"] }, async (req, res) => {
+    const admin = currentUser(res.locals);
+    res.json(await store.accountLinks.sendLink(admin.id, String(req.params.id)));
   });
 
   routes.route("GET", "/:id", { access: ["admin"] }, async (req, res) => {

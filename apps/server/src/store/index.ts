@@ -1,5 +1,6 @@
 import type { AppDatabase } from "../db/database.server";
 import type { SampleCache } from "../summaries/sample-cache.server";
+import { accountLinksStore, type LinkLifetimes } from "./account-links";
 import { auditStore } from "./audit";
 import { campaignsStore } from "./campaigns";
 import { StoreCore } from "./core";
@@ -16,7 +17,7 @@ import type { WriteGate } from "./write-gate";
 // per aggregate; every write runs in one transaction with its audit row and the cache invalidation it needs
 // (StoreCore.write). Modules that must hear of every change register a listener with onChange.
 
-export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGate, options: { publicBaseUrl?: string } = {}) {
+export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGate, options: { publicBaseUrl?: string; linkLifetimes?: LinkLifetimes } = {}) {
   const core = new StoreCore(db, samples, gate, options.publicBaseUrl);
   const campaigns = campaignsStore(core);
   const audit = auditStore(core);
@@ -33,6 +34,8 @@ export function createStore(db: AppDatabase, samples: SampleCache, gate: WriteGa
     uploads: uploadsStore(core, { campaignForUser: campaigns.forUser }),
     users: usersStore(core, audit),
     audit,
+    /** Invitations and password resets: one-time links, stored hashed, with their e-mails. */
+    accountLinks: accountLinksStore(core, options.linkLifetimes ?? { invitationMs: 72 * 3600_000, resetMs: 2 * 3600_000 }),
     /** E-mail waiting to be sent or sent; `queueMail(trx, …)` queues one inside a write (store/outbox.ts). */
     outbox: outboxStore(core),
     /** Committee reports: working copies, frozen versions, sharing, comments (and the e-mails they queue). */

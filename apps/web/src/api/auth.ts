@@ -1,5 +1,5 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { Me, SignInInput } from "@calmcrest/contracts";
+import type { Me, PasswordLinkInfo, ResetRequestInput, SetPasswordInput, SignInInput } from "@calmcrest/contracts";
 import { ApiError, api } from "./client";
 
 /** The signed-in user, or null when signed out. */
@@ -19,3 +19,13 @@ export const meQuery = queryOptions({
 export const signIn = (input: SignInInput) => api<Me>("/auth/sign-in", { body: input });
 export const signOut = () => api<{ ok: true }>("/auth/sign-out", { method: "POST" });
 export const signOutEverywhere = () => api<{ ok: true }>("/auth/sign-out-everywhere", { method: "POST" });
+
+export const passwordLinkQuery = (token: string) =>
+  queryOptions({
+    queryKey: ["password-link", token],
+    queryFn: () => api<PasswordLinkInfo>(`/auth/password-links/${encodeURIComponent(token)}`),
+    retry: false,
+    staleTime: Infinity,
+  });
+export const setPassword = (token: string, input: SetPasswordInput) => api<{ ok: true; email: string }>(`/auth/password-links/${encodeURIComponent(token)}`, { body: input });
+export const requestPasswordReset = (input: ResetRequestInput) => api<{ ok: true; message: string }>("/auth/password-reset", { body: input });

@@ -1,5 +1,5 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { ChangeEmailInput, CreateUserInput, PatchUserInput, UserDetail, UserListItem } from "@calmcrest/contracts";
+import type { ChangeEmailInput, InviteFormInput, PasswordLinkPurpose, PatchUserInput, UserDetail, UserListItem } from "@calmcrest/contracts";
 import { api } from "./client";
 
 export const usersQuery = queryOptions({
@@ -7,7 +7,8 @@ export const usersQuery = queryOptions({
   queryFn: () => api<UserListItem[]>("/users"),
 });
 
-export const createUser = (input: CreateUserInput) => api<UserListItem>("/users", { body: input });
+export const inviteUser = (input: InviteFormInput) => api<UserListItem>("/users/invitations", { body: input });
+export const sendPasswordLink = (userId: string) => api<{ purpose: PasswordLinkPurpose; expiresAt: string }>(`/users/${encodeURIComponent(userId)}/password-link`, { method: "POST" });
 export const patchUser = (userId: string, input: PatchUserInput) =>
   api<UserListItem>(`/users/${encodeURIComponent(userId)}`, { method: "PATCH", body: input });
 

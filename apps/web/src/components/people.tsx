@@ -34,7 +34,7 @@ export function StatusBadge({ status }: { status: AccountStatus }) {
 
 /** Why a role cannot be changed here, or null when it can. */
 export function roleLock(user: UserListItem, everyone: readonly UserListItem[]): string | null {
-  if (user.status !== "active") return user.status === "invited" ? "Set when they accept the invitation; change it afterwards." : "Reactivate the account to change its role.";
+  if (user.status === "deactivated") return "Reactivate the account to change its role.";
   const otherActiveAdmins = everyone.filter((other) => other.id !== user.id && other.role === "admin" && other.status === "active");
   if (user.role === "admin" && otherActiveAdmins.length === 0) {
     return "Locked: the last active administrator keeps this role, so someone can always manage accounts. Make another person an administrator first.";

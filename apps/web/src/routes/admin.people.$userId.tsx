@@ -5,7 +5,7 @@ import { useSuspenseQuery } from "@tanstack/react-query";
 import { Link, useParams } from "react-router-dom";
 import { AUDIT_ACTION_LABELS, changeEmailSchema, ROLE_LABELS, type ChangeEmailInput } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
-import { changeEmail, deactivateUser, reactivateUser, signOutUserEverywhere, userQuery, usersQuery } from "../api/users";
+import { changeEmail, deactivateUser, reactivateUser, sendPasswordLink, signOutUserEverywhere, userQuery, usersQuery } from "../api/users";
 import { Notice, Page } from "../components/page";
 import { ChangeRoleButton, ConfirmButton, SavedBanner, StatusBadge, messageOf, roleLock, useRefreshPeople, type SavedNote } from "../components/people";
 import { formatDateTimeUtc } from "../lib/format";
@@ -127,6 +127,24 @@ export function PersonPage() {
           </h2>
           <EmailForm key={person.email} userId={person.id} email={person.email} onSaved={onSaved} />
           <div className="flex flex-wrap gap-2">
+            {person.status === "deactivated" ? null : (
+              <ConfirmButton
+                label={person.status === "invited" ? "Send a new invitation" : "Send a password reset link"}
+                title={person.status === "invited" ? `Send ${person.name} a new invitation?` : `Send ${person.name} a password reset link?`}
+                consequences={
+                  <p>
+                    {person.email} gets an e-mail with a link that works once ({person.status === "invited" ? "for 72 hours" : "for 2 hours"}) to choose {person.status === "invited" ? "their password" : "a new password"}. Links sent
+                    earlier stop working.{person.status === "invited" ? "" : " Their current password keeps working until they choose a new one; then every session ends."}
+                  </p>
+                }
+                confirmLabel="Send the e-mail"
+                action={async () => {
+                  const sent = await sendPasswordLink(person.id);
+                  await refresh();
+                  onSaved({ text: `${sent.purpose === "invite" ? "A new invitation" : "A password reset link"} is on its way to ${person.email}, valid until ${formatDateTimeUtc(sent.expiresAt)}.` });
+                }}
+              />
+            )}
             <ConfirmButton
               label="Sign out everywhere"
               title={`End every session of ${person.name}?`}

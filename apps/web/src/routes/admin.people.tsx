@@ -3,10 +3,10 @@ import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useSuspenseQuery } from "@tanstack/react-query";
 import { Link } from "react-router-dom";
-import { createUserSchema, PASSWORD_RULES_TEXT, ROLE_LABELS, ROLES, type CreateUserInput, type UserListItem } from "@calmcrest/contracts";
+import { inviteSchema, ROLE_LABELS, ROLES, type InviteFormInput, type InviteInput, type UserListItem } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
 import { addMember, removeMember } from "../api/campaigns";
-import { createUser, usersQuery } from "../api/users";
+import { inviteUser, usersQuery } from "../api/users";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
 import { Page } from "../components/page";
 import { ChangeRoleButton, SavedBanner, StatusBadge, messageOf, roleLock, useRefreshPeople, type SavedNote } from "../components/people";
@@ -102,67 +102,82 @@ function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSa
   );
 }
 
-function NewPerson({ onSaved }: { onSaved: Report }) {
+function InvitePerson({ onSaved }: { onSaved: Report }) {
   const refresh = useRefreshPeople();
+  const { campaigns } = useVisibleCampaigns();
   const [failure, setFailure] = useState<string | null>(null);
-  const { register, handleSubmit, formState, reset } = useForm<CreateUserInput>({ resolver: zodResolver(createUserSchema), defaultValues: { role: "engineer" } });
+  // The campaign boxes are kept here (a form library reads one checkbox as true/false, several as a list).
+  const [campaignIds, setCampaignIds] = useState<number[]>([]);
+  const { register, handleSubmit, formState, reset, watch } = useForm<InviteFormInput, unknown, InviteInput>({ resolver: zodResolver(inviteSchema), defaultValues: { role: "engineer", campaignIds: [] } });
+  const role = watch("role");
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
     try {
-      const user = await createUser(input);
-      reset({ role: "engineer", email: "", name: "", password: "" });
+      const user = await inviteUser({ ...input, campaignIds: input.role === "engineer" ? campaignIds : [] });
+      reset({ role: "engineer", email: "", name: "", campaignIds: [] });
+      setCampaignIds([]);
       await refresh();
-      onSaved({ text: `${user.name} can now sign in as ${user.email}. Give them the first password by a separate channel.` });
+      onSaved({ text: `Invitation sent to ${user.name} <${user.email}>. The link works once, for 72 hours; they choose their own password (the Outbox shows the message).` });
     } catch (error) {
-      setFailure(messageOf(error, "The account could not be created. Try again."));
+      setFailure(messageOf(error, "The invitation could not be sent. Try again."));
     }
   });
   const fields = [
-    ["name", "Name", "text", "name"],
+    ["name", "Name", "text", "off"],
     ["email", "E-mail", "email", "off"],
-    ["password", "First password", "password", "new-password"],
   ] as const;
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-3 rounded-lg border border-line bg-panel p-4" aria-labelledby="new-person-heading">
-      <h2 id="new-person-heading" className="text-lg font-semibold">
-        Add a person
+    <form onSubmit={onSubmit} noValidate className="space-y-3 rounded-lg border border-line bg-panel p-4" aria-labelledby="invite-heading">
+      <h2 id="invite-heading" className="text-lg font-semibold">
+        Invite a person
       </h2>
-      <p id="password-rules" className="text-sm text-ink-soft">
-        Password rules: {PASSWORD_RULES_TEXT}
-      </p>
-      <div className="grid gap-3 md:grid-cols-2 xl:grid-cols-4">
+      <p className="text-sm text-ink-soft">They get an e-mail with a link that works once, for 72 hours, to choose their own password. Nobody else ever sees it.</p>
+      <div className="grid gap-3 md:grid-cols-3">
         {fields.map(([name, label, type, autoComplete]) => (
           <div key={name}>
-            <label htmlFor={`new-${name}`} className="block text-sm font-semibold">
+            <label htmlFor={`invite-${name}`} className="block text-sm font-semibold">
               {label}
             </label>
-            <input
-              id={`new-${name}`}
-              type={type}
-              autoComplete={autoComplete}
-              aria-invalid={formState.errors[name] ? true : undefined}
-              aria-describedby={name === "password" ? "password-rules" : undefined}
-              className="mt-1 w-full rounded-md border border-line px-2 py-1.5"
-              {...register(name)}
-            />
+            <input id={`invite-${name}`} type={type} autoComplete={autoComplete} aria-invalid={formState.errors[name] ? true : undefined} className="mt-1 w-full rounded-md border border-line px-2 py-1.5" {...register(name)} />
             {formState.errors[name] ? <p className="mt-1 text-xs text-bad">{formState.errors[name]?.message}</p> : null}
           </div>
         ))}
         <div>
-          <label htmlFor="new-role" className="block text-sm font-semibold">
+          <label htmlFor="invite-role" className="block text-sm font-semibold">
             Role
           </label>
-          <select id="new-role" className="mt-1 w-full rounded-md border border-line bg-panel px-2 py-1.5" {...register("role")}>
-            {ROLES.map((role) => (
-              <option key={role} value={role}>
-                {ROLE_LABELS[role]}
+          <select id="invite-role" className="mt-1 w-full rounded-md border border-line bg-panel px-2 py-1.5" {...register("role")}>
+            {ROLES.map((option) => (
+              <option key={option} value={option}>
+                {ROLE_LABELS[option]}
               </option>
             ))}
           </select>
         </div>
       </div>
+      {role === "engineer" ? (
+        <fieldset>
+          <legend className="text-sm font-semibold">Campaigns they work on (field engineers see only these)</legend>
+          {campaigns.length === 0 ? (
+            <p className="text-sm text-ink-soft">No campaigns yet: a survey lead creates them on a site's page. You can add the person to campaigns later.</p>
+          ) : (
+            <div className="mt-1 grid gap-1 sm:grid-cols-2 lg:grid-cols-3">
+              {campaigns.map((campaign) => (
+                <label key={campaign.id} className="flex items-center gap-2 text-sm">
+                  <input
+                    type="checkbox"
+                    checked={campaignIds.includes(campaign.id)}
+                    onChange={(event) => setCampaignIds((ids) => (event.target.checked ? [...ids, campaign.id] : ids.filter((id) => id !== campaign.id)))}
+                  />
+                  {campaign.siteName} — {campaign.name}
+                </label>
+              ))}
+            </div>
+          )}
+        </fieldset>
+      ) : null}
       <button type="submit" disabled={formState.isSubmitting} className="rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
-        Create account
+        Send invitation
       </button>
       {failure ? (
         <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
@@ -250,7 +265,7 @@ export function PeoplePage() {
               ))}
           </ul>
         </section>
-        <NewPerson onSaved={onSaved} />
+        <InvitePerson onSaved={onSaved} />
       </div>
     </Page>
   );

@@ -2,7 +2,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useQueryClient } from "@tanstack/react-query";
-import { useNavigate, useSearchParams } from "react-router-dom";
+import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import { signInSchema, type SignInInput } from "@calmcrest/contracts";
 import { meQuery, signIn } from "../api/auth";
 import { ApiError } from "../api/client";
@@ -14,7 +14,9 @@ export function SignInPage() {
   const navigate = useNavigate();
   const [searchParams] = useSearchParams();
   const [failure, setFailure] = useState<string | null>(null);
-  const { register, handleSubmit, formState } = useForm<SignInInput>({ resolver: zodResolver(signInSchema) });
+  // After choosing a password from an e-mail link the page says so and fills in the address.
+  const passwordJustSet = searchParams.get("password") === "set";
+  const { register, handleSubmit, formState } = useForm<SignInInput>({ resolver: zodResolver(signInSchema), defaultValues: { email: searchParams.get("email") ?? "" } });
 
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
@@ -41,6 +43,11 @@ export function SignInPage() {
           </div>
         </div>
         <h1 className="mb-4 text-lg font-semibold">Sign in</h1>
+        {passwordJustSet ? (
+          <p role="status" className="mb-4 rounded-md bg-accent-pale px-3 py-2 text-sm text-accent-strong">
+            Your password is saved. Sign in with it now.
+          </p>
+        ) : null}
         <form onSubmit={onSubmit} noValidate className="space-y-4">
           <div>
             <label htmlFor="email" className="block text-sm font-semibold">E-mail</label>
@@ -79,6 +86,11 @@ export function SignInPage() {
             {formState.isSubmitting ? "Signing in…" : "Sign in"}
           </button>
         </form>
+        <p className="mt-4 text-sm">
+          <Link to="/reset-password" className="font-semibold text-accent underline-offset-2 hover:underline">
+            Forgotten your password?
+          </Link>
+        </p>
       </div>
     </main>
   );

@@ -185,6 +185,16 @@ describe("administration in a browser", () => {
     });
   }
 
+  it("lets a person end all their own sessions from their account page", async () => {
+    // The committee member signed in at the end of the sign-in limit test.
+    const { page } = other;
+    await page.goto(`${server.url}/account`);
+    await page.getByRole("button", { name: "Sign out everywhere" }).click();
+    await page.getByRole("dialog", { name: "Sign out on every device?" }).getByRole("button", { name: "Sign out everywhere" }).click();
+    await page.waitForURL(/\/sign-in/);
+    expect(await page.evaluate(async () => (await fetch("/api/me")).status)).toBe(401);
+  });
+
   it("saw no page errors or console errors", () => {
     // The refused sign-ins (401, 403, 429) and the refused demotion (409) are logged by chromium as failed resources.
     expect([...admin.problems, ...other.problems].filter((problem) => !/status of (403|409|429)/.test(problem))).toEqual([]);

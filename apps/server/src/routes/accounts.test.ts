@@ -125,6 +125,15 @@ describe("password reset by e-mail", () => {
     ]);
   });
 
+  it("sends at most 3 reset e-mails to one address in 15 minutes, with the same answer every time", async () => {
+    const person = await newPerson("impatient@calmcrest.test", "lead", "Impatient Person");
+    const answers = [];
+    for (let attempt = 0; attempt < 5; attempt += 1) answers.push((await request(app).post("/api/auth/password-reset").set(SAME_ORIGIN).send({ email: person.email })).body.message);
+    expect(new Set(answers).size).toBe(1);
+    await context.signInGuard.settled();
+    expect(await context.store.outbox.list({ to: person.email })).toHaveLength(3);
+  });
+
   it("sends no link to a deactivated account, and a link made before deactivation no longer works", async () => {
     const person = await newPerson("soon.gone@calmcrest.test", "lead", "Soon Gone");
     await admin.post(`/api/users/${person.id}/password-link`).set(SAME_ORIGIN).expect(200);

@@ -3,7 +3,7 @@ import { passwordProblems, resetRequestSchema, setPasswordSchema, signInSchema, 
 import type { AppContext } from "../context";
 import { startSession } from "../auth/lucia.server";
 import { checkSignInPassword, hashPassword } from "../auth/passwords.server";
-import { describeWait } from "../auth/sign-in-guard.server";
+import { describeWait, SignInGuard } from "../auth/sign-in-guard.server";
 import { HttpError, parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
@@ -66,9 +66,16 @@ export function authRoutes({ store, lucia, signInGuard }: AppContext): ApiRouter
 
   // Password reset by e-mail: the same answer, at once, whether or not an account has the address; the link (for
   // an active account only) is made and queued in the background, so the time taken tells nothing either.
+  // At most 3 reset e-mails per address typed and 10 per client within 15 minutes, so the form cannot be used to
+  // flood someone's mailbox; beyond that the answer stays the same and nothing is sent.
+  const resetLimit = new SignInGuard({ maxFailuresPerAccount: 3, maxFailuresPerAddress: 10, windowMs: 15 * 60_000 });
   routes.route("POST", "/password-reset", { access: "public" }, async (req, res) => {
     const input = parseOr400(resetRequestSchema, req.body, "The password reset form");
-    signInGuard.track(() => store.accountLinks.requestReset(input.email));
+    const address = addressOf(req);
+    if (resetLimit.waitMs(input.email, address) === 0) {
+      resetLimit.failed(input.email, address);
+      signInGuard.track(() => store.accountLinks.requestReset(input.email));
+    }
     res.status(202).json({ ok: true, message: `If ${input.email} belongs to an active Calmcrest account, a link to choose a new password is on its way. It works once, for 2 hours.` });
   });
 

@@ -1,7 +1,9 @@
 import { useState } from "react";
 import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
 import { ROLE_LABELS } from "@calmcrest/contracts";
-import { meQuery } from "../api/auth";
+import { useNavigate } from "react-router-dom";
+import { meQuery, signOutEverywhere } from "../api/auth";
+import { ConfirmButton } from "../components/people";
 import { ApiError } from "../api/client";
 import { preferencesQuery, setPreferences } from "../api/reports";
 import { Page } from "../components/page";
@@ -11,6 +13,7 @@ export function AccountPage() {
   const { data: me } = useSuspenseQuery(meQuery);
   const { data: preferences } = useSuspenseQuery(preferencesQuery);
   const queryClient = useQueryClient();
+  const navigate = useNavigate();
   const [problem, setProblem] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
   if (!me) return null;
@@ -52,6 +55,26 @@ export function AccountPage() {
           </p>
         ) : null}
       </fieldset>
+      <section aria-labelledby="sessions-heading" className="mt-6 max-w-2xl space-y-3 rounded-lg border border-line bg-panel p-4">
+        <h2 id="sessions-heading" className="font-semibold">
+          Sessions and password
+        </h2>
+        <p className="text-sm text-ink-soft">
+          Signed in on a computer you no longer use, or lost a phone? Sign out everywhere ends every session of your account, this one too. To change your password, sign out and use
+          “Forgotten your password?” on the sign-in page.
+        </p>
+        <ConfirmButton
+          label="Sign out everywhere"
+          title="Sign out on every device?"
+          consequences={<p>Every session of {me.email} ends at once, including this one; you sign in again here afterwards.</p>}
+          confirmLabel="Sign out everywhere"
+          action={async () => {
+            await signOutEverywhere();
+            queryClient.clear();
+            await navigate("/sign-in", { replace: true });
+          }}
+        />
+      </section>
     </Page>
   );
 }

@@ -58,3 +58,18 @@ describe("rejected.csv with hostile rows", () => {
     expect(rawLines).toContain(`'${HOSTILE_LINES[4]}`);
   });
 });
+
+describe("rejected.csv of a file with many rejected rows", () => {
+  it("lists every one of them once, in line order, across the batches it is written in", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const bad = Array.from({ length: 1234 }, (_, index) => `not-a-time-${index},0.8,10`);
+    const file = Buffer.from(["time_utc,seeing_arcsec,zenith_deg", "2025-04-08T03:00:00Z,0.8,10", ...bad, ""].join("\n"));
+    const done = await waitForUpload(lead, (await postUpload(lead, campaign.id, file, "many-bad.csv")).body.upload.id);
+    expect(done.samples).toMatchObject({ read: 1235, accepted: 1, rejected: 1234 });
+    const rows = quotedCells((await lead.get(`/api/uploads/${done.id}/rejected.csv`)).text);
+    expect(rows[0]).toEqual(["line", "reason", "message", "raw_line"]);
+    // Lines 3 to 1236 of the file (the header is line 1, the good row line 2).
+    expect(rows.slice(1).map((row) => Number(row[0]))).toEqual(Array.from({ length: 1234 }, (_, index) => index + 3));
+    expect(rows.slice(1).map((row) => row[3])).toEqual(bad);
+  });
+});

@@ -1,6 +1,6 @@
 import { createReadStream } from "node:fs";
 import { access } from "node:fs/promises";
-import type { RequestHandler } from "express";
+import type { RequestHandler, Response } from "express";
 import multer from "multer";
 import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, type ColumnMapping, type MappingOverrides, type SiteLocation } from "@calmcrest/seeing-stats";
 import {
@@ -36,6 +36,22 @@ declare global {
     }
   }
 }
+
+/** Resolves when the response can take more (drain) or the client has gone (close). */
+function drainedOrClosed(res: Response): Promise<void> {
+  return new Promise((resolve) => {
+    const done = () => {
+      res.off("drain", done);
+      res.off("close", done);
+      resolve();
+    };
+    res.once("drain", done);
+    res.once("close", done);
+  });
+}
+
+/** Rows of rejected.csv read and written at a time. */
+const REJECTED_CSV_BATCH_ROWS = 500;
 
 /** The preview reads only the first rows; the wizard sends a small slice of the file. */
 const PREVIEW_MAX_BYTES = 4 * 1024 * 1024;
@@ -257,15 +273,19 @@ export function uploadRoutes(context: AppContext): ApiRouter {
     res.setHeader("Content-Disposition", `attachment; filename="rejected-${row.id}-${baseName(row.file_name)}.csv"`);
     // Spreadsheet-safe: a raw line from the uploaded file may start with = or @ (spreadsheetSafeCsv).
     res.write(spreadsheetSafeCsv([["line", "reason", "message", "raw_line"]]));
-    let batch: [number, string, string, string][] = [];
-    for (const rejected of store.uploads.rejectedRows(row.id)) {
-      batch.push(rejected);
-      if (batch.length === 2000) {
-        res.write(spreadsheetSafeCsv(batch));
-        batch = [];
-      }
+    // A batch at a time, yielding between batches (and waiting while the client's socket is full): a file with a
+    // million rejected rows must not hold up every other request while its list is written.
+    let afterLine = 0;
+    for (;;) {
+      const batch = store.uploads.rejectedRowsAfter(row.id, afterLine, REJECTED_CSV_BATCH_ROWS);
+      const last = batch.at(-1);
+      if (!last) break;
+      afterLine = last[0];
+      const flushed = res.write(spreadsheetSafeCsv(batch));
+      await (flushed ? new Promise((resolve) => setImmediate(resolve)) : drainedOrClosed(res));
+      if (res.destroyed) return;
     }
-    res.end(spreadsheetSafeCsv(batch));
+    res.end();
   });
 
   routes.route("POST", "/:id/retry", { access: FIELD_ROLES, campaignAction: "upload" }, async (req, res) => {

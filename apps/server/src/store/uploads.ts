@@ -211,12 +211,16 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
       return { ...uploadListItem(row), progress, rejectedRows, startedAt: row.started_at };
     },
 
-    /** Every rejected row of the upload in line order, read lazily (a file can have millions). */
-    rejectedRows(uploadId: number): IterableIterator<[line: number, reason: string, message: string, rawLine: string]> {
+    /**
+     * The upload's rejected rows after line `afterLine`, in line order, at most `limit` of them: a file can have
+     * millions, so a download reads them a batch at a time (one short indexed query each) and lets the event
+     * loop serve others in between.
+     */
+    rejectedRowsAfter(uploadId: number, afterLine: number, limit: number): [line: number, reason: string, message: string, rawLine: string][] {
       return core.db.sqlite
-        .prepare("SELECT line, reason, message, raw_line FROM upload_reject WHERE upload_id = ? ORDER BY line")
+        .prepare("SELECT line, reason, message, raw_line FROM upload_reject WHERE upload_id = ? AND line > ? ORDER BY line LIMIT ?")
         .raw()
-        .iterate(uploadId) as IterableIterator<[number, string, string, string]>;
+        .all(uploadId, afterLine, limit) as [number, string, string, string][];
     },
 
     /** Every stored sample time of the campaign, ascending (the primary key's order: no sort). For the whole-file check. */

@@ -9,13 +9,14 @@ import type { Knex } from "knex";
 // - The same bytes in the same campaign are still one upload, but a re-read (replaces_upload_id set) is the same
 //   bytes by design: the unique index now covers only first uploads.
 export async function up(knex: Knex): Promise<void> {
-  await knex.schema.alterTable("upload", (table) => {
-    table.text("withdrawn_at");
-    table.text("withdrawn_by").references("id").inTable("user").onDelete("SET NULL");
-    table.text("withdrawn_reason");
-    table.integer("replaces_upload_id").references("id").inTable("upload").onDelete("RESTRICT");
-    table.text("monitor_override");
-  });
+  // Plain ADD COLUMN statements: Knex's alterTable rebuilds a SQLite table to add a column with a foreign key
+  // (copy, drop, rename), and dropping `upload` fails while `sample` rows refer to it, so a database that already
+  // holds uploads could not be upgraded. SQLite adds a REFERENCES column in place when its default is NULL.
+  await knex.raw('ALTER TABLE upload ADD COLUMN withdrawn_at TEXT');
+  await knex.raw('ALTER TABLE upload ADD COLUMN withdrawn_by TEXT REFERENCES "user"(id) ON DELETE SET NULL');
+  await knex.raw('ALTER TABLE upload ADD COLUMN withdrawn_reason TEXT');
+  await knex.raw("ALTER TABLE upload ADD COLUMN replaces_upload_id INTEGER REFERENCES upload(id) ON DELETE RESTRICT");
+  await knex.raw("ALTER TABLE upload ADD COLUMN monitor_override TEXT");
   await knex.raw("DROP INDEX IF EXISTS upload_campaign_id_sha256_unique");
   await knex.raw("CREATE UNIQUE INDEX upload_first_of_bytes ON upload (campaign_id, sha256) WHERE replaces_upload_id IS NULL");
   await knex.raw("CREATE INDEX upload_replaces ON upload (replaces_upload_id)");
@@ -50,13 +51,13 @@ export async function down(knex: Knex): Promise<void> {
   await knex.raw("DROP INDEX IF EXISTS upload_replaces");
   await knex.raw("DROP INDEX IF EXISTS upload_first_of_bytes");
   await knex.raw("CREATE UNIQUE INDEX upload_campaign_id_sha256_unique ON upload (campaign_id, sha256)");
+  // SQLite drops a plain column in place. The two columns with a foreign key need Knex's table rebuild, which fails
+  // while samples refer to uploads (foreign keys are on): a rollback is for a database without uploads.
+  for (const column of ["monitor_override", "withdrawn_reason", "withdrawn_at"]) await knex.raw(`ALTER TABLE upload DROP COLUMN ${column}`);
   await knex.schema.alterTable("upload", (table) => {
-    table.dropColumn("monitor_override");
     table.dropForeign(["replaces_upload_id"]);
     table.dropColumn("replaces_upload_id");
-    table.dropColumn("withdrawn_reason");
     table.dropForeign(["withdrawn_by"]);
     table.dropColumn("withdrawn_by");
-    table.dropColumn("withdrawn_at");
   });
 }

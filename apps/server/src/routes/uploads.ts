@@ -33,6 +33,8 @@ declare global {
       campaign?: CampaignRow;
       /** The campaign's site, set before the whole-file check's multer runs (its storage engine cannot wait for a query). */
       siteLocation?: SiteLocation;
+      /** Set by the whole-file check before multer runs: the campaign's stored sample times, ascending. */
+      storedTimes?: Float64Array;
     }
   }
 }
@@ -166,7 +168,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
           mapping: parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping),
           monitor: monitorOf(campaign),
           site: locals.siteLocation,
-          storedTimes: () => store.uploads.storedTimes(campaign.id),
+          storedTimes: () => locals.storedTimes ?? new Float64Array(0),
         };
       }),
       limits: { fileSize: env.maxUploadBytes, files: 1, fields: 10 },
@@ -181,6 +183,8 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     campaignAccess("upload"),
     async (_req, res, next) => {
       res.locals.siteLocation = siteLocationOf(await store.campaigns.siteOf(accessedCampaign(res.locals)));
+      // Read by a summary worker before the file arrives: a campaign's million times never load on the main thread.
+      res.locals.storedTimes = await context.summaries.storedTimes(accessedCampaign(res.locals).id);
       next();
     },
     async (req, res, next) => {

@@ -223,19 +223,6 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
         .all(uploadId, afterLine, limit) as [number, string, string, string][];
     },
 
-    /** Every stored sample time of the campaign, ascending (the primary key's order: no sort). For the whole-file check. */
-    storedTimes(campaignId: number): Float64Array {
-      const { n } = core.db.sqlite.prepare("SELECT COUNT(*) AS n FROM sample WHERE campaign_id = ?").get(campaignId) as { n: number };
-      const times = new Float64Array(n);
-      let index = 0;
-      for (const [timeMs] of core.db.sqlite.prepare("SELECT time_ms FROM sample WHERE campaign_id = ? ORDER BY time_ms").raw().iterate(campaignId) as IterableIterator<[number]>) {
-        if (index >= n) break;
-        times[index] = timeMs;
-        index += 1;
-      }
-      return index === n ? times : times.subarray(0, index);
-    },
-
     /** Rows rejected at ingest by the campaigns' finished uploads, by reason. */
     /** The finished uploads of these campaigns (their samples are the ones summaries use), by campaign and id. */
     async doneOf(campaignIds: readonly number[]): Promise<{ id: number; campaignId: number; fileName: string; sha256: string; samplesAccepted: number }[]> {

@@ -14,7 +14,7 @@ export type FromSummaryWorker =
   | {
       type: "result";
       id: number;
-      /** The answer as UTF-8 JSON (serialised and encoded once, in the worker; its buffer is transferred, not copied). */
+      /** The answer as UTF-8 JSON (serialised and encoded once, in the worker), or a typed array's bytes; its buffer is transferred, not copied. */
       body: Uint8Array;
       /** The data version of each campaign the answer was computed from, in the task's campaign order. */
       versions: number[];

@@ -294,6 +294,16 @@ export class SummaryService {
     });
   }
 
+  /**
+   * The campaign's stored sample times in ascending order, read by a worker (a million rows are never read on the
+   * main thread). Not cached: the upload wizard's whole-file check asks once per file.
+   */
+  async storedTimes(campaignId: number): Promise<Float64Array> {
+    const { body } = await this.workerFor([campaignId]).run("storedTimes", { campaignId });
+    // The transferred buffer starts at offset 0, so it is aligned for Float64Array.
+    return new Float64Array(body.buffer, body.byteOffset, body.byteLength / Float64Array.BYTES_PER_ELEMENT);
+  }
+
   stats(): SummaryServiceStats {
     return {
       ...this.counters,

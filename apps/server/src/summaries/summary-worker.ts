@@ -25,7 +25,10 @@ function runTask<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInp
   const campaignIds = definition.campaignIds(input);
   const { versions } = cache.sync(campaignIds);
   try {
-    return { body: encoder.encode(JSON.stringify(definition.run(cache, input))), versions };
+    const value = definition.run(cache, input);
+    // A typed array is sent as its bytes (a copy the worker gives away); everything else as UTF-8 JSON.
+    const body = ArrayBuffer.isView(value) ? new Uint8Array(value.buffer.slice(value.byteOffset, value.byteOffset + value.byteLength)) : encoder.encode(JSON.stringify(value));
+    return { body, versions };
   } finally {
     cache.unpin(campaignIds);
   }

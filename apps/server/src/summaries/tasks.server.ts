@@ -40,7 +40,20 @@ function task<Input>(definition: TaskDefinition<Input>): TaskDefinition<Input> {
   return definition;
 }
 
+export interface StoredTimesTaskInput {
+  campaignId: number;
+}
+
 export const SUMMARY_TASKS = {
+  // The campaign's stored sample times, ascending, as binary (a Float64Array): the upload wizard's whole-file
+  // check looks up duplicates in them. Not cached (summary-service.server.ts storedTimes).
+  storedTimes: task<StoredTimesTaskInput>({
+    campaignIds: (input) => [input.campaignId],
+    run: (cache, input) => {
+      const { timeMs, count } = cache.columns(input.campaignId);
+      return timeMs.slice(0, count);
+    },
+  }),
   summary: task<SummaryTaskInput>({
     campaignIds: (input) => input.campaigns.map((campaign) => campaign.id),
     run: (cache, input) =>

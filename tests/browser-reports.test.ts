@@ -18,7 +18,16 @@ let reportId = 0;
 beforeAll(async () => {
   server = await startServer({ seed: "full" });
   browser = await openBrowser(DESKTOP);
+  // Every CSP violation a page reports (typed by hand: the tests compile without the DOM library).
+  await browser.context.addInitScript(() => {
+    type CspEvent = { violatedDirective: string; blockedURI: string };
+    const page = globalThis as unknown as { cspViolations: string[]; document: { addEventListener(type: string, listener: (event: CspEvent) => void): void } };
+    page.cspViolations = [];
+    page.document.addEventListener("securitypolicyviolation", (event) => page.cspViolations.push(`${event.violatedDirective} ${event.blockedURI}`));
+  });
 });
+
+const cspViolations = () => browser.page.evaluate(() => (globalThis as unknown as { cspViolations?: string[] }).cspViolations ?? []);
 
 afterAll(async () => {
   await browser?.close();
@@ -88,6 +97,8 @@ describe("committee reports in a browser", () => {
     expect(await section.locator(".markdown script, .markdown img, .markdown [onerror]").count()).toBe(0);
     expect(await section.locator(".markdown a").count()).toBe(0);
     expect(await section.locator(".markdown").innerText()).toContain("<script>window.__pwned = 'script'</script>");
+    // Nothing even tried to run and was blocked: the renderer, not only the CSP, kept it inert.
+    expect(await cspViolations()).toEqual([]);
     expect(browser.problems).toEqual([]);
   });
 
@@ -145,6 +156,8 @@ describe("committee reports in a browser", () => {
     const link = page.getByRole("link", { name: new RegExp(`/reports/${reportId}\\?version=1$`) });
     expect(await link.count()).toBe(1);
     await screenshot(page, "reports-outbox-desktop");
+    // The HTML part is shown in a sandboxed frame under the same policy.
+    expect(await cspViolations()).toEqual([]);
     expect(browser.problems).toEqual([]);
   });
 

@@ -110,6 +110,11 @@ describe("a report from a comparison", async () => {
     expect(detail.can).toEqual({ edit: false, publish: false, comment: true, moderate: false });
     expect((await committee.get(`/api/reports/${reportId}/versions/1`)).status).toBe(200);
     expect((await committee.get(`/api/reports/${reportId}/versions/2`)).status).toBe(404);
+    // A later edit of the draft stays with the lead until it is published.
+    await lead.patch(`/api/reports/${reportId}`).set(SAME_ORIGIN).send({ summary: "Draft wording, not published yet." }).expect(200);
+    const again = ((await committee.get("/api/reports")).body as ReportListItem[]).find((report) => report.id === reportId);
+    expect(again?.summary).toBe("Which ridge gives the sharpest images.");
+    expect(((await committee.get(`/api/reports/${reportId}`)).body as ReportDetail).version?.summary).toBe("Which ridge gives the sharpest images.");
   });
 
   let threadId = 0;

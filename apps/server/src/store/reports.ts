@@ -299,7 +299,9 @@ export function reportsStore(core: StoreCore) {
     /** The reports the user may read, most recently changed first. */
     async list(user: User): Promise<ReportListItem[]> {
       const reports = await knex()("report").orderBy("updated_at", "desc").orderBy("id", "desc").select<ReportRow[]>("*");
-      const versions = await knex()("report_version").orderBy("number").select<Pick<VersionRow, "report_id" | "number" | "published_at" | "published_by" | "comparison">[]>("report_id", "number", "published_at", "published_by", "comparison");
+      const versions = await knex()("report_version")
+        .orderBy("number")
+        .select<Pick<VersionRow, "report_id" | "number" | "published_at" | "published_by" | "comparison" | "title" | "summary">[]>("report_id", "number", "published_at", "published_by", "comparison", "title", "summary");
       const visible: ReportRow[] = [];
       for (const report of reports) {
         if (mayEdit(user)) visible.push(report);
@@ -317,10 +319,12 @@ export function reportsStore(core: StoreCore) {
           const full = latest ? await knex()("report_version").where({ report_id: report.id, number: latest.number }).first<VersionRow>() : undefined;
           unpublishedChanges = draftDiffers(report, await liveSections(knex(), report.id), full);
         }
+        // Readers who see no draft get the title and summary of the latest published version, never the draft's.
+        const published = latest && !mayEdit(user) ? latest : null;
         items.push({
           id: report.id,
-          title: latest && !mayEdit(user) ? ((await knex()("report_version").where({ report_id: report.id, number: latest.number }).first<{ title: string }>("title"))?.title ?? report.title) : report.title,
-          summary: report.summary,
+          title: published?.title ?? report.title,
+          summary: published?.summary ?? report.summary,
           status: latest ? "published" : "draft",
           lead: personOf(names, report.lead_id),
           latestVersion: latest ? { number: latest.number, publishedAt: latest.published_at, publishedBy: personOf(names, latest.published_by) } : null,

@@ -232,7 +232,8 @@ export function ReportEditor({ detail }: { detail: ReportDetail }) {
         {draft.sections.length === 0 ? <p className="text-ink-soft">No sections yet: add at least one (for example Results) before publishing.</p> : null}
         <ol className="space-y-3">
           {draft.sections.map((section, index) => (
-            <SectionEditor key={`${section.id}-${section.updatedAt}`} reportId={detail.id} section={section} index={index} count={draft.sections.length} order={order} />
+            // Keyed by id only: the editor keeps its text (and its "Saved" note) across the refresh its own save causes.
+            <SectionEditor key={section.id} reportId={detail.id} section={section} index={index} count={draft.sections.length} order={order} />
           ))}
         </ol>
         <form

@@ -30,8 +30,7 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
-  await knex.schema.alterTable("user", (table) => {
-    table.dropColumn("comment_emails");
-  });
+  // SQLite drops a column in place (3.35+); Knex's dropColumn would rebuild the user table, which other tables refer to.
+  await knex.raw("ALTER TABLE user DROP COLUMN comment_emails");
   await knex.schema.dropTableIfExists("outbox");
 }

@@ -95,6 +95,26 @@ describe("the mail sender when sending fails", async () => {
   });
 });
 
+describe("a message left unsent by a stopped server", async () => {
+  const failing: MailTransport = { name: "smtp", send: () => Promise.reject(new Error("connect ECONNREFUSED")), close: () => undefined };
+  const first = await createTestServer({ mailTransport: failing });
+
+  it("is sent by the next server on the same data at start-up", async () => {
+    await writeWithMail(first.context, "later@calmcrest.test");
+    await first.context.mail.idle();
+    expect((await first.context.store.outbox.list({ to: "later@calmcrest.test" }))[0]).toMatchObject({ status: "retrying", attempts: 1 });
+    // Due now, as if the server had been down past the retry time.
+    await first.context.db.knex("outbox").where({ to_address: "later@calmcrest.test" }).update({ next_attempt_at: new Date(0).toISOString() });
+    await first.context.close();
+    const sent: OutgoingMail[] = [];
+    const working: MailTransport = { name: "smtp", send: async (message) => (sent.push(message), { messageId: "<again@calmcrest>" }), close: () => undefined };
+    const second = await createTestServer({ dataDir: first.dataDir, mailTransport: working });
+    await second.context.mail.idle();
+    expect(sent.map((message) => message.to)).toEqual(["later@calmcrest.test"]);
+    expect((await second.context.store.outbox.list({ to: "later@calmcrest.test" }))[0]).toMatchObject({ status: "sent", attempts: 2, lastError: "connect ECONNREFUSED" });
+  });
+});
+
 describe("retry delays", () => {
   it("double from the base and stop at the cap", () => {
     expect([1, 2, 3, 4, 9].map((attempts) => retryDelayMs(attempts, 30_000, 3_600_000))).toEqual([30_000, 60_000, 120_000, 240_000, 3_600_000]);

@@ -95,6 +95,22 @@ function Settings({ comparison }: { comparison: ComparisonResponse }) {
       <dd>{comparison.coefficientSets.join("; ") || "–"}</dd>
       <dt className="text-ink-soft">Planned telescope</dt>
       <dd>{comparison.telescope.method}</dd>
+      <dt className="text-ink-soft">Monitors</dt>
+      <dd>
+        <ul>
+          {comparison.rows.flatMap((row) =>
+            row.campaigns.map((campaign) => (
+              <li key={`${row.key}-${campaign.id}`}>
+                {row.site.name} — {campaign.name}: subapertures {formatNumber(campaign.apertureMm)} mm, baseline {formatNumber(campaign.baselineMm)} mm, {formatNumber(campaign.wavelengthNm)} nm
+                {campaign.pixelScaleArcsec === null ? "" : `, ${formatNumber(campaign.pixelScaleArcsec, 2)}″/pixel`}
+                {campaign.exposureMs === null ? "" : `, exposure ${formatNumber(campaign.exposureMs, 1)} ms`}, {campaign.heightAboveGroundM === null ? "height not given" : `${formatNumber(campaign.heightAboveGroundM, 1)} m above ground`},{" "}
+                {campaign.responseName}; {campaign.uploads.length} upload{campaign.uploads.length === 1 ? "" : "s"}
+                {campaign.exclusions.length > 0 ? `, ${campaign.exclusions.length} excluded window${campaign.exclusions.length === 1 ? "" : "s"}` : ""}
+              </li>
+            )),
+          )}
+        </ul>
+      </dd>
       <dt className="text-ink-soft">Pairing</dt>
       <dd>{comparison.pairing.matching === "bins" ? `only the ${comparison.pairing.binMinutes}-minute bins both monitors ran` : "nights both monitors ran"}</dd>
     </dl>

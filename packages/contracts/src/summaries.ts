@@ -3,7 +3,7 @@ import { FILTER_LIMIT_MESSAGES, filterSettingAllowed } from "@calmcrest/seeing-s
 import { instantMs, isoInstantSchema } from "./campaigns";
 import type { ResponseSetName } from "./campaigns";
 import type { SampleCounts } from "./uploads";
-import type { NightIntervalStatus, SeeingSummary } from "@calmcrest/seeing-stats";
+import type { NightIntervalStatus, SeeingSummary, SummaryWarning } from "@calmcrest/seeing-stats";
 
 const optionalNumber = (name: string, unit: string) =>
   z.preprocess(
@@ -93,6 +93,11 @@ export interface SummaryScope {
   samples: SampleCounts;
   /** True when `samples` includes the rows rejected at ingest (only without from/to: those rows have no usable time). */
   includesIngestRejections: boolean;
+  /**
+   * What could mislead, each a code and a sentence (the engine's summary warnings). Also on an empty answer: a
+   * wrong-sign longitude can be why nothing passes the sun filter.
+   */
+  warnings: SummaryWarning[];
   /** Per campaign when the campaigns use different response coefficient sets (warning mixed_response_sets); else null. */
   byCampaign: SummaryGroup[] | null;
   /** Per monitor height when the campaigns' monitors stand at different heights (warning mixed_monitor_heights); else null. */

@@ -1,6 +1,9 @@
 import {
+  checkLongitudeSign,
   DEFAULT_FILTERS,
+  summaryWarnings,
   RESPONSE_SET_NAMES,
+  lowerBoundTime,
   selectRuns,
   selectSamples as selectSampleRuns,
   summarizeSeeingPresorted,
@@ -120,10 +123,12 @@ export function buildSummary(cache: SampleCache, input: SummaryInput): SummaryRe
     exclusions,
     samples: { read, accepted, rejected: read - accepted, rejectedByReason },
     includesIngestRejections,
+    warnings: [],
     byCampaign: null,
     byHeight: null,
   };
   const options = summaryOptions(site, campaigns);
+  options.context = { ...options.context, longitudeSign: longitudeSignOf(cache, site, campaigns, resolved) };
   const statistics: SeeingStatistics | null = summarizeSeeingPresorted(columnsOf(selected), selected.presorted, options);
   // Campaigns that differ in response set or monitor height are not pooled without a word: the engine warns
   // (mixed_response_sets, mixed_monitor_heights) and the same figures are given per campaign / per height.
@@ -144,7 +149,7 @@ export function buildSummary(cache: SampleCache, input: SummaryInput): SummaryRe
       ),
     );
   }
-  if (!statistics) return { ...scope, empty: true };
+  if (!statistics) return { ...scope, empty: true, warnings: summaryWarnings({ nights: 0, longitudeGiven: true, context: options.context }) };
   return { ...scope, empty: false, ...statistics };
 }
 
@@ -172,6 +177,37 @@ function summaryOptions(site: SiteRow, campaigns: readonly CampaignRow[]): Summa
       monitorHeightsM: campaigns.map((campaign) => campaign.height_above_ground_m),
     },
   };
+}
+
+/** Times spread evenly over the stored samples of the campaigns (in the query's time range) that checkLongitudeSign looks at. */
+const SIGN_CHECK_TIMES = 5000;
+
+/**
+ * Whether the site's longitude looks like the wrong sign: the sun filter (at the stored sun altitudes) would
+ * reject a large share of the campaigns' stored samples that a mirrored longitude would keep (the engine's
+ * checkLongitudeSign, on up to 5000 sample times spread evenly over the campaigns).
+ */
+function longitudeSignOf(cache: SampleCache, site: SiteRow, campaigns: readonly CampaignRow[], resolved: ResolvedQuery) {
+  const ranges = campaigns.map((campaign) => {
+    const columns = cache.columns(campaign.id);
+    const start = resolved.fromMs === null ? 0 : lowerBoundTime(columns.timeMs, columns.count, resolved.fromMs);
+    const end = Math.max(start, resolved.toMs === null ? columns.count : lowerBoundTime(columns.timeMs, columns.count, resolved.toMs));
+    return { times: columns.timeMs, start, end };
+  });
+  const total = ranges.reduce((sum, range) => sum + range.end - range.start, 0);
+  const picked = new Float64Array(Math.min(total, SIGN_CHECK_TIMES));
+  for (let slot = 0; slot < picked.length; slot += 1) {
+    let position = Math.floor((slot * total) / picked.length);
+    for (const range of ranges) {
+      const length = range.end - range.start;
+      if (position < length) {
+        picked[slot] = range.times[range.start + position] ?? 0;
+        break;
+      }
+      position -= length;
+    }
+  }
+  return checkLongitudeSign(picked, { latitudeDeg: site.latitude, longitudeDeg: site.longitude, elevationM: site.elevation_m }, resolved.filters.sunMaxDeg);
 }
 
 /** The headline figures of one group of campaigns with the query's settings. */

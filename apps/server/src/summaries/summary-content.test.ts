@@ -102,4 +102,19 @@ describe("a site summary over campaigns that differ", () => {
     // May at 27° S is southern autumn.
     expect(summary.seasons.find((season) => season.code === "MAM")?.name).toBe("autumn");
   });
+
+  it("asks to check the longitude's sign when the sun filter drops night data a mirrored longitude would keep", async () => {
+    // The same night-time log (03:00–04:30 UTC, 23:00 local at 70° W) at a ridge entered as 70° E.
+    const eastern = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ ...SAMPLES_SITE, name: "Mirrored Ridge", longitude: -SAMPLES_SITE.longitude })).body as SiteDetail;
+    await campaignAt(eastern.id, "Mirrored mast", { response: "z-tilt", heightAboveGroundM: 5 }, 0);
+    const response = await lead.get(`/api/sites/${eastern.id}/summary`);
+    const summary = response.body as SummaryResponse;
+    // Every sample is daytime at 70° E, so nothing passes; the empty answer still says why that may be.
+    expect(summary.empty).toBe(true);
+    expect(summary.samples.rejectedByReason.sun_above_limit).toBe(120);
+    expect(summary.warnings.map((warning) => warning.code)).toContain("longitude_sign");
+    expect(summary.warnings.find((warning) => warning.code === "longitude_sign")?.message).toMatch(/rejects 100 % .* check the sign of the longitude \(east positive\)/);
+    const right = await summaryOf(`/api/sites/${site.id}/summary`);
+    expect(right.warnings.map((warning) => warning.code)).not.toContain("longitude_sign");
+  });
 });

@@ -4,7 +4,7 @@ import { formatArcsec, formatNumber, formatPercent } from "../lib/format";
 type Statistics = Extract<SummaryResponse, { empty: false }>;
 
 /** What could mislead a reader of these figures, each in a sentence (the summary's warnings[]). */
-export function SummaryWarnings({ warnings }: { warnings: Statistics["warnings"] }) {
+export function SummaryWarnings({ warnings }: { warnings: SummaryResponse["warnings"] }) {
   if (warnings.length === 0) return null;
   return (
     <div role="note" aria-label="Read these figures with care" className="rounded-lg border border-warn/40 bg-warn-pale p-4" data-testid="summary-warnings">

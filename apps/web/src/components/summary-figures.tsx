@@ -23,7 +23,7 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
       <h2 id="figures-heading" className="text-lg font-semibold">
         Headline figures <span className="text-sm font-normal text-ink-soft">at zenith, 500 nm</span>
       </h2>
-      {summary.empty ? null : <SummaryWarnings warnings={summary.warnings} />}
+      <SummaryWarnings warnings={summary.warnings} />
       {summary.empty ? null : (
         <dl className="grid grid-cols-2 gap-3 md:grid-cols-3 xl:grid-cols-6" data-testid="headline-figures">
           <Figure

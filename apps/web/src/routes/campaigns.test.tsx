@@ -58,6 +58,7 @@ const emptySummary: SummaryResponse = {
   exclusions: [],
   samples: { read: 0, accepted: 0, rejected: 0, rejectedByReason: {} },
   includesIngestRejections: true,
+  warnings: [],
   byCampaign: null,
   byHeight: null,
   empty: true,

@@ -181,6 +181,11 @@ export interface CampaignListItem {
   lastSampleAt: string | null;
 }
 
+/** `GET /api/campaigns`: every campaign the caller can see, with its site's name (one request, not one per site). */
+export interface VisibleCampaign extends CampaignListItem {
+  siteName: string;
+}
+
 /** `GET /api/campaigns/:id`. Members are listed for admins and leads only (empty for engineers). */
 export interface CampaignDetail extends CampaignListItem {
   siteName: string;

@@ -100,6 +100,7 @@ const cases: RouteCase[] = [
   },
   { route: "GET /api/me", send: (r) => as(r).get("/api/me"), ok: 200 },
   { route: "GET /api/sites", send: (r) => as(r).get("/api/sites"), ok: 200 },
+  { route: "GET /api/campaigns", send: (r) => as(r).get("/api/campaigns"), ok: 200 },
   { route: "POST /api/sites", send: (r) => as(r).post("/api/sites").set(SAME_ORIGIN).send({ name: `New ${r}`, latitude: 1, longitude: 2, elevationM: 3 }), ok: 201 },
   { route: "GET /api/sites/:id", send: (r) => as(r).get(`/api/sites/${site.id}`), ok: 200 },
   { route: "PATCH /api/sites/:id", send: (r) => as(r).patch(`/api/sites/${site.id}`).set(SAME_ORIGIN).send({ notes: `by ${r}` }), ok: 200 },

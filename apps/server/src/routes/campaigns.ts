@@ -1,4 +1,4 @@
-import { addMemberSchema, createExclusionSchema, patchCampaignSchema, samplesQuerySchema, savedMappingSchema, summaryQuerySchema } from "@calmcrest/contracts";
+import { addMemberSchema, createExclusionSchema, patchCampaignSchema, samplesQuerySchema, savedMappingSchema, summaryQuerySchema, type VisibleCampaign } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId } from "../access/access.server";
 import { parseOr400 } from "../http/errors";
@@ -15,6 +15,22 @@ export function campaignRoutes(context: AppContext): ApiRouter {
   const { store, summaries } = context;
   const routes = new ApiRouter("/campaigns");
   const campaignId = (value: string | string[] | undefined) => routeId(value, "That campaign");
+
+  // The caller's visible campaigns, each with its site's name: what the upload wizard, Compare and the access page list.
+  routes.route("GET", "/", { access: FIELD_ROLES }, async (_req, res) => {
+    const visible = await store.sites.listVisible(currentUser(res.locals));
+    const siteNames = new Map<number, string>();
+    const siteOrder = new Map<number, number>();
+    visible.forEach(({ site }, index) => {
+      siteNames.set(site.id, site.name);
+      siteOrder.set(site.id, index);
+    });
+    const items = await store.campaigns.listItems(visible.flatMap(({ campaignIds }) => campaignIds));
+    // Sites by name (as GET /api/sites lists them), then each site's campaigns in the order they were created.
+    items.sort((left, right) => (siteOrder.get(left.siteId) ?? 0) - (siteOrder.get(right.siteId) ?? 0) || left.id - right.id);
+    const answer: VisibleCampaign[] = items.map((item) => ({ ...item, siteName: siteNames.get(item.siteId) ?? "" }));
+    res.json(answer);
+  });
 
   routes.route("GET", "/:id", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
     const user = currentUser(res.locals);

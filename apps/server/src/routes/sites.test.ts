@@ -1,6 +1,6 @@
 import request from "supertest";
 import { describe, expect, it } from "vitest";
-import type { CampaignDetail, SiteDetail, SiteListItem } from "@calmcrest/contracts";
+import type { CampaignDetail, SiteDetail, SiteListItem, VisibleCampaign } from "@calmcrest/contracts";
 import { createTestServer, SAME_ORIGIN, signedInAgent, userIdOf } from "../test-support";
 
 const { app, context } = await createTestServer();
@@ -141,6 +141,29 @@ describe("campaigns and access", () => {
     expect(response.status).toBe(200);
     expect((await lead.get(`/api/campaigns/${campaign.id}`)).body.savedMapping).toEqual(saved);
     expect((await lead.put(`/api/campaigns/${campaign.id}/saved-mapping`).set(SAME_ORIGIN).send({ mapping: { nonsense: "x" } })).status).toBe(400);
+  });
+});
+
+describe("the visible campaigns list", () => {
+  it("gives every campaign the caller can see with its site's name, in one answer, and none of the others", async () => {
+    const site = (await lead.post("/api/sites").set(SAME_ORIGIN).send({ ...ridge, name: "Listing Ridge" })).body as SiteDetail;
+    const shared = (await lead.post(`/api/sites/${site.id}/campaigns`).set(SAME_ORIGIN).send({ name: "Listed mast", monitor })).body as CampaignDetail;
+    const hidden = (await lead.post(`/api/sites/${site.id}/campaigns`).set(SAME_ORIGIN).send({ name: "Unlisted mast", monitor })).body as CampaignDetail;
+    await admin.post(`/api/campaigns/${shared.id}/members`).set(SAME_ORIGIN).send({ userId: await userId("engineer@calmcrest.test") });
+    const forLead = (await lead.get("/api/campaigns")).body as VisibleCampaign[];
+    expect(forLead.filter((item) => item.siteId === site.id).map((item) => [item.name, item.siteName])).toEqual([
+      ["Listed mast", "Listing Ridge"],
+      ["Unlisted mast", "Listing Ridge"],
+    ]);
+    const forEngineer = (await engineer.get("/api/campaigns")).body as VisibleCampaign[];
+    expect(forEngineer.some((item) => item.id === shared.id)).toBe(true);
+    expect(forEngineer.some((item) => item.id === hidden.id)).toBe(false);
+    // The same campaigns as the site details list, site by site.
+    const sites = (await engineer.get("/api/sites")).body as SiteListItem[];
+    const fromDetails = [];
+    for (const item of sites) fromDetails.push(...((await engineer.get(`/api/sites/${item.id}`)).body as SiteDetail).campaigns.map((campaign) => campaign.id));
+    expect(forEngineer.map((item) => item.id)).toEqual(fromDetails);
+    expect((await committee.get("/api/campaigns")).status).toBe(403);
   });
 });
 

@@ -1,11 +1,18 @@
 import { queryOptions } from "@tanstack/react-query";
-import type { AddMemberInput, CampaignDetail, CreateExclusionInput, Exclusion, PatchCampaignInput, SavedMapping, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
+import type { AddMemberInput, CampaignDetail, CreateExclusionInput, Exclusion, PatchCampaignInput, SavedMapping, SummaryQuery, SummaryResponse, VisibleCampaign } from "@calmcrest/contracts";
 import { api } from "./client";
 import { summaryQueryString } from "../lib/filter-params";
+import { campaignKeys } from "./query-keys";
+
+/** Every campaign the user can see, with its site's name: one request (GET /api/campaigns). */
+export const visibleCampaignsQuery = queryOptions({
+  queryKey: campaignKeys.list(),
+  queryFn: () => api<VisibleCampaign[]>("/campaigns"),
+});
 
 export const campaignQuery = (campaignId: number) =>
   queryOptions({
-    queryKey: ["campaigns", "detail", campaignId],
+    queryKey: campaignKeys.detail(campaignId),
     queryFn: () => api<CampaignDetail>(`/campaigns/${campaignId}`),
     // While an upload is waiting or being read, keep the page current without a reload.
     refetchInterval: (query) => (query.state.data?.uploads.some((upload) => upload.status === "queued" || upload.status === "ingesting") ? 1500 : false),
@@ -13,7 +20,7 @@ export const campaignQuery = (campaignId: number) =>
 
 export const campaignSummaryQuery = (campaignId: number, filters: SummaryQuery) =>
   queryOptions({
-    queryKey: ["campaigns", "detail", campaignId, "summary", filters],
+    queryKey: campaignKeys.summary(campaignId, filters),
     queryFn: () => api<SummaryResponse>(`/campaigns/${campaignId}/summary${summaryQueryString(filters)}`),
   });
 

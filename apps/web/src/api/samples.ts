@@ -2,6 +2,7 @@ import { queryOptions } from "@tanstack/react-query";
 import type { SampleSeries, SummaryQuery } from "@calmcrest/contracts";
 import { api } from "./client";
 import { paramsWithFilters } from "../lib/filter-params";
+import { campaignKeys, siteKeys } from "./query-keys";
 
 export type Scope = { kind: "site" | "campaign"; id: number };
 
@@ -10,7 +11,7 @@ const base = (scope: Scope) => (scope.kind === "site" ? `/sites/${scope.id}` : `
 /** Single samples for the per-sample charts; `night` narrows to one night, otherwise the whole window thinned. */
 export const samplesQuery = (scope: Scope, filters: SummaryQuery, options: { night?: string; maxPoints?: number } = {}) =>
   queryOptions({
-    queryKey: [scope.kind === "site" ? "sites" : "campaigns", "detail", scope.id, "samples", filters, options],
+    queryKey: scope.kind === "site" ? siteKeys.samples(scope.id, filters, options) : campaignKeys.samples(scope.id, filters, options),
     queryFn: () => {
       const params = paramsWithFilters(new URLSearchParams(), filters);
       if (options.night) params.set("night", options.night);

@@ -2,6 +2,7 @@ import { queryOptions } from "@tanstack/react-query";
 import type { AppConfig, CreateCampaignInput, CreateSiteInput, PatchSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
 import { api } from "./client";
 import { summaryQueryString } from "../lib/filter-params";
+import { siteKeys } from "./query-keys";
 
 /** Deployment settings (online map tiles or none). */
 export const configQuery = queryOptions({
@@ -11,19 +12,19 @@ export const configQuery = queryOptions({
 });
 
 export const sitesQuery = queryOptions({
-  queryKey: ["sites", "list"],
+  queryKey: siteKeys.list(),
   queryFn: () => api<SiteListItem[]>("/sites"),
 });
 
 export const siteQuery = (siteId: number) =>
   queryOptions({
-    queryKey: ["sites", "detail", siteId],
+    queryKey: siteKeys.detail(siteId),
     queryFn: () => api<SiteDetail>(`/sites/${siteId}`),
   });
 
 export const siteSummaryQuery = (siteId: number, filters: SummaryQuery) =>
   queryOptions({
-    queryKey: ["sites", "detail", siteId, "summary", filters],
+    queryKey: siteKeys.summary(siteId, filters),
     queryFn: () => api<SummaryResponse>(`/sites/${siteId}/summary${summaryQueryString(filters)}`),
   });
 

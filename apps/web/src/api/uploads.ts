@@ -14,10 +14,11 @@ import type {
   WithdrawUploadInput,
 } from "@calmcrest/contracts";
 import { ApiError, api } from "./client";
+import { uploadKeys } from "./query-keys";
 
 export const uploadQuery = (uploadId: number) =>
   queryOptions({
-    queryKey: ["uploads", "detail", uploadId],
+    queryKey: uploadKeys.detail(uploadId),
     queryFn: () => api<UploadStatus>(`/uploads/${uploadId}`),
     // Poll while the server is still working on it; stop once it has an outcome.
     refetchInterval: (query) => (query.state.data && (query.state.data.status === "queued" || query.state.data.status === "ingesting") ? 500 : false),

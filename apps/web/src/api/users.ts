@@ -1,9 +1,10 @@
 import { queryOptions } from "@tanstack/react-query";
 import type { ChangeEmailInput, InviteFormInput, PasswordLinkPurpose, PatchUserInput, UserDetail, UserListItem } from "@calmcrest/contracts";
 import { api } from "./client";
+import { userKeys } from "./query-keys";
 
 export const usersQuery = queryOptions({
-  queryKey: ["users", "list"],
+  queryKey: userKeys.list(),
   queryFn: () => api<UserListItem[]>("/users"),
 });
 

@@ -1,7 +1,6 @@
 import { useState } from "react";
 import { useForm, type FieldErrors } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import {
   CAMPAIGN_STATUSES,
@@ -14,8 +13,7 @@ import {
   type SiteDetail,
 } from "@calmcrest/contracts";
 import { ApiError } from "../api/client";
-import { updateCampaign } from "../api/campaigns";
-import { updateSite } from "../api/sites";
+import { useUpdateCampaign, useUpdateSite } from "../api/mutations";
 import { Disclosure, Field, inputClass, numberInput, optionalNumber, optionalText, SubmitRow } from "./form-parts";
 import { MonitorFields, type CampaignForm } from "./new-site-forms";
 
@@ -29,7 +27,7 @@ type SiteForm = z.input<typeof createSiteSchema>;
  * are sent, so an unchanged position never trips the server's rule that a site with uploads cannot move.
  */
 export function EditSiteForm({ site }: { site: SiteDetail }) {
-  const queryClient = useQueryClient();
+  const update = useUpdateSite(site.id);
   const [failure, setFailure] = useState<string | null>(null);
   const [done, setDone] = useState<string | null>(null);
   const { register, handleSubmit, formState } = useForm<SiteForm, unknown, z.output<typeof createSiteSchema>>({
@@ -53,9 +51,8 @@ export function EditSiteForm({ site }: { site: SiteDetail }) {
       return;
     }
     try {
-      await updateSite(site.id, patch);
-      // The site's name and figures appear in the site list, its own page and the pages of its campaigns.
-      await Promise.all([queryClient.invalidateQueries({ queryKey: ["sites"] }), queryClient.invalidateQueries({ queryKey: ["campaigns"] })]);
+      // Resolves once the site list, this page and its campaigns' pages have been fetched again.
+      await update.mutateAsync(patch);
       setDone(SAVED);
     } catch (error) {
       setFailure(error instanceof ApiError ? error.message : "The site could not be changed. Try again.");
@@ -115,7 +112,7 @@ const capitalised = (text: string) => `${text.charAt(0).toUpperCase()}${text.sli
  * monitor goes as a whole and only when one of its settings changed, which the server refuses once uploads exist.
  */
 export function EditCampaignForm({ campaign }: { campaign: CampaignDetail }) {
-  const queryClient = useQueryClient();
+  const update = useUpdateCampaign(campaign.id);
   const [failure, setFailure] = useState<string | null>(null);
   const [done, setDone] = useState<string | null>(null);
   const { register, handleSubmit, formState } = useForm<CampaignForm, unknown, z.output<typeof createCampaignSchema>>({
@@ -148,12 +145,8 @@ export function EditCampaignForm({ campaign }: { campaign: CampaignDetail }) {
       return;
     }
     try {
-      await updateCampaign(campaign.id, patch);
-      // The campaign shows on its own page, on its site's page and in the upload wizard's campaign list (site details).
-      await Promise.all([
-        queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaign.id] }),
-        queryClient.invalidateQueries({ queryKey: ["sites"] }),
-      ]);
+      // The campaign shows on its own page, on its site's page and in the campaign list; resolves once they are fetched again.
+      await update.mutateAsync(patch);
       setDone(SAVED);
     } catch (error) {
       setFailure(error instanceof ApiError ? error.message : "The campaign could not be changed. Try again.");

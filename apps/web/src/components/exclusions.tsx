@@ -1,32 +1,24 @@
 import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useQueryClient } from "@tanstack/react-query";
 import { createExclusionSchema, type CampaignDetail, type CreateExclusionInput } from "@calmcrest/contracts";
-import { addExclusion, removeExclusion } from "../api/campaigns";
+import { useAddExclusion, useRemoveExclusion } from "../api/mutations";
 import { ApiError } from "../api/client";
 import { formatDateTimeUtc } from "../lib/format";
 
 /** Exclusion windows of a campaign: samples inside leave every statistic (with the reason on record). */
 export function Exclusions({ campaign }: { campaign: CampaignDetail }) {
-  const queryClient = useQueryClient();
+  const add = useAddExclusion(campaign.id);
+  const remove = useRemoveExclusion(campaign.id);
   const [failure, setFailure] = useState<string | null>(null);
   const { register, handleSubmit, formState, reset } = useForm<CreateExclusionInput>({ resolver: zodResolver(createExclusionSchema) });
-
-  // Exclusions change every summary of the campaign and its site, so both prefixes are refreshed.
-  const refresh = async () => {
-    await Promise.all([
-      queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaign.id] }),
-      queryClient.invalidateQueries({ queryKey: ["sites"] }),
-    ]);
-  };
 
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
     try {
-      await addExclusion(campaign.id, input);
+      // Resolves once the campaign's and its site's figures have been fetched again (api/mutations.ts).
+      await add.mutateAsync(input);
       reset();
-      await refresh();
     } catch (error) {
       setFailure(error instanceof ApiError ? error.message : "The exclusion could not be saved. Try again.");
     }
@@ -35,8 +27,7 @@ export function Exclusions({ campaign }: { campaign: CampaignDetail }) {
   const onRemove = async (exclusionId: number) => {
     setFailure(null);
     try {
-      await removeExclusion(campaign.id, exclusionId);
-      await refresh();
+      await remove.mutateAsync(exclusionId);
     } catch (error) {
       setFailure(error instanceof ApiError ? error.message : "The exclusion could not be removed. Try again.");
     }

@@ -1,19 +1,18 @@
 import { useState } from "react";
 import { useForm, type FieldErrors, type UseFormRegister } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useQueryClient } from "@tanstack/react-query";
 import { useNavigate } from "react-router-dom";
 import { z } from "zod";
 import { createCampaignSchema, createSiteSchema, RESPONSE_SET_LABELS, RESPONSE_SETS } from "@calmcrest/contracts";
 import { ApiError } from "../api/client";
-import { createCampaign, createSite } from "../api/sites";
+import { useCreateCampaign, useCreateSite } from "../api/mutations";
 import { Disclosure, Field, inputClass, numberInput, optionalNumber, SubmitRow } from "./form-parts";
 
 type SiteForm = z.input<typeof createSiteSchema>;
 
 /** A new candidate site (survey leads and administrators). */
 export function NewSiteForm() {
-  const queryClient = useQueryClient();
+  const create = useCreateSite();
   const navigate = useNavigate();
   const [failure, setFailure] = useState<string | null>(null);
   const { register, handleSubmit, formState } = useForm<SiteForm, unknown, z.output<typeof createSiteSchema>>({ resolver: zodResolver(createSiteSchema) });
@@ -21,8 +20,7 @@ export function NewSiteForm() {
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
     try {
-      const site = await createSite(input);
-      await queryClient.invalidateQueries({ queryKey: ["sites"] });
+      const site = await create.mutateAsync(input);
       await navigate(`/sites/${site.id}`);
     } catch (error) {
       setFailure(error instanceof ApiError ? error.message : "The site could not be created. Try again.");
@@ -92,7 +90,7 @@ export function MonitorFields({ idPrefix, register, errors }: { idPrefix: string
 
 /** A new campaign at a site: one monitor set up there for a period, with the settings its numbers depend on. */
 export function NewCampaignForm({ siteId }: { siteId: number }) {
-  const queryClient = useQueryClient();
+  const create = useCreateCampaign(siteId);
   const [failure, setFailure] = useState<string | null>(null);
   const { register, handleSubmit, formState, reset } = useForm<CampaignForm, unknown, z.output<typeof createCampaignSchema>>({
     resolver: zodResolver(createCampaignSchema),
@@ -102,9 +100,8 @@ export function NewCampaignForm({ siteId }: { siteId: number }) {
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
     try {
-      await createCampaign(siteId, input);
+      await create.mutateAsync(input);
       reset();
-      await queryClient.invalidateQueries({ queryKey: ["sites"] });
     } catch (error) {
       setFailure(error instanceof ApiError ? error.message : "The campaign could not be created. Try again.");
     }

@@ -16,6 +16,7 @@ import { SummarySection } from "../components/summary-section";
 import { RereadPanel, RereadRequest, UploadActions, UploadHistoryNote } from "../components/upload/reread";
 import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber, reasonLabel } from "../lib/format";
 import { idParam } from "../route-loaders";
+import { campaignKeys, siteKeys } from "../api/query-keys";
 
 const STATUS_STYLES: Record<string, string> = {
   done: "bg-accent-pale text-accent-strong",
@@ -46,7 +47,7 @@ function RetryButton({ upload }: { upload: UploadListItem }) {
           setProblem(null);
           try {
             await retryUpload(upload.id);
-            await queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", upload.campaignId] });
+            await queryClient.invalidateQueries({ queryKey: campaignKeys.detail(upload.campaignId) });
           } catch (error) {
             setProblem(error instanceof ApiError ? error.message : "The retry could not be started.");
           }
@@ -136,9 +137,9 @@ export function CampaignPage() {
   useEffect(() => {
     if (seenFinished.current === finishedUploads) return;
     seenFinished.current = finishedUploads;
-    void queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaignId, "summary"] });
-    void queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaignId, "samples"] });
-    void queryClient.invalidateQueries({ queryKey: ["sites"] });
+    void queryClient.invalidateQueries({ queryKey: campaignKeys.summaries(campaignId) });
+    void queryClient.invalidateQueries({ queryKey: campaignKeys.allSamples(campaignId) });
+    void queryClient.invalidateQueries({ queryKey: siteKeys.all });
   }, [finishedUploads, campaignId, queryClient]);
 
   return (

@@ -47,6 +47,7 @@ let checkAnswer: () => WholeFileCheck = goodCheck;
 const answers: Record<string, () => unknown> = {
   "/api/sites": () => [site],
   "/api/sites/3": () => siteDetail,
+  "/api/campaigns": () => [{ ...campaignItem, siteName: site.name }],
   "/api/campaigns/7": campaign,
   "/api/campaigns/7/uploads/preview": () => preview,
   "/api/campaigns/7/saved-mapping": () => ({}),

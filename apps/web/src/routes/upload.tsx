@@ -18,6 +18,7 @@ import { leadingComments, monitorDisagreements, statedMonitor } from "../lib/com
 import { HEAD_BYTES, mappingFitsHeaders, readLogHead, unitsOfMapping, type LogHead } from "../lib/log-head";
 import { formatArcsec, formatBytes, formatNumber } from "../lib/format";
 import { readText } from "../lib/read-text";
+import { campaignKeys, uploadKeys } from "../api/query-keys";
 
 /** The wizard's form: the campaign, the mapping (the shared schema the server also checks) and whether to keep it. */
 const wizardSchema = z.object({
@@ -44,7 +45,7 @@ function Step({ number, title, children, done }: { number: number; title: string
 
 function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file: File; mapping: ColumnMappingInput }) {
   const preview = useQuery({
-    queryKey: ["uploads", "preview", campaignId, file.name, file.size, file.lastModified, mapping],
+    queryKey: uploadKeys.preview(campaignId, file, mapping),
     queryFn: () => previewUpload(campaignId, file.slice(0, HEAD_BYTES), file.name, mapping),
     placeholderData: keepPreviousData,
     staleTime: Number.POSITIVE_INFINITY,
@@ -247,7 +248,7 @@ export function UploadPage() {
     if (values.keepMapping) {
       try {
         await saveMapping(target.id, { mapping: chosenMapping, units: { ...unitsOfMapping(chosenMapping as ColumnMapping) } });
-        await queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", target.id] });
+        await queryClient.invalidateQueries({ queryKey: campaignKeys.detail(target.id) });
       } catch (error) {
         setFailure(`The mapping could not be saved for next time (${error instanceof ApiError ? error.message : "try again"}); the upload goes on.`);
       }

@@ -6,6 +6,7 @@ import { uploadQuery } from "../../api/uploads";
 import { formatNumber, reasonLabel } from "../../lib/format";
 import { RereadOffer } from "./reread";
 import { setAsideSentence } from "./whole-file-check";
+import { campaignKeys, siteKeys } from "../../api/query-keys";
 
 export type FileSend =
   | { state: "waiting" }
@@ -80,10 +81,11 @@ function Ingest({ uploadId, onFinished, check }: { uploadId: number; onFinished:
   useEffect(() => {
     if (!finished || reported.current || !status.data) return;
     reported.current = true;
-    // New samples change the campaign, its site and the site list.
+    // New samples change the campaign, its site, the site list and the campaign list's sample counts.
     void Promise.all([
-      queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", status.data.campaignId] }),
-      queryClient.invalidateQueries({ queryKey: ["sites"] }),
+      queryClient.invalidateQueries({ queryKey: campaignKeys.detail(status.data.campaignId) }),
+      queryClient.invalidateQueries({ queryKey: campaignKeys.list() }),
+      queryClient.invalidateQueries({ queryKey: siteKeys.all }),
     ]).then(onFinished);
   }, [finished, status.data, queryClient, onFinished]);
 

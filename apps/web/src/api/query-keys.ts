@@ -1,0 +1,37 @@
+import type { SummaryQuery } from "@calmcrest/contracts";
+
+/**
+ * The query keys of the field screens, built in one place so a query and the invalidation after a change always
+ * agree: every key of an area starts with the area's `all`, a site's or campaign's keys with its `detail(id)`, so
+ * invalidating `detail(id)` refreshes its summary and samples too.
+ */
+export const siteKeys = {
+  all: ["sites"] as const,
+  list: () => [...siteKeys.all, "list"] as const,
+  detail: (siteId: number) => [...siteKeys.all, "detail", siteId] as const,
+  summary: (siteId: number, filters: SummaryQuery) => [...siteKeys.detail(siteId), "summary", filters] as const,
+  samples: (siteId: number, filters: SummaryQuery, options: object) => [...siteKeys.detail(siteId), "samples", filters, options] as const,
+};
+
+export const campaignKeys = {
+  all: ["campaigns"] as const,
+  /** GET /api/campaigns: every campaign the user can see. */
+  list: () => [...campaignKeys.all, "list"] as const,
+  detail: (campaignId: number) => [...campaignKeys.all, "detail", campaignId] as const,
+  summaries: (campaignId: number) => [...campaignKeys.detail(campaignId), "summary"] as const,
+  summary: (campaignId: number, filters: SummaryQuery) => [...campaignKeys.summaries(campaignId), filters] as const,
+  allSamples: (campaignId: number) => [...campaignKeys.detail(campaignId), "samples"] as const,
+  samples: (campaignId: number, filters: SummaryQuery, options: object) => [...campaignKeys.allSamples(campaignId), filters, options] as const,
+};
+
+export const uploadKeys = {
+  all: ["uploads"] as const,
+  detail: (uploadId: number) => [...uploadKeys.all, "detail", uploadId] as const,
+  preview: (campaignId: number, file: { name: string; size: number; lastModified: number }, mapping: object) =>
+    [...uploadKeys.all, "preview", campaignId, file.name, file.size, file.lastModified, mapping] as const,
+};
+
+export const userKeys = {
+  all: ["users"] as const,
+  list: () => [...userKeys.all, "list"] as const,
+};

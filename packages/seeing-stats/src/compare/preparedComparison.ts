@@ -1,5 +1,5 @@
 import { SeeingInputError } from '../errors.js';
-import { bootstrapPooledMedianSorted } from '../stats/bootstrapPooledMedian.js';
+import { bootstrapPooledMedianPairSorted, bootstrapPooledMedianSorted } from '../stats/bootstrapPooledMedian.js';
 import { mannWhitney } from '../stats/mannWhitney.js';
 import { nightIntervalStatus, MINIMUM_NIGHTS_FOR_INTERVAL } from '../stats/nightIntervalStatus.js';
 import { percentileSorted } from '../stats/percentile.js';
@@ -307,9 +307,9 @@ export function comparePreparedPaired(
   }
   const replicates = options.bootstrapReplicates ?? 1000;
   const seed = options.seed ?? 1;
-  // One seed for both sites and the same number of groups: each replicate draws the same nights at both (as comparePairedNights).
-  const replicatesA = bootstrapPooledMedianSorted(sideA.sorted, sideA.groupOf, sideA.groupSizes, { replicates, seed });
-  const replicatesB = bootstrapPooledMedianSorted(sideB.sorted, sideB.groupOf, sideB.groupSizes, { replicates, seed });
+  // One seed for both sites and the same number of groups: each replicate draws the same nights at both (as
+  // comparePairedNights), so the draws are made once for the two sides.
+  const { a: replicatesA, b: replicatesB } = bootstrapPooledMedianPairSorted(sideA, sideB, { replicates, seed });
   const differences = new Float64Array(replicates);
   for (let index = 0; index < replicates; index += 1) differences[index] = (replicatesA[index] ?? 0) - (replicatesB[index] ?? 0);
   differences.sort();

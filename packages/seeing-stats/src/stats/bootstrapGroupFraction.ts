@@ -1,5 +1,5 @@
 import { SeeingInputError } from '../errors.js';
-import { createRandom } from './random.js';
+import { RandomStream } from './random.js';
 
 /**
  * Block bootstrap of a pooled fraction (Efron 1979, whole groups resampled as in bootstrapPooledMedian): group g
@@ -21,13 +21,14 @@ export function bootstrapGroupFraction(hitCounts: Int32Array, groupSizes: Int32A
     const hits = hitCounts[group] ?? 0;
     if (hits < 0 || hits > (groupSizes[group] ?? 0)) throw new SeeingInputError(`hitCounts[${group}] must be between 0 and the group size ${groupSizes[group] ?? 0}, got ${hits}`);
   }
-  const random = createRandom(options.seed);
+  // The stream of createRandom(seed), drawn as indices (the same draws, without a boxed number per draw).
+  const stream = new RandomStream(options.seed);
   const fractions = new Float64Array(options.replicates);
   for (let replicate = 0; replicate < options.replicates; replicate += 1) {
     let hits = 0;
     let size = 0;
     for (let draw = 0; draw < groupCount; draw += 1) {
-      const group = Math.floor(random() * groupCount);
+      const group = stream.nextIndex(groupCount);
       hits += hitCounts[group] ?? 0;
       size += groupSizes[group] ?? 0;
     }

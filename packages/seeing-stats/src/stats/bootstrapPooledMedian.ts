@@ -1,6 +1,6 @@
 import { SeeingInputError } from '../errors.js';
 import { argsortPositive } from './argsortPositive.js';
-import { createRandom } from './random.js';
+import { RandomStream } from './random.js';
 
 export interface GroupedValues {
   /** All values, grouped: group g occupies values[offsets[g]] .. values[offsets[g + 1] − 1], each group sorted ascending. */
@@ -49,33 +49,55 @@ export function bootstrapPooledMedianSorted(
   groupSizes: Int32Array,
   options: { replicates: number; seed: number },
 ): Float64Array {
-  const groupCount = groupSizes.length;
-  const total = sorted.length;
-  if (groupCount < 1 || total === 0) throw new SeeingInputError('bootstrapPooledMedian needs at least one group with values');
-  if (groupOf.length !== total) throw new SeeingInputError(`groupOf must tag every sorted value, got ${groupOf.length} tags for ${total} values`);
-  if (!Number.isInteger(options.replicates) || options.replicates < 1) {
-    throw new SeeingInputError(`replicates must be a positive whole number, got ${String(options.replicates)}`);
-  }
-  // A walk through a cell is cheap next to a probe (one multiply-add per drawn group), so cells are long; they
-  // grow with the number of groups so the grid stays within about 8 million entries.
-  const cell = Math.max(1024, Math.ceil((total * groupCount) / 8_000_000));
-  const search: ReplicateSearch = {
-    sorted,
-    groupOf,
-    groupSizes,
-    cell,
-    gridPoints: Math.ceil(total / cell) + 1,
-    gridCounts: buildGrid(groupOf, groupCount, cell),
-    random: createRandom(options.seed),
-    drawCounts: new Int32Array(groupCount),
-    activeGroups: new Int32Array(groupCount),
-    activeWeights: new Int32Array(groupCount),
-  };
+  const search = prepareSearch(sorted, groupOf, groupSizes);
+  requireReplicates(options.replicates);
+  const draws = createDraws(groupSizes.length, options.seed);
   const medians = new Float64Array(options.replicates);
-  for (let replicate = 0; replicate < options.replicates; replicate += 1) medians[replicate] = replicateMedian(search);
+  for (let replicate = 0; replicate < options.replicates; replicate += 1) {
+    drawReplicate(draws);
+    medians[replicate] = replicateMedian(search, draws);
+    clearDraws(draws);
+  }
   return medians;
 }
 
+/**
+ * bootstrapPooledMedianSorted for two sides with the same number of groups and the same seed, as a paired
+ * bootstrap over common nights runs it: both sides would make the same draws (same stream, same group count), so
+ * each replicate's groups are drawn once and both medians are found from them. Returns exactly what the two
+ * separate calls would, in draw order.
+ * Throws SeeingInputError when the sides have different numbers of groups (or as bootstrapPooledMedianSorted).
+ */
+export function bootstrapPooledMedianPairSorted(
+  sideA: { sorted: Float64Array; groupOf: Int32Array; groupSizes: Int32Array },
+  sideB: { sorted: Float64Array; groupOf: Int32Array; groupSizes: Int32Array },
+  options: { replicates: number; seed: number },
+): { a: Float64Array; b: Float64Array } {
+  if (sideA.groupSizes.length !== sideB.groupSizes.length) {
+    throw new SeeingInputError(`a paired bootstrap needs the same groups on both sides, got ${sideA.groupSizes.length} and ${sideB.groupSizes.length}`);
+  }
+  const searchA = prepareSearch(sideA.sorted, sideA.groupOf, sideA.groupSizes);
+  const searchB = prepareSearch(sideB.sorted, sideB.groupOf, sideB.groupSizes);
+  requireReplicates(options.replicates);
+  const draws = createDraws(sideA.groupSizes.length, options.seed);
+  const a = new Float64Array(options.replicates);
+  const b = new Float64Array(options.replicates);
+  for (let replicate = 0; replicate < options.replicates; replicate += 1) {
+    drawReplicate(draws);
+    a[replicate] = replicateMedian(searchA, draws);
+    b[replicate] = replicateMedian(searchB, draws);
+    clearDraws(draws);
+  }
+  return { a, b };
+}
+
+function requireReplicates(replicates: number): void {
+  if (!Number.isInteger(replicates) || replicates < 1) {
+    throw new SeeingInputError(`replicates must be a positive whole number, got ${String(replicates)}`);
+  }
+}
+
+/** The sorted values of one side with their grid of per-group counts, built once for all replicates. */
 interface ReplicateSearch {
   sorted: Float64Array;
   groupOf: Int32Array;
@@ -83,12 +105,63 @@ interface ReplicateSearch {
   cell: number;
   gridPoints: number;
   gridCounts: Int32Array;
-  random: () => number;
+}
+
+function prepareSearch(sorted: Float64Array, groupOf: Int32Array, groupSizes: Int32Array): ReplicateSearch {
+  const groupCount = groupSizes.length;
+  const total = sorted.length;
+  if (groupCount < 1 || total === 0) throw new SeeingInputError('bootstrapPooledMedian needs at least one group with values');
+  if (groupOf.length !== total) throw new SeeingInputError(`groupOf must tag every sorted value, got ${groupOf.length} tags for ${total} values`);
+  // A walk through a cell is cheap next to a probe (one multiply-add per drawn group), so cells are long; they
+  // grow with the number of groups so the grid stays within about 8 million entries.
+  const cell = Math.max(1024, Math.ceil((total * groupCount) / 8_000_000));
+  return { sorted, groupOf, groupSizes, cell, gridPoints: Math.ceil(total / cell) + 1, gridCounts: buildGrid(groupOf, groupCount, cell) };
+}
+
+/** One replicate's draws: the stream, and the groups drawn at least once (in first-draw order) with their counts. */
+interface Draws {
+  groupCount: number;
+  stream: RandomStream;
   /** Draws of each group in the current replicate; all zero between replicates. */
   drawCounts: Int32Array;
-  /** The groups drawn at least once, in first-draw order, and their draw counts. */
   activeGroups: Int32Array;
   activeWeights: Int32Array;
+  activeCount: number;
+}
+
+function createDraws(groupCount: number, seed: number): Draws {
+  return {
+    groupCount,
+    // The stream of createRandom(seed), drawn as indices: the same draws, without a boxed number per draw.
+    stream: new RandomStream(seed),
+    drawCounts: new Int32Array(groupCount),
+    activeGroups: new Int32Array(groupCount),
+    activeWeights: new Int32Array(groupCount),
+    activeCount: 0,
+  };
+}
+
+/** Draws groupCount groups with replacement (Math.floor(random() · groupCount) each, as createRandom gives). */
+function drawReplicate(draws: Draws): void {
+  const { groupCount, stream, drawCounts, activeGroups, activeWeights } = draws;
+  let activeCount = 0;
+  for (let draw = 0; draw < groupCount; draw += 1) {
+    const group = stream.nextIndex(groupCount);
+    const count = drawCounts[group] ?? 0;
+    if (count === 0) {
+      activeGroups[activeCount] = group;
+      activeCount += 1;
+    }
+    drawCounts[group] = count + 1;
+  }
+  for (let slot = 0; slot < activeCount; slot += 1) activeWeights[slot] = drawCounts[activeGroups[slot] ?? 0] ?? 0;
+  draws.activeCount = activeCount;
+}
+
+function clearDraws(draws: Draws): void {
+  const { drawCounts, activeGroups, activeCount } = draws;
+  for (let slot = 0; slot < activeCount; slot += 1) drawCounts[activeGroups[slot] ?? 0] = 0;
+  draws.activeCount = 0;
 }
 
 /** gridCounts[p · groupCount + g] = values of group g at sorted positions below p · cell. */
@@ -109,97 +182,84 @@ function buildGrid(groupOf: Int32Array, groupCount: number, cell: number): Int32
 }
 
 /** Weighted count of the values at sorted positions below point · cell. */
-function weightedCountBefore(search: ReplicateSearch, activeCount: number, point: number): number {
-  const { gridCounts, activeGroups, activeWeights } = search;
+function weightedCountBefore(search: ReplicateSearch, draws: Draws, point: number): number {
+  const { gridCounts } = search;
+  const { activeGroups, activeWeights, activeCount } = draws;
   const base = point * search.groupSizes.length;
   let count = 0;
   for (let slot = 0; slot < activeCount; slot += 1) count += (activeWeights[slot] ?? 0) * (gridCounts[base + (activeGroups[slot] ?? 0)] ?? 0);
   return count;
 }
 
-/** One replicate: draw the groups, then find its type-7 median among the weighted sorted values. */
-function replicateMedian(search: ReplicateSearch): number {
-  const { sorted, groupOf, groupSizes, cell, gridPoints, random, drawCounts, activeGroups, activeWeights } = search;
-  const groupCount = groupSizes.length;
+/** One replicate's type-7 median among the weighted sorted values, for the groups drawn. */
+function replicateMedian(search: ReplicateSearch, draws: Draws): number {
+  const { sorted, groupOf, groupSizes, cell, gridPoints } = search;
+  const { drawCounts, activeGroups, activeWeights, activeCount } = draws;
   const total = sorted.length;
-  let activeCount = 0;
+  // Values in the replicate: each drawn group's size times its draws (the same sum as adding a size per draw).
   let pooledSize = 0;
-  for (let draw = 0; draw < groupCount; draw += 1) {
-    const group = Math.floor(random() * groupCount);
-    const draws = drawCounts[group] ?? 0;
-    if (draws === 0) {
-      activeGroups[activeCount] = group;
-      activeCount += 1;
+  for (let slot = 0; slot < activeCount; slot += 1) pooledSize += (activeWeights[slot] ?? 0) * (groupSizes[activeGroups[slot] ?? 0] ?? 0);
+  if (pooledSize === 0) return Number.NaN; // only empty groups were drawn
+
+  const position = (pooledSize - 1) / 2;
+  const rank = Math.floor(position); // type-7 median: order statistics rank and rank + 1 (0-based), interpolated
+  const target = rank + 1;
+
+  // Bracket: weighted count below target at lowPoint, at least target at highPoint (gridPoints: past the end).
+  let lowPoint = 0;
+  let lowCount = 0;
+  let highPoint = gridPoints;
+  let highCount = pooledSize;
+  const probe = (point: number): void => {
+    if (point <= lowPoint || point >= highPoint) return;
+    const count = weightedCountBefore(search, draws, point);
+    if (count < target) {
+      lowPoint = point;
+      lowCount = count;
+    } else {
+      highPoint = point;
+      highCount = count;
     }
-    drawCounts[group] = draws + 1;
-    pooledSize += groupSizes[group] ?? 0;
+  };
+  // Where the target would fall were the weights even, then a correction by the shortfall seen there.
+  const positionsPerWeight = total / pooledSize;
+  const guess = Math.min(gridPoints - 1, Math.floor((target * positionsPerWeight) / cell));
+  probe(guess);
+  const seenCount = guess === lowPoint ? lowCount : guess === highPoint ? highCount : 0;
+  const estimate = Math.floor((guess * cell + (target - seenCount) * positionsPerWeight) / cell);
+  probe(estimate);
+  probe(estimate + 1);
+  // Still open: gallop on from the estimate in the direction it fell short, then bisect what is left.
+  const upward = lowPoint > estimate;
+  let galloping = upward || highPoint <= estimate;
+  for (let step = 2; highPoint - lowPoint > 1; step *= 2) {
+    const point = upward ? lowPoint + step : highPoint - step;
+    if (galloping && point > lowPoint && point < highPoint) {
+      probe(point);
+      // Once a probe lands past the crossing the bracket is at most one step wide.
+      galloping = upward ? lowPoint === point : highPoint === point;
+    } else {
+      galloping = false;
+      probe((lowPoint + highPoint) >>> 1);
+    }
   }
-  for (let slot = 0; slot < activeCount; slot += 1) activeWeights[slot] = drawCounts[activeGroups[slot] ?? 0] ?? 0;
 
-  let median = Number.NaN; // stays NaN when only empty groups were drawn
-  if (pooledSize > 0) {
-    const position = (pooledSize - 1) / 2;
-    const rank = Math.floor(position); // type-7 median: order statistics rank and rank + 1 (0-based), interpolated
-    const target = rank + 1;
-
-    // Bracket: weighted count below target at lowPoint, at least target at highPoint (gridPoints: past the end).
-    let lowPoint = 0;
-    let lowCount = 0;
-    let highPoint = gridPoints;
-    let highCount = pooledSize;
-    const probe = (point: number): void => {
-      if (point <= lowPoint || point >= highPoint) return;
-      const count = weightedCountBefore(search, activeCount, point);
-      if (count < target) {
-        lowPoint = point;
-        lowCount = count;
-      } else {
-        highPoint = point;
-        highCount = count;
-      }
-    };
-    // Where the target would fall were the weights even, then a correction by the shortfall seen there.
-    const positionsPerWeight = total / pooledSize;
-    const guess = Math.min(gridPoints - 1, Math.floor((target * positionsPerWeight) / cell));
-    probe(guess);
-    const seenCount = guess === lowPoint ? lowCount : guess === highPoint ? highCount : 0;
-    const estimate = Math.floor((guess * cell + (target - seenCount) * positionsPerWeight) / cell);
-    probe(estimate);
-    probe(estimate + 1);
-    // Still open: gallop on from the estimate in the direction it fell short, then bisect what is left.
-    const upward = lowPoint > estimate;
-    let galloping = upward || highPoint <= estimate;
-    for (let step = 2; highPoint - lowPoint > 1; step *= 2) {
-      const point = upward ? lowPoint + step : highPoint - step;
-      if (galloping && point > lowPoint && point < highPoint) {
-        probe(point);
-        // Once a probe lands past the crossing the bracket is at most one step wide.
-        galloping = upward ? lowPoint === point : highPoint === point;
-      } else {
-        galloping = false;
-        probe((lowPoint + highPoint) >>> 1);
-      }
-    }
-
-    let count = lowCount;
-    let cursor = lowPoint * cell - 1;
-    while (count < target) {
+  let count = lowCount;
+  let cursor = lowPoint * cell - 1;
+  while (count < target) {
+    cursor += 1;
+    count += drawCounts[groupOf[cursor] ?? 0] ?? 0;
+  }
+  const lowValue = sorted[cursor] ?? Number.NaN;
+  let highValue = lowValue;
+  if (position > rank && count < target + 1) {
+    while (count < target + 1) {
       cursor += 1;
       count += drawCounts[groupOf[cursor] ?? 0] ?? 0;
     }
-    const lowValue = sorted[cursor] ?? Number.NaN;
-    let highValue = lowValue;
-    if (position > rank && count < target + 1) {
-      while (count < target + 1) {
-        cursor += 1;
-        count += drawCounts[groupOf[cursor] ?? 0] ?? 0;
-      }
-      highValue = sorted[cursor] ?? Number.NaN;
-    }
-    median = lowValue + (position - rank) * (highValue - lowValue);
+    highValue = sorted[cursor] ?? Number.NaN;
   }
-  for (let slot = 0; slot < activeCount; slot += 1) drawCounts[activeGroups[slot] ?? 0] = 0;
-  return median;
+  return lowValue + (position - rank) * (highValue - lowValue);
 }
 
 /** All values sorted ascending, and the group each sorted position came from. */

@@ -4,13 +4,13 @@ import jStatModule from 'jstat';
 import kstest from '@stdlib/stats-kstest';
 import stdlibNormalCdf from '@stdlib/stats-base-dists-normal-cdf';
 import { argsortPositive, argsortPositiveByRadix, sortPositive } from './argsortPositive.js';
-import { bootstrapPooledMedian, bootstrapPooledMedianSorted, sortWithGroups } from './bootstrapPooledMedian.js';
+import { bootstrapPooledMedian, bootstrapPooledMedianPairSorted, bootstrapPooledMedianSorted, sortWithGroups } from './bootstrapPooledMedian.js';
 import { fitLogNormal, fitLogNormalToLogs, naturalLogs } from './fitLogNormal.js';
 import { ksDistanceLogNormal, ksDistanceLogNormalOfLogs } from './ksDistanceLogNormal.js';
 import { mannWhitney } from './mannWhitney.js';
 import { normalCdf } from './normalCdf.js';
 import { percentile, percentileSorted } from './percentile.js';
-import { createRandom, normalDeviate } from './random.js';
+import { createRandom, normalDeviate, RandomStream } from './random.js';
 
 interface JStatReference {
   percentile(values: number[], fraction: number): number;
@@ -250,6 +250,34 @@ describe('night bootstrap of the median', () => {
     const medians = Array.from(bootstrapPooledMedian({ values: Float64Array.of(1, 2, 3), offsets: Int32Array.of(0, 0, 3, 3) }, { replicates: 50, seed: 4 }));
     expect(medians.every((median) => median === 2 || Number.isNaN(median))).toBe(true);
     expect(medians.filter((median) => Number.isNaN(median)).length).toBeGreaterThan(0);
+  });
+  it('draws a paired bootstrap once for both sides and gives each side the replicates of its own run', () => {
+    // 40 common nights with different sample counts on each side; the pair entry point must equal two separate
+    // seeded runs exactly (and, through them, the materialised replicate medians of naiveReplicateMedians)
+    const nightsA = Array.from({ length: 40 }, (_, night) => logNormalSample(20 + ((night * 7) % 50), 300 + night));
+    const nightsB = Array.from({ length: 40 }, (_, night) => logNormalSample(5 + ((night * 11) % 90), 400 + night, 0.8));
+    const side = (nights: number[][]) => {
+      const grouped = toGrouped(nights);
+      const { sorted, groupOf } = sortWithGroups(grouped.values, grouped.offsets);
+      return { sorted, groupOf, groupSizes: Int32Array.from(nights, (night) => night.length) };
+    };
+    const sideA = side(nightsA);
+    const sideB = side(nightsB);
+    const pair = bootstrapPooledMedianPairSorted(sideA, sideB, { replicates: 400, seed: 9 });
+    expect(Array.from(pair.a)).toEqual(Array.from(bootstrapPooledMedianSorted(sideA.sorted, sideA.groupOf, sideA.groupSizes, { replicates: 400, seed: 9 })));
+    expect(Array.from(pair.b)).toEqual(Array.from(bootstrapPooledMedianSorted(sideB.sorted, sideB.groupOf, sideB.groupSizes, { replicates: 400, seed: 9 })));
+    naiveReplicateMedians(nightsB, 30, 9).forEach((median, index) => expect(pair.b[index]).toBeCloseTo(median, 12));
+    expect(() => bootstrapPooledMedianPairSorted(sideA, side(nightsB.slice(1)), { replicates: 3, seed: 9 })).toThrow(/same groups on both sides/);
+  });
+  it('RandomStream draws exactly the indices Math.floor(createRandom(seed)() · count) gives', () => {
+    for (const seed of [0, 1, 42, 0x9e3779ba, 2 ** 32 - 1]) {
+      const random = createRandom(seed);
+      const stream = new RandomStream(seed);
+      for (let draw = 0; draw < 5000; draw += 1) {
+        const count = 1 + (draw % 3700);
+        expect(stream.nextIndex(count)).toBe(Math.floor(random() * count));
+      }
+    }
   });
   it('sortWithGroups tags every sorted value with its group', () => {
     const grouped = toGrouped([[0.3, 0.9], [0.5], [0.1, 0.7]]);

@@ -5,8 +5,8 @@
 // recomputed (columns in memory but a comparison not asked before: another outer scale each time, median of 3).
 // Run through bench/run.ts (`npm run bench -- --only compare`).
 import { spawn, type ChildProcess } from "node:child_process";
-import { existsSync, mkdirSync, mkdtempSync, openAsBlob, rmSync, statSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { existsSync, mkdirSync, mkdtempSync, openAsBlob, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { loadavg, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
@@ -42,6 +42,14 @@ async function ridgeLog(ridge: (typeof RIDGES)[number], rows: number): Promise<s
     maxRows: rows,
   });
   return path;
+}
+
+/** CPU time (user + system, all threads) the process has used so far, in ms, from /proc (clock ticks of 10 ms). */
+function processCpuMs(pid: number): number {
+  const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+  const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+  // After the command name: state is field 3, utime field 14 and stime field 15 (1-based, proc(5)).
+  return (Number(fields[11]) + Number(fields[12])) * 10;
 }
 
 function startServer(dataDir: string, port: number): ChildProcess {
@@ -103,17 +111,32 @@ async function loadRidges(base: string, rows: number): Promise<{ siteIds: number
   return { siteIds, stored };
 }
 
-export async function run({ rows }: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
-  const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-compare-"));
+/**
+ * Runs the comparison benchmark. With `keepDataDir` (CALMCREST_BENCH_COMPARE_DATA_DIR) the loaded data directory is
+ * kept there and reused by the next run with the same rows, so the cold figure can be measured again without four
+ * uploads (the ridges' ids and stored count are kept in bench-compare.json beside the database).
+ */
+export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMPARE_DATA_DIR }: { rows: number; runs?: number; keepDataDir?: string }): Promise<Record<string, number | string>> {
+  const dataDir = keepDataDir ?? mkdtempSync(join(tmpdir(), "calmcrest-bench-compare-"));
+  const loadedFile = join(dataDir, "bench-compare.json");
   try {
-    const loadPort = await freePort();
-    const loader = startServer(dataDir, loadPort);
-    let loaded: { siteIds: number[]; stored: number };
-    try {
-      await waitForHealth(`http://127.0.0.1:${loadPort}`, loader, 60_000);
-      loaded = await loadRidges(`http://127.0.0.1:${loadPort}`, rows);
-    } finally {
-      await stopServer(loader);
+    let loaded: { siteIds: number[]; stored: number; rows?: number } | null = null;
+    if (keepDataDir !== undefined && existsSync(loadedFile)) {
+      const kept = JSON.parse(readFileSync(loadedFile, "utf8")) as { siteIds: number[]; stored: number; rows?: number };
+      if (kept.rows === rows) loaded = kept;
+      else rmSync(dataDir, { recursive: true, force: true });
+    }
+    if (loaded === null) {
+      mkdirSync(dataDir, { recursive: true });
+      const loadPort = await freePort();
+      const loader = startServer(dataDir, loadPort);
+      try {
+        await waitForHealth(`http://127.0.0.1:${loadPort}`, loader, 60_000);
+        loaded = { ...(await loadRidges(`http://127.0.0.1:${loadPort}`, rows)), rows };
+      } finally {
+        await stopServer(loader);
+      }
+      if (keepDataDir !== undefined) writeFileSync(loadedFile, JSON.stringify(loaded));
     }
 
     // A fresh process on the same data: nothing of the samples is in memory yet.
@@ -135,11 +158,19 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
         verdicts = body.pairs.map((pair) => pair.paired?.verdict ?? "none").join(",");
         return elapsedMs;
       };
+      // The server's own CPU time beside each wall time: on a shared machine the wall time also holds other processes' turns.
+      const cpuBefore = processCpuMs(server.pid ?? 0);
       const coldMs = await compareMs();
+      const coldCpuMs = processCpuMs(server.pid ?? 0) - cpuBefore;
       const warm: number[] = [];
       for (let index = 0; index < 5; index += 1) warm.push(await compareMs());
       const recomputed: number[] = [];
-      for (const outerScaleM of [26, 27, 28]) recomputed.push(await compareMs(`&outerScaleM=${outerScaleM}`));
+      const recomputedCpu: number[] = [];
+      for (const outerScaleM of [26, 27, 28]) {
+        const before = processCpuMs(server.pid ?? 0);
+        recomputed.push(await compareMs(`&outerScaleM=${outerScaleM}`));
+        recomputedCpu.push(processCpuMs(server.pid ?? 0) - before);
+      }
       return {
         sites: RIDGES.length,
         storedSamplesPerSite: Math.round(loaded.stored / RIDGES.length),
@@ -147,8 +178,11 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
         fewestCommonNights: commonNights,
         verdicts,
         comparisonColdMs: Math.round(coldMs),
+        comparisonColdServerCpuMs: coldCpuMs,
         comparisonWarmMedianMs: Math.round(median(warm)),
         comparisonRecomputedMedianMs: Math.round(median(recomputed)),
+        comparisonRecomputedServerCpuMedianMs: median(recomputedCpu),
+        loadAverage1Min: Number(loadavg()[0]?.toFixed(1)),
         serverPeakRssMb: Math.round(peakRssMb(server.pid ?? 0)),
         runAt: new Date().toISOString(),
       };
@@ -156,7 +190,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
       await stopServer(server);
     }
   } finally {
-    rmSync(dataDir, { recursive: true, force: true });
+    if (keepDataDir === undefined) rmSync(dataDir, { recursive: true, force: true });
   }
 }
 

@@ -14,9 +14,13 @@ export interface CampaignColumns {
   zenithDeg: Float64Array;
   sunAltDeg: Float64Array;
   flux: Float64Array;
-  /** Per-axis seeing (variance inputs only), for the longitudinal-against-transverse check. */
-  seeingLongArcsec: Float64Array;
-  seeingTransArcsec: Float64Array;
+  /**
+   * Per-axis seeing (variance inputs only, NaN otherwise), for the longitudinal-against-transverse chart. Only the
+   * sample series shows them, so they are read only for a task that asks (sync(ids, { axes: true })): summaries and
+   * comparisons hold 16 bytes a sample less and read two columns fewer.
+   */
+  seeingLongArcsec?: Float64Array;
+  seeingTransArcsec?: Float64Array;
   /** 1 where the sample was flagged anisotropic at ingest (the anisotropy filter), else 0 (always loaded). */
   anisotropic?: Uint8Array;
   /** τ0 and θ0 reduced to zenith and 500 nm (NaN where not logged); absent when the campaign logged none. */
@@ -41,9 +45,9 @@ interface CampaignEntry {
   bytes: number;
 }
 
-/** About 60 bytes a sample: seven Float64 columns and the anisotropy byte (τ0/θ0 add 8 each when logged); the seeing sort adds 12 more. */
+/** About 41 bytes a sample: five Float64 columns and the anisotropy byte (τ0/θ0 add 8 each when logged, the two axes 16 when read); the seeing sort adds 12 more. */
 function columnBytes(columns: CampaignColumns): number {
-  const floatColumns = 7 + (columns.tau0Ms ? 1 : 0) + (columns.theta0Arcsec ? 1 : 0);
+  const floatColumns = 5 + (columns.tau0Ms ? 1 : 0) + (columns.theta0Arcsec ? 1 : 0);
   return columns.timeMs.length * (floatColumns * Float64Array.BYTES_PER_ELEMENT + 1);
 }
 
@@ -121,7 +125,7 @@ export class SampleCache {
    * moved is read again, with its exclusions), so columns, exclusions and versions describe the same committed
    * state. Pins the campaigns until unpin(): call it when the computation is done.
    */
-  sync(campaignIds: readonly number[]): CampaignSnapshot {
+  sync(campaignIds: readonly number[], options: { axes?: boolean } = {}): CampaignSnapshot {
     for (const campaignId of campaignIds) this.pinned.add(campaignId);
     const read = this.sqlite.transaction((): CampaignSnapshot => {
       const versions = readDataVersions(this.sqlite, campaignIds);
@@ -129,7 +133,10 @@ export class SampleCache {
         const version = versions[index] ?? 0;
         const held = this.campaigns.get(campaignId);
         if (held && held.version !== version) this.drop(campaignId);
-        this.entry(campaignId).version = version;
+        const entry = this.entry(campaignId);
+        entry.version = version;
+        // Read in the same snapshot as the columns they sit beside.
+        if (options.axes === true && entry.columns.seeingLongArcsec === undefined) this.loadAxes(campaignId, entry);
       });
       return { versions };
     });
@@ -175,12 +182,16 @@ export class SampleCache {
   }
 
   private loadColumns(campaignId: number): CampaignColumns {
-    const countRow = this.sqlite.prepare("SELECT COUNT(*) AS n FROM sample WHERE campaign_id = ?").get(campaignId) as { n: number };
-    const count = countRow.n;
-    // τ0 and θ0 are stored as logged; the summaries want them at zenith and 500 nm like the seeing.
-    const turbulence = this.sqlite
-      .prepare("SELECT COUNT(s.tau0_ms) AS tau0, COUNT(s.theta0_arcsec) AS theta0, c.wavelength_nm AS wavelengthNm FROM campaign c LEFT JOIN sample s ON s.campaign_id = c.id WHERE c.id = ?")
-      .get(campaignId) as { tau0: number; theta0: number; wavelengthNm: number | null };
+    // One scan counts the samples and the logged τ0 and θ0 values (stored as logged; the summaries want them at
+    // zenith and 500 nm like the seeing).
+    const counted = this.sqlite.prepare("SELECT COUNT(*) AS n, COUNT(tau0_ms) AS tau0, COUNT(theta0_arcsec) AS theta0 FROM sample WHERE campaign_id = ?").get(campaignId) as {
+      n: number;
+      tau0: number;
+      theta0: number;
+    };
+    const count = counted.n;
+    const campaign = this.sqlite.prepare("SELECT wavelength_nm AS wavelengthNm FROM campaign WHERE id = ?").get(campaignId) as { wavelengthNm: number | null } | undefined;
+    const turbulence = { tau0: counted.tau0, theta0: counted.theta0, wavelengthNm: campaign?.wavelengthNm ?? null };
     const wavelengthNm = turbulence.wavelengthNm ?? 500;
     const columns: CampaignColumns = {
       count,
@@ -189,25 +200,24 @@ export class SampleCache {
       zenithDeg: new Float64Array(count),
       sunAltDeg: new Float64Array(count),
       flux: new Float64Array(count),
-      seeingLongArcsec: new Float64Array(count),
-      seeingTransArcsec: new Float64Array(count),
       ...(turbulence.tau0 > 0 ? { tau0Ms: new Float64Array(count).fill(Number.NaN) } : {}),
       ...(turbulence.theta0 > 0 ? { theta0Arcsec: new Float64Array(count).fill(Number.NaN) } : {}),
     };
     const { tau0Ms, theta0Arcsec } = columns;
     const anisotropicFlags = new Uint8Array(count);
     columns.anisotropic = anisotropicFlags;
-    // The primary key (campaign_id, time_ms) returns them in time order without sorting.
+    // The primary key (campaign_id, time_ms) returns them in time order without sorting. τ0 and θ0 are read only
+    // when the campaign logged some (each column read costs about a tenth of the row).
     const rows = this.sqlite
       .prepare(
-        "SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux, seeing_long_arcsec, seeing_trans_arcsec, anisotropic, tau0_ms, theta0_arcsec FROM sample WHERE campaign_id = ? ORDER BY time_ms",
+        `SELECT time_ms, seeing_arcsec, zenith_deg, sun_alt_deg, flux, anisotropic${tau0Ms ? ", tau0_ms" : ", NULL"}${theta0Arcsec ? ", theta0_arcsec" : ", NULL"} FROM sample WHERE campaign_id = ? ORDER BY time_ms`,
       )
       .raw()
       .iterate(campaignId) as IterableIterator<
-      [number, number, number, number | null, number | null, number | null, number | null, number, number | null, number | null]
+      [number, number, number, number | null, number | null, number, number | null, number | null]
     >;
     let index = 0;
-    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux, seeingLongArcsec, seeingTransArcsec, anisotropic, tau0, theta0] of rows) {
+    for (const [timeMs, seeingArcsec, zenithDeg, sunAltDeg, flux, anisotropic, tau0, theta0] of rows) {
       // A concurrent ingest cannot add rows mid-read (WAL snapshot), but guard the preallocated length anyway.
       if (index >= count) break;
       columns.timeMs[index] = timeMs;
@@ -215,8 +225,6 @@ export class SampleCache {
       columns.zenithDeg[index] = zenithDeg;
       columns.sunAltDeg[index] = sunAltDeg ?? Number.NaN;
       columns.flux[index] = flux ?? Number.NaN;
-      columns.seeingLongArcsec[index] = seeingLongArcsec ?? Number.NaN;
-      columns.seeingTransArcsec[index] = seeingTransArcsec ?? Number.NaN;
       anisotropicFlags[index] = anisotropic === 1 ? 1 : 0;
       // A value that is not positive is left out of the τ0/θ0 figures (as in the analyzer).
       const zenithForTurbulence = Math.min(zenithDeg, 89.999);
@@ -225,6 +233,29 @@ export class SampleCache {
       index += 1;
     }
     return index === count ? columns : { ...columns, count: index };
+  }
+
+  /** The per-axis seeing columns beside the held columns (same rows, same time order). */
+  private loadAxes(campaignId: number, entry: CampaignEntry): void {
+    const { count } = entry.columns;
+    const seeingLongArcsec = new Float64Array(count).fill(Number.NaN);
+    const seeingTransArcsec = new Float64Array(count).fill(Number.NaN);
+    const rows = this.sqlite
+      .prepare("SELECT seeing_long_arcsec, seeing_trans_arcsec FROM sample WHERE campaign_id = ? ORDER BY time_ms")
+      .raw()
+      .iterate(campaignId) as IterableIterator<[number | null, number | null]>;
+    let index = 0;
+    for (const [seeingLong, seeingTrans] of rows) {
+      if (index >= count) break;
+      seeingLongArcsec[index] = seeingLong ?? Number.NaN;
+      seeingTransArcsec[index] = seeingTrans ?? Number.NaN;
+      index += 1;
+    }
+    entry.columns.seeingLongArcsec = seeingLongArcsec;
+    entry.columns.seeingTransArcsec = seeingTransArcsec;
+    const axesBytes = seeingLongArcsec.byteLength + seeingTransArcsec.byteLength;
+    entry.bytes += axesBytes;
+    this.heldBytes += axesBytes;
   }
 
   private loadExclusions(campaignId: number): ExclusionWindow[] {

@@ -28,8 +28,9 @@ export function sampleSeries(cache: SampleCache, campaignIds: readonly number[],
   forEachAccepted(cache, campaignIds, resolved, (columns, index) => {
     const timeMs = columns.timeMs[index] ?? 0;
     if (night !== null && nightLabel(timeMs, longitudeDeg) !== night) return;
-    const seeingLong = columns.seeingLongArcsec[index] ?? Number.NaN;
-    const seeingTrans = columns.seeingTransArcsec[index] ?? Number.NaN;
+    // The series task syncs with the axis columns (tasks.server.ts: axes); absent, the axes are unknown.
+    const seeingLong = columns.seeingLongArcsec?.[index] ?? Number.NaN;
+    const seeingTrans = columns.seeingTransArcsec?.[index] ?? Number.NaN;
     points.push({
       timeMs,
       seeingArcsec: columns.seeingArcsec[index] ?? Number.NaN,

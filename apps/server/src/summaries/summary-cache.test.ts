@@ -198,7 +198,7 @@ describe("memory bounds", () => {
     const b = await campaignWithSamples(100, 200);
     const connection = new Database(context.db.file, { readonly: true });
     try {
-      // 100 samples: 5 600 bytes of columns, 1 200 more with the sort. Room for one campaign only.
+      // 100 samples: 4 100 bytes of columns, 1 200 more with the sort. Room for one campaign only.
       expect(a.upload.samples.accepted).toBeGreaterThan(90);
       const cache = new SampleCache(connection, { maxBytes: 8_000 });
       cache.sync([a.campaign.id, b.campaign.id]);

@@ -19,7 +19,7 @@ import type { SummaryTaskInputs, SummaryTaskKind } from "./tasks.server";
 /** Bound of the cached answers (JSON text), in bytes and in count. */
 export const RESULT_CACHE_MAX_BYTES = 64 * 1024 * 1024;
 export const RESULT_CACHE_MAX_ENTRIES = 5000;
-/** Bound of the sample columns all summary workers hold together, in bytes (about 68 bytes a sample with its sort). */
+/** Bound of the sample columns all summary workers hold together, in bytes (about 53 bytes a sample with its sort). */
 export const COLUMN_CACHE_MAX_BYTES = 256 * 1024 * 1024;
 /** One worker on a machine of two cores or fewer (the main thread needs the other), two above. */
 export const DEFAULT_SUMMARY_WORKERS = Math.min(2, Math.max(1, availableParallelism() - 1));

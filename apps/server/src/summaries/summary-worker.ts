@@ -21,9 +21,13 @@ function post(message: FromSummaryWorker): void {
 const encoder = new TextEncoder();
 
 function runTask<Kind extends SummaryTaskKind>(kind: Kind, input: SummaryTaskInputs[Kind]): { body: Uint8Array; versions: number[] } {
-  const definition = SUMMARY_TASKS[kind] as { campaignIds(input: SummaryTaskInputs[Kind]): readonly number[]; run(cache: SampleCache, input: SummaryTaskInputs[Kind]): unknown };
+  const definition = SUMMARY_TASKS[kind] as {
+    campaignIds(input: SummaryTaskInputs[Kind]): readonly number[];
+    run(cache: SampleCache, input: SummaryTaskInputs[Kind]): unknown;
+    axes?: boolean;
+  };
   const campaignIds = definition.campaignIds(input);
-  const { versions } = cache.sync(campaignIds);
+  const { versions } = cache.sync(campaignIds, { axes: definition.axes === true });
   try {
     const value = definition.run(cache, input);
     // A typed array is sent as its bytes (a copy the worker gives away); everything else as UTF-8 JSON.

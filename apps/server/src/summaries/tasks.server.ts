@@ -34,6 +34,8 @@ interface TaskDefinition<Input> {
   /** The campaigns whose samples the task reads. */
   campaignIds(input: Input): readonly number[];
   run(cache: SampleCache, input: Input): unknown;
+  /** Whether the task reads the per-axis seeing columns (only the sample series does; they are loaded on demand). */
+  axes?: boolean;
 }
 
 function task<Input>(definition: TaskDefinition<Input>): TaskDefinition<Input> {
@@ -65,6 +67,7 @@ export const SUMMARY_TASKS = {
   }),
   series: task<SeriesTaskInput>({
     campaignIds: (input) => input.campaignIds,
+    axes: true,
     run: (cache, input) => sampleSeries(cache, input.campaignIds, input.longitudeDeg, input.query),
   }),
   // GET /api/comparisons: 2–6 rows side by side (comparison.ts; the main thread's part is compare.server.ts).

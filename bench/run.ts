@@ -13,6 +13,7 @@ const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   analyzer: () => import('./analyzer.ts'),
   ingest: () => import('./ingest.ts'),
   compare: () => import('./compare.ts'),
+  peer: () => import('./peer.ts'),
   intervalCoverage: () => import('./intervalCoverage.ts'),
 };
 

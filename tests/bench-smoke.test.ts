@@ -25,6 +25,11 @@ describe('bench smoke run', () => {
     expect(Number(analyzer.tsxMedianWallMs)).toBeGreaterThan(0);
     expect(Number(analyzer.medianSeeingArcsec)).toBeGreaterThan(0.3);
     expect(Number(analyzer.medianSeeingArcsec)).toBeLessThan(2);
+    // the pandas peer ran beside the analyzer and agreed with it (the bench throws otherwise) on the same nights
+    const peer = results.benchmarks.peer ?? {};
+    expect(Number(peer.peerMedianWallMs)).toBeGreaterThan(0);
+    expect(Number(peer.wallRatio)).toBeGreaterThan(0);
+    expect(peer.medianSeeingArcsec).toBe(analyzer.medianSeeingArcsec);
     for (const [name, figures] of Object.entries(results.benchmarks)) expect(Object.keys(figures).length, name).toBeGreaterThan(0);
   }, 180_000);
 });

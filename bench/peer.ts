@@ -1,0 +1,135 @@
+// Benchmark (issue 15): the analyzer against the script a careful analyst would write instead (bench/peer/summary.py,
+// pandas/numpy), on the same seeded 1 000 000-row native log, in one paired run: the two alternate, five runs each,
+// wall time from spawn to exit and each process's own peak resident memory. Checks that both give the same median,
+// quartiles and nights. Needs Debian's python3-pandas, installed through apt-get when missing (as npm test does for
+// chromium). Run through bench/run.ts (`npm run bench -- --only peer`) or alone: node_modules/.bin/tsx bench/peer.ts [rows].
+import { spawn, spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { writeSyntheticLog } from '../packages/seeing-stats/src/node/index.js';
+import { median, runMeasured } from './childProcess.ts';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const monitor = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: 'z-tilt' as const };
+const site = { latitudeDeg: -27.42, longitudeDeg: -70.15, elevationM: 2650 };
+const SEED = 20_250_301; // the analyzer bench's log
+/** Debian's own interpreter, which python3-pandas installs into (a python3 earlier on PATH, pyenv's say, may not see it). */
+const PYTHON = existsSync('/usr/bin/python3') ? '/usr/bin/python3' : 'python3';
+const FLAGS = ['--aperture-mm', String(monitor.apertureMm), '--baseline-mm', String(monitor.baselineMm), '--site-lat', String(site.latitudeDeg), '--site-lon', String(site.longitudeDeg)];
+
+interface Figures {
+  accepted: number;
+  median: number;
+  p25: number;
+  p75: number;
+  nights: number;
+}
+
+/** Debian's python3-pandas, installed through apt-get (as root, or through sudo) when python3 cannot import pandas. */
+export function ensurePandas(): void {
+  if (spawnSync(PYTHON, ['-c', 'import pandas, numpy'], { stdio: 'ignore' }).status === 0) return;
+  console.log("bench peer: installing Debian's python3-pandas (apt-get)");
+  const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+  const aptGet = (...args: string[]) =>
+    spawnSync(isRoot ? 'apt-get' : 'sudo', isRoot ? args : ['apt-get', ...args], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } }).status === 0;
+  if (!aptGet('install', '-y', 'python3-pandas') && !(aptGet('update') && aptGet('install', '-y', 'python3-pandas'))) {
+    throw new Error("Could not install python3-pandas with apt-get. Install Debian's python3-pandas package by hand (apt-get install -y python3-pandas) and run the bench again.");
+  }
+}
+
+/** One run of the peer script: wall time (spawn to exit) and the peak memory it reports on stderr. */
+function runPeer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; figures: Figures }> {
+  return new Promise((resolve, reject) => {
+    const startedMs = performance.now();
+    const child = spawn(PYTHON, [join(root, 'bench', 'peer', 'summary.py'), logPath, ...FLAGS], { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+    const stdout: Buffer[] = [];
+    const stderr: Buffer[] = [];
+    child.stdout.on('data', (chunk: Buffer) => stdout.push(chunk));
+    child.stderr.on('data', (chunk: Buffer) => stderr.push(chunk));
+    child.on('error', reject);
+    child.on('close', (exitCode) => {
+      const wallMs = performance.now() - startedMs;
+      const errorText = Buffer.concat(stderr).toString('utf8');
+      if (exitCode !== 0) return reject(new Error(`bench/peer/summary.py exited with ${String(exitCode)}: ${errorText.slice(0, 800)}`));
+      const report = JSON.parse(Buffer.concat(stdout).toString('utf8')) as { accepted: number; nights: number; seeing: { median: number; p25: number; p75: number } };
+      const memory = JSON.parse(errorText.trim().split('\n').pop() ?? '{}') as { maxRssKb?: number };
+      resolve({ wallMs, peakRssMb: (memory.maxRssKb ?? Number.NaN) / 1024, figures: { accepted: report.accepted, nights: report.nights, ...report.seeing } });
+    });
+  });
+}
+
+async function runAnalyzer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; figures: Figures }> {
+  const result = await runMeasured([join(root, 'scripts', 'analyze.mjs'), logPath, '--json', ...FLAGS], root);
+  if (result.exitCode !== 0) throw new Error(`the analyzer exited with ${String(result.exitCode)}: ${result.stderr.slice(0, 500)}`);
+  const report = JSON.parse(result.stdout) as { samples: { accepted: number }; nights: number; seeing: { median: number; p25: number; p75: number } };
+  return { wallMs: result.wallMs, peakRssMb: result.peakRssMb, figures: { accepted: report.samples.accepted, nights: report.nights, median: report.seeing.median, p25: report.seeing.p25, p75: report.seeing.p75 } };
+}
+
+/** Same median, quartiles (to 1e-9 relative: numpy's and V8's powers may differ in the last bit) and nights, or an error naming the figure. */
+function requireAgreement(analyzer: Figures, peer: Figures): void {
+  const close = (left: number, right: number) => Math.abs(left - right) <= 1e-9 * Math.abs(left);
+  for (const key of ['median', 'p25', 'p75'] as const) {
+    if (!close(analyzer[key], peer[key])) throw new Error(`the analyzer and the pandas peer disagree on ${key}: ${analyzer[key]} against ${peer[key]}`);
+  }
+  if (analyzer.nights !== peer.nights || analyzer.accepted !== peer.accepted) {
+    throw new Error(`the analyzer and the pandas peer disagree: nights ${analyzer.nights} against ${peer.nights}, samples ${analyzer.accepted} against ${peer.accepted}`);
+  }
+}
+
+export async function run(options: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
+  const runs = options.runs ?? 5;
+  ensurePandas();
+  const outDir = join(root, 'bench', 'out');
+  mkdirSync(outDir, { recursive: true });
+  const logPath = join(outDir, `native-${options.rows}-rows-seed-${SEED}-from-2018.csv`);
+  if (!existsSync(logPath)) {
+    const nights = Math.ceil(options.rows / 300) + 30;
+    await writeSyntheticLog(logPath, { seed: SEED, site, startDate: '2018-01-01', nights, medianSeeingArcsec: 0.75, monitor, badRowEvery: 997, maxRows: options.rows });
+  }
+  // One untimed run each (builds the analyzer bundle when stale, warms the file cache), then alternate.
+  const warmAnalyzer = await runAnalyzer(logPath);
+  const warmPeer = await runPeer(logPath);
+  requireAgreement(warmAnalyzer.figures, warmPeer.figures);
+  const analyzerWall: number[] = [];
+  const peerWall: number[] = [];
+  const analyzerRss: number[] = [];
+  const peerRss: number[] = [];
+  const pairs: string[] = [];
+  for (let attempt = 0; attempt < runs; attempt += 1) {
+    const analyzer = await runAnalyzer(logPath);
+    const peer = await runPeer(logPath);
+    requireAgreement(analyzer.figures, peer.figures);
+    analyzerWall.push(analyzer.wallMs);
+    peerWall.push(peer.wallMs);
+    analyzerRss.push(analyzer.peakRssMb);
+    peerRss.push(peer.peakRssMb);
+    pairs.push(`${Math.round(analyzer.wallMs)}/${Math.round(peer.wallMs)} ms = ${(analyzer.wallMs / peer.wallMs).toFixed(2)}`);
+    console.log(`  pair ${attempt + 1}: analyzer ${Math.round(analyzer.wallMs)} ms ${Math.round(analyzer.peakRssMb)} MB, pandas ${Math.round(peer.wallMs)} ms ${Math.round(peer.peakRssMb)} MB, ratio ${(analyzer.wallMs / peer.wallMs).toFixed(2)}`);
+  }
+  const pandasVersion = spawnSync(PYTHON, ['-c', 'import pandas, numpy, sys; print(pandas.__version__, numpy.__version__, sys.version.split()[0])'], { encoding: 'utf8' }).stdout.trim().split(' ');
+  const analyzerMedianMs = median(analyzerWall);
+  const peerMedianMs = median(peerWall);
+  return {
+    rows: options.rows,
+    runs,
+    analyzerMedianWallMs: Math.round(analyzerMedianMs),
+    peerMedianWallMs: Math.round(peerMedianMs),
+    wallRatio: Number((analyzerMedianMs / peerMedianMs).toFixed(2)),
+    pairRatios: pairs.join('; '),
+    analyzerPeakRssMb: Math.round(Math.max(...analyzerRss)),
+    peerPeakRssMb: Math.round(Math.max(...peerRss)),
+    memoryRatio: Number((Math.max(...analyzerRss) / Math.max(...peerRss)).toFixed(2)),
+    medianSeeingArcsec: Number(warmAnalyzer.figures.median.toFixed(6)),
+    nights: warmAnalyzer.figures.nights,
+    agreement: 'median, p25, p75 within 1e-9 relative; nights and accepted samples equal (checked on every run)',
+    peer: `${PYTHON} bench/peer/summary.py (pandas ${pandasVersion[0] ?? '?'}, numpy ${pandasVersion[1] ?? '?'}, Python ${pandasVersion[2] ?? '?'})`,
+    analyzer: 'node scripts/analyze.mjs <log> --json --aperture-mm 60 --baseline-mm 200 --site-lat -27.42 --site-lon -70.15',
+    loadAverage1Min: Number((await import('node:os')).loadavg()[0]?.toFixed(1)),
+    runAt: new Date().toISOString(),
+  };
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  console.log(await run({ rows: Number(process.argv[2] ?? 1_000_000), runs: Number(process.argv[3] ?? 5) }));
+}

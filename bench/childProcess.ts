@@ -3,6 +3,8 @@ import { spawn } from 'node:child_process';
 export interface ChildRun {
   wallMs: number;
   peakRssMb: number;
+  /** CPU time the child used (user + system, all its threads), as it measured itself; NaN when it did not report. */
+  cpuMs: number;
   exitCode: number | null;
   stdout: string;
   stderr: string;
@@ -30,12 +32,15 @@ export function runMeasured(nodeArgs: readonly string[], cwd: string): Promise<C
     child.on('close', (exitCode) => {
       const wallMs = performance.now() - startedMs;
       let peakRssMb = Number.NaN;
+      let cpuMs = Number.NaN;
       try {
-        peakRssMb = (JSON.parse(Buffer.concat(report).toString('utf8')) as { maxRssKb: number }).maxRssKb / 1024;
+        const reported = JSON.parse(Buffer.concat(report).toString('utf8')) as { maxRssKb: number; cpuMs?: number };
+        peakRssMb = reported.maxRssKb / 1024;
+        cpuMs = reported.cpuMs ?? Number.NaN;
       } catch {
         // leave NaN: the child died before reporting
       }
-      resolve({ wallMs, peakRssMb, exitCode, stdout: Buffer.concat(stdout).toString('utf8'), stderr: Buffer.concat(stderr).toString('utf8') });
+      resolve({ wallMs, peakRssMb, cpuMs, exitCode, stdout: Buffer.concat(stdout).toString('utf8'), stderr: Buffer.concat(stderr).toString('utf8') });
     });
   });
 }

@@ -39,7 +39,7 @@ export function ensurePandas(): void {
 }
 
 /** One run of the peer script: wall time (spawn to exit) and the peak memory it reports on stderr. */
-function runPeer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; figures: Figures }> {
+function runPeer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; cpuMs: number; figures: Figures }> {
   return new Promise((resolve, reject) => {
     const startedMs = performance.now();
     const child = spawn(PYTHON, [join(root, 'bench', 'peer', 'summary.py'), logPath, ...FLAGS], { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
@@ -53,17 +53,17 @@ function runPeer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; 
       const errorText = Buffer.concat(stderr).toString('utf8');
       if (exitCode !== 0) return reject(new Error(`bench/peer/summary.py exited with ${String(exitCode)}: ${errorText.slice(0, 800)}`));
       const report = JSON.parse(Buffer.concat(stdout).toString('utf8')) as { accepted: number; nights: number; seeing: { median: number; p25: number; p75: number } };
-      const memory = JSON.parse(errorText.trim().split('\n').pop() ?? '{}') as { maxRssKb?: number };
-      resolve({ wallMs, peakRssMb: (memory.maxRssKb ?? Number.NaN) / 1024, figures: { accepted: report.accepted, nights: report.nights, ...report.seeing } });
+      const usage = JSON.parse(errorText.trim().split('\n').pop() ?? '{}') as { maxRssKb?: number; cpuMs?: number };
+      resolve({ wallMs, peakRssMb: (usage.maxRssKb ?? Number.NaN) / 1024, cpuMs: usage.cpuMs ?? Number.NaN, figures: { accepted: report.accepted, nights: report.nights, ...report.seeing } });
     });
   });
 }
 
-async function runAnalyzer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; figures: Figures }> {
+async function runAnalyzer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; cpuMs: number; figures: Figures }> {
   const result = await runMeasured([join(root, 'scripts', 'analyze.mjs'), logPath, '--json', ...FLAGS], root);
   if (result.exitCode !== 0) throw new Error(`the analyzer exited with ${String(result.exitCode)}: ${result.stderr.slice(0, 500)}`);
   const report = JSON.parse(result.stdout) as { samples: { accepted: number }; nights: number; seeing: { median: number; p25: number; p75: number } };
-  return { wallMs: result.wallMs, peakRssMb: result.peakRssMb, figures: { accepted: report.samples.accepted, nights: report.nights, median: report.seeing.median, p25: report.seeing.p25, p75: report.seeing.p75 } };
+  return { wallMs: result.wallMs, peakRssMb: result.peakRssMb, cpuMs: result.cpuMs, figures: { accepted: report.samples.accepted, nights: report.nights, median: report.seeing.median, p25: report.seeing.p25, p75: report.seeing.p75 } };
 }
 
 /** Same median, quartiles (to 1e-9 relative: numpy's and V8's powers may differ in the last bit) and nights, or an error naming the figure. */
@@ -95,6 +95,8 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
   const peerWall: number[] = [];
   const analyzerRss: number[] = [];
   const peerRss: number[] = [];
+  const analyzerCpu: number[] = [];
+  const peerCpu: number[] = [];
   const pairs: string[] = [];
   for (let attempt = 0; attempt < runs; attempt += 1) {
     const analyzer = await runAnalyzer(logPath);
@@ -104,8 +106,12 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     peerWall.push(peer.wallMs);
     analyzerRss.push(analyzer.peakRssMb);
     peerRss.push(peer.peakRssMb);
+    analyzerCpu.push(analyzer.cpuMs);
+    peerCpu.push(peer.cpuMs);
     pairs.push(`${Math.round(analyzer.wallMs)}/${Math.round(peer.wallMs)} ms = ${(analyzer.wallMs / peer.wallMs).toFixed(2)}`);
-    console.log(`  pair ${attempt + 1}: analyzer ${Math.round(analyzer.wallMs)} ms ${Math.round(analyzer.peakRssMb)} MB, pandas ${Math.round(peer.wallMs)} ms ${Math.round(peer.peakRssMb)} MB, ratio ${(analyzer.wallMs / peer.wallMs).toFixed(2)}`);
+    console.log(
+      `  pair ${attempt + 1}: analyzer ${Math.round(analyzer.wallMs)} ms (CPU ${Math.round(analyzer.cpuMs)} ms) ${Math.round(analyzer.peakRssMb)} MB, pandas ${Math.round(peer.wallMs)} ms (CPU ${Math.round(peer.cpuMs)} ms) ${Math.round(peer.peakRssMb)} MB, wall ratio ${(analyzer.wallMs / peer.wallMs).toFixed(2)}`,
+    );
   }
   const pandasVersion = spawnSync(PYTHON, ['-c', 'import pandas, numpy, sys; print(pandas.__version__, numpy.__version__, sys.version.split()[0])'], { encoding: 'utf8' }).stdout.trim().split(' ');
   const analyzerMedianMs = median(analyzerWall);
@@ -117,6 +123,11 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     peerMedianWallMs: Math.round(peerMedianMs),
     wallRatio: Number((analyzerMedianMs / peerMedianMs).toFixed(2)),
     pairRatios: pairs.join('; '),
+    // CPU time (user + system, all threads) as each process measured itself: on a machine shared with other work
+    // the wall times also hold other processes' turns, the CPU times much less so.
+    analyzerMedianCpuMs: Math.round(median(analyzerCpu)),
+    peerMedianCpuMs: Math.round(median(peerCpu)),
+    cpuRatio: Number((median(analyzerCpu) / median(peerCpu)).toFixed(2)),
     analyzerPeakRssMb: Math.round(Math.max(...analyzerRss)),
     peerPeakRssMb: Math.round(Math.max(...peerRss)),
     memoryRatio: Number((Math.max(...analyzerRss) / Math.max(...peerRss)).toFixed(2)),

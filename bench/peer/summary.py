@@ -10,7 +10,7 @@ type-7 percentiles (numpy's default "linear"), mean, log-normal moments (sigma w
 and the number of nights (date of local solar time - 12 h). No bootstrap, no KS distance, no hourly table.
 
 Usage: python3 bench/peer/summary.py LOG --aperture-mm 60 --baseline-mm 200 --site-lat -27.42 --site-lon -70.15
-Peak resident memory (ru_maxrss) is printed on stderr as {"maxRssKb": N}.
+Peak resident memory (ru_maxrss) and CPU time (user + system) are printed on stderr as {"maxRssKb": N, "cpuMs": N}.
 """
 import argparse
 import json
@@ -101,7 +101,8 @@ def main():
     }
     json.dump(report, sys.stdout)
     sys.stdout.write("\n")
-    sys.stderr.write(json.dumps({"maxRssKb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss}) + "\n")
+    usage = resource.getrusage(resource.RUSAGE_SELF)
+    sys.stderr.write(json.dumps({"maxRssKb": usage.ru_maxrss, "cpuMs": (usage.ru_utime + usage.ru_stime) * 1000}) + "\n")
 
 
 if __name__ == "__main__":

@@ -49,6 +49,8 @@ export interface SiteListItem {
   notes: string;
   /** Campaigns of this site that the caller can see. */
   campaignCount: number;
+  /** Every campaign at the site, seen or not: when it is larger, the figures cover only the caller's campaigns (say so). */
+  campaignCountAtSite: number;
   /** null when no accepted samples exist yet. */
   summary: SiteSummaryBrief | null;
 }

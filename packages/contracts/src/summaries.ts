@@ -1,9 +1,19 @@
 import { z } from "zod";
-import { FILTER_LIMIT_MESSAGES, filterSettingAllowed } from "@calmcrest/seeing-stats";
+import { filterSettingAllowed } from "@calmcrest/seeing-stats";
 import { instantMs, isoInstantSchema } from "./campaigns";
 import type { ResponseSetName } from "./campaigns";
 import type { SampleCounts } from "./uploads";
 import type { NightIntervalStatus, SeeingSummary, SummaryWarning } from "@calmcrest/seeing-stats";
+
+/**
+ * What the filter settings are called on screen: a person reads "the zenith limit", not the query parameter. The
+ * parameter follows in parentheses for those calling the API. The allowed ranges are the engine's (filterSettingAllowed).
+ */
+export const FILTER_SETTING_MESSAGES = {
+  maxZenithDeg: "The zenith limit (maxZenithDeg) must be more than 0° and at most 90°.",
+  sunMaxDeg: "The sun limit (sunMaxDeg) must be between −90° and 90°.",
+  minFlux: "The flux minimum (minFlux) must be a number of flux units.",
+} as const;
 
 const optionalNumber = (name: string, unit: string) =>
   z.preprocess(
@@ -28,9 +38,9 @@ export const summaryQueryShape = {
   from: isoInstantSchema.optional(),
   to: isoInstantSchema.optional(),
   // The engine's filter limits (filterLimits.ts), so the API refuses what the analyzer refuses.
-  maxZenithDeg: optionalNumber("maxZenithDeg", "degrees").refine((v) => v === undefined || filterSettingAllowed("maxZenithDeg", v), FILTER_LIMIT_MESSAGES.maxZenithDeg),
-  sunMaxDeg: optionalNumber("sunMaxDeg", "degrees").refine((v) => v === undefined || filterSettingAllowed("sunMaxDeg", v), FILTER_LIMIT_MESSAGES.sunMaxDeg),
-  minFlux: optionalNumber("minFlux", "flux units"),
+  maxZenithDeg: optionalNumber("The zenith limit (maxZenithDeg)", "degrees").refine((v) => v === undefined || filterSettingAllowed("maxZenithDeg", v), FILTER_SETTING_MESSAGES.maxZenithDeg),
+  sunMaxDeg: optionalNumber("The sun limit (sunMaxDeg)", "degrees").refine((v) => v === undefined || filterSettingAllowed("sunMaxDeg", v), FILTER_SETTING_MESSAGES.sunMaxDeg),
+  minFlux: optionalNumber("The flux minimum (minFlux)", "flux units"),
   /** `true` keeps samples flagged anisotropic (their two axes disagree); left out by default, as in the analyzer. */
   keepAnisotropic: z.preprocess(
     (value) => (value === "true" ? true : value === "false" ? false : value === "" ? undefined : value),

@@ -184,5 +184,9 @@ export interface WholeFileCheck {
   problemLines: CheckedProblemLine[];
   setAsideByStandardFilters: { zenith_limit: number; sun_above_limit: number; maxZenithDeg: number; sunMaxDeg: number };
   warnings: UploadListItem["warnings"];
+  /** The same bytes are stored in this campaign already (sha256): an upload would be recognised, not counted twice. */
+  sameFile: { uploadId: number; fileName: string; uploadedAt: string } | null;
+  /** sha256 of the bytes checked (lower-case hex). */
+  sha256: string;
   durationMs: number;
 }

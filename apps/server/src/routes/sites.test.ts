@@ -101,6 +101,10 @@ describe("campaigns and access", () => {
     expect(siteForEngineer.campaigns.map((item) => item.name)).toEqual(["Mast A"]);
     const list = (await engineer.get("/api/sites")).body as SiteListItem[];
     expect(list.find((item) => item.id === site.id)?.campaignCount).toBe(1);
+    // The figures cover one of the site's two campaigns, and the answer says how many there are, so screens can say so.
+    expect(list.find((item) => item.id === site.id)?.campaignCountAtSite).toBe(2);
+    expect(siteForEngineer.campaignCountAtSite).toBe(2);
+    expect(((await lead.get(`/api/sites/${site.id}`)).body as SiteDetail).campaignCount).toBe(2);
 
     expect((await admin.delete(`/api/campaigns/${campaign.id}/members/${engineerId}`).set(SAME_ORIGIN)).status).toBe(204);
     expect((await engineer.get(`/api/campaigns/${campaign.id}`)).status).toBe(404);

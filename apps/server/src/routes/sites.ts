@@ -13,14 +13,14 @@ export function siteRoutes(context: AppContext): ApiRouter {
   const { store, summaries } = context;
   const routes = new ApiRouter("/sites");
 
-  async function listItem(site: SiteRow, campaignIds: number[]): Promise<SiteListItem> {
-    return siteListItem(site, campaignIds.length, campaignIds.length === 0 ? null : await summaries.brief(site, campaignIds));
+  async function listItem(site: SiteRow, campaignIds: number[], campaignCountAtSite: number): Promise<SiteListItem> {
+    return siteListItem(site, campaignIds.length, campaignIds.length === 0 ? null : await summaries.brief(site, campaignIds), campaignCountAtSite);
   }
 
   async function siteDetail(user: User, siteId: number): Promise<SiteDetail> {
-    const { site, campaignIds } = await store.sites.forUser(user, siteId);
+    const { site, campaignIds, campaignCountAtSite } = await store.sites.forUser(user, siteId);
     return {
-      ...(await listItem(site, campaignIds)),
+      ...(await listItem(site, campaignIds, campaignCountAtSite)),
       createdAt: site.created_at,
       updatedAt: site.updated_at,
       campaigns: await store.campaigns.listItems(campaignIds),
@@ -30,7 +30,7 @@ export function siteRoutes(context: AppContext): ApiRouter {
   // Committee members read published reports only (403); everyone else is checked per item.
   routes.route("GET", "/", { access: FIELD_ROLES }, async (_req, res) => {
     const visible = await store.sites.listVisible(currentUser(res.locals));
-    res.json(await Promise.all(visible.map(({ site, campaignIds }) => listItem(site, campaignIds))));
+    res.json(await Promise.all(visible.map(({ site, campaignIds, campaignCountAtSite }) => listItem(site, campaignIds, campaignCountAtSite))));
   });
 
   routes.route("POST", "/", { access: ["admin", "lead"] }, async (req, res) => {

@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import { existsSync, readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
@@ -32,6 +33,7 @@ describe("the whole-file check before an upload", () => {
     expect(result.problemLines[0]?.rawLine).toBe(lines[51]);
     expect(result.setAsideByStandardFilters.zenith_limit).toBe(1);
     expect(result.sizeBytes).toBe(readFileSync(fwhmLog).length);
+    expect(result.sameFile).toBeNull();
     expect(await countRows(context, "upload", { campaign_id: campaign.id })).toBe(0);
     const tmp = join(context.env.dataDir, "tmp");
     expect(existsSync(tmp) ? readdirSync(tmp) : []).toEqual([]);
@@ -51,6 +53,9 @@ describe("the whole-file check before an upload", () => {
     await waitForUpload(lead, (await postUpload(lead, campaign.id, fwhmLog)).body.upload.id);
     const result = (await check(campaign.id, fwhmLog)).body as WholeFileCheck;
     expect(result).toMatchObject({ rowsRead: 400, usable: 0, rejectedByReason: { non_physical: 1, missing_value: 1, duplicate_time: 398 } });
+    // The same bytes: the answer names the upload that holds them (the upload would be a 409, not a new upload).
+    expect(result.sameFile).toMatchObject({ fileName: "wizard-fwhm-airmass.csv" });
+    expect(result.sha256).toBe(createHash("sha256").update(readFileSync(fwhmLog)).digest("hex"));
     expect(result.problemLines.filter((line) => line.reason === "duplicate_time")[0]?.message).toMatch(/this campaign already holds/);
   });
 

@@ -14,6 +14,7 @@ import {
   type UploadAccepted,
   type UploadDuplicateBody,
   type UploadPreview,
+  type WholeFileCheck,
 } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.server";
@@ -200,7 +201,9 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     async (req, res) => {
       const file = req.file as (Express.Multer.File & CheckedFile) | undefined;
       if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file" (after the mapping field).', { file: ["No file was sent."] });
-      res.json(file.check);
+      const existing = await store.uploads.duplicateOf(accessedCampaign(res.locals).id, file.check.sha256);
+      const answer: WholeFileCheck = { ...file.check, sameFile: existing ? { uploadId: existing.id, fileName: existing.file_name, uploadedAt: existing.uploaded_at } : null };
+      res.json(answer);
     },
   );
 

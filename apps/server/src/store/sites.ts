@@ -30,7 +30,7 @@ export function siteRef(site: SiteRow): { id: number; name: string; latitude: nu
 }
 
 /** One row of the site list, given the caller's visible campaigns of the site and their brief summary. */
-export function siteListItem(site: SiteRow, campaignCount: number, summary: SiteSummaryBrief | null): SiteListItem {
+export function siteListItem(site: SiteRow, campaignCount: number, summary: SiteSummaryBrief | null, campaignCountAtSite = campaignCount): SiteListItem {
   return {
     id: site.id,
     name: site.name,
@@ -39,6 +39,7 @@ export function siteListItem(site: SiteRow, campaignCount: number, summary: Site
     elevationM: site.elevation_m,
     notes: site.notes,
     campaignCount,
+    campaignCountAtSite,
     summary,
   };
 }
@@ -60,22 +61,26 @@ export function sitesStore(core: StoreCore) {
     },
 
     /** Every site, by name, with the ids of its campaigns the user can see (engineers: only sites where they belong to a campaign). */
-    async listVisible(user: User): Promise<{ site: SiteRow; campaignIds: number[] }[]> {
+    async listVisible(user: User): Promise<{ site: SiteRow; campaignIds: number[]; campaignCountAtSite: number }[]> {
       const visible = await visibleCampaignIds(knex(), user);
       const sites = await knex()("site").orderBy("name").select<SiteRow[]>("*");
       const campaigns = await knex()("campaign").select<{ id: number; site_id: number }[]>("id", "site_id").orderBy("id");
       const bySite = new Map<number, number[]>();
+      const allBySite = new Map<number, number>();
       for (const campaign of campaigns) {
+        allBySite.set(campaign.site_id, (allBySite.get(campaign.site_id) ?? 0) + 1);
         if (visible !== "all" && !visible.includes(campaign.id)) continue;
         const list = bySite.get(campaign.site_id) ?? [];
         list.push(campaign.id);
         bySite.set(campaign.site_id, list);
       }
-      return sites.filter((site) => visible === "all" || bySite.has(site.id)).map((site) => ({ site, campaignIds: bySite.get(site.id) ?? [] }));
+      return sites
+        .filter((site) => visible === "all" || bySite.has(site.id))
+        .map((site) => ({ site, campaignIds: bySite.get(site.id) ?? [], campaignCountAtSite: allBySite.get(site.id) ?? 0 }));
     },
 
     /** The site and the ids of its campaigns the user can see; 404 if the site is invisible to the user. */
-    async forUser(user: User, siteId: number): Promise<{ site: SiteRow; campaignIds: number[] }> {
+    async forUser(user: User, siteId: number): Promise<{ site: SiteRow; campaignIds: number[]; campaignCountAtSite: number }> {
       const site = await siteRowById(knex(), siteId);
       if (!site) throw notFound("That site");
       const visible = await visibleCampaignIds(knex(), user);
@@ -84,7 +89,7 @@ export function sitesStore(core: StoreCore) {
       const campaignIds = visible === "all" ? ids : ids.filter((id) => visible.includes(id));
       // An engineer sees a site only through a campaign there they belong to.
       if (visible !== "all" && campaignIds.length === 0) throw notFound("That site");
-      return { site, campaignIds };
+      return { site, campaignIds, campaignCountAtSite: ids.length };
     },
 
     /** Creates a site with its audit row; returns its id. */

@@ -1,3 +1,5 @@
+import { createHash } from "node:crypto";
+import { Transform } from "node:stream";
 import type { Request } from "express";
 import type { StorageEngine } from "multer";
 import { DEFAULT_FILTERS, filterReason, readingWarnings, type MappingOverrides, type MonitorSettings, type SiteLocation } from "@calmcrest/seeing-stats";
@@ -38,8 +40,18 @@ function isStored(sortedTimes: Float64Array, timeMs: number): boolean {
  * each reason, and how many usable rows the standard zenith and sun limits will set aside in the statistics.
  * Throws the engine's LogFormatError for a file that cannot be read at all.
  */
-export async function checkWholeFile(input: NodeJS.ReadableStream, fileName: string, options: CheckOptions): Promise<WholeFileCheck> {
+export async function checkWholeFile(source: NodeJS.ReadableStream, fileName: string, options: CheckOptions): Promise<Omit<WholeFileCheck, "sameFile">> {
   const startedMs = Date.now();
+  // The bytes' sha256 on the way through, so the caller can say when the same file is stored already.
+  const hash = createHash("sha256");
+  const input = source.pipe(
+    new Transform({
+      transform(chunk: Buffer, _encoding, done) {
+        hash.update(chunk);
+        done(null, chunk);
+      },
+    }),
+  );
   const rejectedByReason: Partial<Record<RejectReasonName, number>> = {};
   const problemLines: CheckedProblemLine[] = [];
   const seen = new Set<number>();
@@ -92,13 +104,14 @@ export async function checkWholeFile(input: NodeJS.ReadableStream, fileName: str
     problemLines,
     setAsideByStandardFilters: setAside,
     warnings: readingWarnings({ read: result.rowsRead, rejectedByReason }),
+    sha256: hash.digest("hex"),
     durationMs: Date.now() - startedMs,
   };
 }
 
 /** What the check's storage engine adds to multer's file object: the result, never a file on disk. */
 export interface CheckedFile {
-  check: WholeFileCheck;
+  check: Omit<WholeFileCheck, "sameFile">;
 }
 
 /**

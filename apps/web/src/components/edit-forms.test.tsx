@@ -1,5 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
-import { cleanup, fireEvent, render, screen } from "@testing-library/react";
+import { cleanup, fireEvent, render, screen, waitFor } from "@testing-library/react";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import type { ReactNode } from "react";
 import type { CampaignDetail, SiteDetail } from "@calmcrest/contracts";
@@ -15,7 +15,7 @@ const site = (uploadCount = 0): SiteDetail => ({
   longitude: -67.75,
   elevationM: 4150,
   notes: "",
-  campaignCount: 1,
+  campaignCount: 1, campaignCountAtSite: 1,
   summary: null,
   createdAt: "",
   updatedAt: "",
@@ -120,17 +120,19 @@ describe("editing a campaign", () => {
     expect(queryClient.getQueryState(["sites", "detail", 3])?.isInvalidated).toBe(true);
   });
 
-  it("sends the whole monitor when one setting changes, and shows the server's refusal once uploads exist", async () => {
-    const message = "The monitor settings cannot change once a campaign has uploads (its samples were computed with them). Create a new campaign for the new settings.";
-    answer = conflict("campaign_has_uploads", message);
+  it("says before Save that the monitor is locked once uploads exist, offering no editable monitor fields", () => {
     renderWithQueries(<EditCampaignForm campaign={campaign(3)} />);
-    expect(screen.getByText(/This campaign has uploads: its samples were computed with these settings/)).toBeTruthy();
+    expect(screen.getByTestId("monitor-locked").textContent).toMatch(/^Locked: this campaign has uploads, and its samples were computed with these settings\./);
+    expect(screen.queryByLabelText(/Height above ground/)).toBeNull();
+    expect(screen.queryByLabelText(/Baseline/)).toBeNull();
+  });
+
+  it("sends the whole monitor when one setting of a campaign without uploads changes", async () => {
+    renderWithQueries(<EditCampaignForm campaign={campaign()} />);
     fireEvent.change(screen.getByLabelText(/Height above ground/), { target: { value: "6.5" } });
     fireEvent.click(screen.getByRole("button", { name: "Save campaign" }));
-    expect((await screen.findByRole("alert")).textContent).toBe(message);
-    expect(sent).toEqual([
-      { method: "PATCH", url: "/api/campaigns/9", body: { monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, heightAboveGroundM: 6.5, response: "z-tilt" } } },
-    ]);
+    await waitFor(() => expect(sent).toHaveLength(1));
+    expect(sent[0]).toMatchObject({ method: "PATCH", url: "/api/campaigns/9", body: { monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, heightAboveGroundM: 6.5, response: "z-tilt" } } });
   });
 
   it("refuses a baseline shorter than the subaperture and sends nothing when nothing changed", async () => {

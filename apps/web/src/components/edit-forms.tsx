@@ -16,6 +16,7 @@ import { ApiError } from "../api/client";
 import { useUpdateCampaign, useUpdateSite } from "../api/mutations";
 import { Disclosure, Field, inputClass, numberInput, optionalNumber, optionalText, SubmitRow } from "./form-parts";
 import { MonitorFields, type CampaignForm } from "./new-site-forms";
+import { MonitorSettings } from "./monitor-settings";
 
 const NOTHING_CHANGED = "Nothing was changed, so nothing was sent.";
 const SAVED = "Changes saved.";
@@ -179,11 +180,17 @@ export function EditCampaignForm({ campaign }: { campaign: CampaignDetail }) {
         <fieldset className="grid gap-3 md:col-span-4 md:grid-cols-4">
           <legend className="mb-1 text-sm font-semibold">Monitor</legend>
           {campaign.uploadCount > 0 ? (
-            <p className="text-sm text-ink-soft md:col-span-4">
-              This campaign has uploads: its samples were computed with these settings, so the server keeps them as they are. For new settings, create a new campaign at the site.
-            </p>
-          ) : null}
-          <MonitorFields idPrefix="edit-campaign" register={register} errors={errors} />
+            // Locked fields are not shown as editable boxes: saying so only after Save would waste the typing.
+            <div className="space-y-2 text-sm md:col-span-4" data-testid="monitor-locked">
+              <p className="font-semibold">Locked: this campaign has uploads, and its samples were computed with these settings.</p>
+              <MonitorSettings monitor={campaign.monitor} />
+              <p className="text-ink-soft">
+                For one file read with wrong settings, use “Re-read…” on that upload below and give the corrected settings. For a monitor that changed, create a new campaign at the site.
+              </p>
+            </div>
+          ) : (
+            <MonitorFields idPrefix="edit-campaign" register={register} errors={errors} />
+          )}
         </fieldset>
         <div className="md:col-span-4">
           <Field id="edit-campaign-notes" label="Notes" error={errors.notes?.message}>

@@ -51,7 +51,8 @@ describe("FilterPanel", () => {
     renderAt("/sites/3");
     fireEvent.change(screen.getByLabelText(/Zenith limit/), { target: { value: "95" } });
     fireEvent.click(screen.getByRole("button", { name: "Apply" }));
-    expect(screen.getByText(/between 0 and 90 degrees/)).toBeTruthy();
+    expect(screen.getByText("The zenith limit must be more than 0° and at most 90°.")).toBeTruthy();
+    expect(document.body.textContent).not.toContain("maxZenithDeg");
     expect(screen.getByTestId("address").textContent).toBe("");
   });
 
@@ -75,6 +76,15 @@ describe("FilterPanel", () => {
     fireEvent.click(screen.getByRole("button", { name: "Reset to standard" }));
     expect(screen.getByTestId("address").textContent).toBe("");
     expect((screen.getByLabelText(/From/) as HTMLInputElement).value).toBe("");
+  });
+
+  it("clears a mistyped value on reset even when the address already holds the standard settings", () => {
+    renderAt("/sites/3");
+    fireEvent.change(screen.getByLabelText(/Zenith limit/), { target: { value: "95" } });
+    fireEvent.click(screen.getByRole("button", { name: "Apply" }));
+    fireEvent.click(screen.getByRole("button", { name: "Reset to standard" }));
+    expect((screen.getByLabelText(/Zenith limit/) as HTMLInputElement).value).toBe("");
+    expect(screen.queryByText(/The zenith limit must be/)).toBeNull();
   });
 
   it("says which values of a mistyped link were ignored", () => {

@@ -18,6 +18,9 @@ const FIELDS: { name: Exclude<FilterParamName, "keepAnisotropic">; label: string
 const draftFrom = (filters: SummaryQuery): Draft =>
   Object.fromEntries(FILTER_PARAM_NAMES.map((name) => [name, filters[name] === undefined ? "" : String(filters[name])])) as Draft;
 
+/** A message as shown under its field: the field's own label says which setting, so the API's parameter name goes. */
+export const onScreen = (message: string) => message.replace(/ \((maxZenithDeg|sunMaxDeg|minFlux)\)/g, "");
+
 /** Reads the filters from the page address (with the problems of a mistyped link). */
 export function useFilterParams() {
   const [searchParams] = useSearchParams();
@@ -44,7 +47,7 @@ function FilterForm({ filters, linkProblems, onApply }: { filters: SummaryQuery;
     const values = Object.fromEntries(FILTER_PARAM_NAMES.filter((name) => draft[name].trim() !== "").map((name) => [name, draft[name].trim()]));
     const parsed = summaryQuerySchema.safeParse(values);
     if (!parsed.success) {
-      setErrors(Object.fromEntries(parsed.error.issues.map((issue) => [String(issue.path[0] ?? "form"), issue.message])));
+      setErrors(Object.fromEntries(parsed.error.issues.map((issue) => [String(issue.path[0] ?? "form"), onScreen(issue.message)])));
       return;
     }
     setErrors({});
@@ -120,6 +123,8 @@ function FilterForm({ filters, linkProblems, onApply }: { filters: SummaryQuery;
         <button
           type="button"
           onClick={() => {
+            // Clear what is typed too: when the address already holds the standard settings, nothing else would.
+            setDraft(draftFrom({}));
             setErrors({});
             onApply({});
           }}

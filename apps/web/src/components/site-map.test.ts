@@ -3,7 +3,7 @@ import type { SiteListItem } from "@calmcrest/contracts";
 import { markerLabel } from "./site-map";
 
 // Invented site for the test.
-const site: SiteListItem = { id: 4, name: "Flint Col", latitude: -24.1, longitude: -68.9, elevationM: 4210, notes: "", campaignCount: 1, summary: null };
+const site: SiteListItem = { id: 4, name: "Flint Col", latitude: -24.1, longitude: -68.9, elevationM: 4210, notes: "", campaignCount: 1, campaignCountAtSite: 1, summary: null };
 
 describe("site marker accessible name", () => {
   it("names the site with its median in arcsec and its nights, as the tooltip does", () => {

@@ -1,6 +1,7 @@
 import type { SummaryResponse } from "@calmcrest/contracts";
-import { formatArcsec, formatNumber, formatPercent, reasonLabel } from "../lib/format";
+import { formatArcsec, formatNumber, formatPercent } from "../lib/format";
 import { SummaryWarnings } from "./summary-details";
+import { Reason } from "./reason";
 
 function Figure({ label, value, detail }: { label: string; value: string; detail?: string }) {
   return (
@@ -48,7 +49,7 @@ export function SummaryFigures({ summary }: { summary: SummaryResponse }) {
         {reasons.map(([reason, count], index) => (
           <span key={reason}>
             {index > 0 ? ", " : ""}
-            {formatNumber(count)} {reasonLabel(reason)}
+            {formatNumber(count)} <Reason reason={reason} />
           </span>
         ))}
         {reasons.length > 0 ? "." : ""}

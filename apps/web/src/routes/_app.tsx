@@ -58,12 +58,18 @@ export function AppLayout() {
         </div>
       </header>
       {/* Page loaders fetch before a page shows; this bar says something is on its way. */}
-      <div aria-live="polite" className="h-1 bg-night print:hidden">
+      <div aria-live="polite" className="relative h-1 bg-night print:hidden">
         {navigation.state === "loading" ? (
-          <div role="progressbar" aria-label="Loading the page" className="h-1 w-1/3 animate-pulse bg-accent-pale" />
+          <>
+            <div role="progressbar" aria-label="Loading the page" className="h-1 w-1/3 animate-pulse bg-accent-pale" />
+            {/* Also in words, beside the content that is about to change (the thin bar alone was easy to miss). */}
+            <p className="absolute right-4 top-2 z-[1000] rounded-md bg-night px-3 py-1 text-sm font-semibold text-white shadow" data-testid="page-loading">
+              Loading the page…
+            </p>
+          </>
         ) : null}
       </div>
-      <main id="main" className="flex-1">
+      <main id="main" aria-busy={navigation.state === "loading" || undefined} className={`flex-1 transition-opacity ${navigation.state === "loading" ? "opacity-60" : ""}`}>
         <Outlet />
       </main>
       <footer className="border-t border-line px-4 py-3 text-center text-xs text-ink-soft print:hidden">

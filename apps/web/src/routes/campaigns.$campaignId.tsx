@@ -14,9 +14,10 @@ import { MonitorSettings } from "../components/monitor-settings";
 import { Notice, Page } from "../components/page";
 import { SummarySection } from "../components/summary-section";
 import { RereadPanel, RereadRequest, UploadActions, UploadHistoryNote } from "../components/upload/reread";
-import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber, reasonLabel } from "../lib/format";
+import { formatBytes, formatDateTimeUtc, formatDateUtc, formatNumber } from "../lib/format";
 import { idParam } from "../route-loaders";
 import { campaignKeys, siteKeys } from "../api/query-keys";
+import { Reason } from "../components/reason";
 
 const STATUS_STYLES: Record<string, string> = {
   done: "bg-accent-pale text-accent-strong",
@@ -103,7 +104,7 @@ const uploadColumns = [
           <span className="font-semibold">{formatNumber(cell.getValue())}</span>
           {reasons.map(([reason, count]) => (
             <span key={reason} className="text-xs text-ink-soft">
-              {formatNumber(count)} {reasonLabel(reason)}
+              {formatNumber(count)} <Reason reason={reason} />
             </span>
           ))}
           {upload.samples.rejected > 0 ? (

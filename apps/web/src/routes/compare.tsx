@@ -38,6 +38,7 @@ function mapMarkers(comparison: ComparisonResponse): SiteListItem[] {
     longitude: row.site.longitude,
     elevationM: row.site.elevationM,
     notes: "",
+    campaignCountAtSite: row.campaigns.length,
     campaignCount: row.campaigns.length,
     summary: row.statistics ? { samples: row.statistics.samples, nights: row.statistics.nights, median: row.statistics.seeing.median, p25: row.statistics.seeing.p25, p75: row.statistics.seeing.p75 } : null,
   }));

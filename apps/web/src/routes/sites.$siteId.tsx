@@ -65,6 +65,11 @@ export function SitePage() {
         <>
           {site.latitude.toFixed(3)}°, {site.longitude.toFixed(3)}° · {formatNumber(site.elevationM)} m above sea level.{" "}
           {site.notes ? site.notes : null}
+          {site.campaignCount < site.campaignCountAtSite ? (
+            <span className="mt-1 block font-semibold text-ink" data-testid="partial-site">
+              The figures below are from {site.campaignCount} of {site.campaignCountAtSite} campaigns at this site: the ones you belong to.
+            </span>
+          ) : null}
         </>
       }
       actions={

@@ -34,7 +34,20 @@ const columns = [
     id: "median",
     header: "Median seeing",
     meta: { unit: "arcsec", numeric: true },
-    cell: (cell) => formatArcsec(cell.getValue()),
+    cell: (cell) => {
+      const site = cell.row.original;
+      // An engineer may see one of a site's campaigns: the figure must not pass for the whole site's.
+      return site.campaignCount < site.campaignCountAtSite && site.summary ? (
+        <span className="inline-flex flex-col items-end">
+          <span>{formatArcsec(cell.getValue())}</span>
+          <span className="text-xs font-normal whitespace-nowrap text-ink-soft">
+            from {site.campaignCount} of {site.campaignCountAtSite} campaigns at this site
+          </span>
+        </span>
+      ) : (
+        formatArcsec(cell.getValue())
+      );
+    },
   }),
   column.accessor((site) => site.summary?.p25, { id: "p25", header: "25th pct.", meta: { unit: "arcsec", numeric: true }, cell: (cell) => formatArcsec(cell.getValue()) }),
   column.accessor((site) => site.summary?.p75, { id: "p75", header: "75th pct.", meta: { unit: "arcsec", numeric: true }, cell: (cell) => formatArcsec(cell.getValue()) }),

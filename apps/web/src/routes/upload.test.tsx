@@ -8,7 +8,7 @@ import { UploadPage } from "./upload";
 // Invented fixtures shaped by the contract types: one site with one campaign that has a saved mapping.
 const monitor = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, pixelScaleArcsec: null, exposureMs: null, heightAboveGroundM: 3, response: "z-tilt", responseName: "Tokovinin 2002, Z-tilt" } as const;
 const campaignItem = { id: 7, siteId: 3, name: "Test mast", status: "running", startDate: null, endDate: null, monitor, sampleCount: 0, uploadCount: 0, firstSampleAt: null, lastSampleAt: null } as const;
-const site: SiteListItem = { id: 3, name: "Pumice Knoll", latitude: -24, longitude: -67, elevationM: 4000, notes: "", campaignCount: 1, summary: null };
+const site: SiteListItem = { id: 3, name: "Pumice Knoll", latitude: -24, longitude: -67, elevationM: 4000, notes: "", campaignCount: 1, campaignCountAtSite: 1, summary: null };
 const siteDetail: SiteDetail = { ...site, createdAt: "", updatedAt: "", campaigns: [campaignItem] };
 let savedMapping: CampaignDetail["savedMapping"] = null;
 const campaign = (): CampaignDetail => ({
@@ -40,6 +40,8 @@ const goodCheck = (): WholeFileCheck => ({
   problemLines: [],
   setAsideByStandardFilters: { zenith_limit: 0, sun_above_limit: 0, maxZenithDeg: 60, sunMaxDeg: -18 },
   warnings: [],
+  sameFile: null,
+  sha256: "ab".repeat(32),
   durationMs: 3,
 });
 let checkAnswer: () => WholeFileCheck = goodCheck;

@@ -3,10 +3,11 @@ import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { Link } from "react-router-dom";
 import type { UploadDuplicateBody, UploadListItem, WholeFileCheck } from "@calmcrest/contracts";
 import { uploadQuery } from "../../api/uploads";
-import { formatNumber, reasonLabel } from "../../lib/format";
+import { formatNumber } from "../../lib/format";
 import { RereadOffer } from "./reread";
 import { setAsideSentence } from "./whole-file-check";
 import { campaignKeys, siteKeys } from "../../api/query-keys";
+import { Reason } from "../reason";
 
 export type FileSend =
   | { state: "waiting" }
@@ -59,7 +60,7 @@ function Counts({ upload, check }: { upload: UploadListItem; check?: WholeFileCh
         <ul className="text-ink-soft" aria-label="Rejected by reason">
           {reasons.map(([reason, count]) => (
             <li key={reason}>
-              {formatNumber(count)} {reasonLabel(reason)} <code className="text-xs">{reason}</code>
+              {formatNumber(count)} <Reason reason={reason} />
             </li>
           ))}
         </ul>

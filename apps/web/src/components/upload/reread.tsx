@@ -4,9 +4,10 @@ import type { CampaignDetail, ColumnMappingInput, Me, UploadListItem } from "@ca
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { ApiError } from "../../api/client";
 import { rawFileHead, rawFileUrl, rereadUpload, restoreUpload, uploadQuery, withdrawUpload } from "../../api/uploads";
-import { formatDateTimeUtc, formatNumber, reasonLabel } from "../../lib/format";
+import { formatDateTimeUtc, formatNumber } from "../../lib/format";
 import { HEAD_BYTES, readLogHead } from "../../lib/log-head";
 import { MappingEditor, mappingProblems } from "./mapping-editor";
+import { Reason } from "../reason";
 
 // Withdraw, restore and re-read of a stored upload, and the before/after counts of a re-read.
 
@@ -185,7 +186,7 @@ export function RereadComparison({ before, afterId }: { before: UploadListItem; 
             {reasons.map((reason) => (
               <tr key={reason} className="border-b border-line/60 text-ink-soft">
                 <th scope="row" className="py-1 pr-4 pl-3 text-left font-normal">
-                  {reasonLabel(reason)} <code className="text-xs">{reason}</code>
+                  <Reason reason={reason} />
                 </th>
                 <td className="num py-1 pr-4">{formatNumber(before.samples.rejectedByReason[reason as keyof typeof before.samples.rejectedByReason] ?? 0)}</td>
                 <td className="num py-1">{cell(next?.samples.rejectedByReason[reason as keyof typeof before.samples.rejectedByReason])}</td>

@@ -1,11 +1,14 @@
 import { useId } from "react";
 import type { WholeFileCheck } from "@calmcrest/contracts";
-import { formatNumber, reasonLabel } from "../../lib/format";
+import { formatDateTimeUtc, formatNumber } from "../../lib/format";
+import { Reason } from "../reason";
 
 export type CheckState = { state: "waiting" } | { state: "checking"; fraction: number } | { state: "done"; result: WholeFileCheck } | { state: "failed"; message: string };
 
 /** What a checked file needs before it may be uploaded: nothing, a confirmation (most rows rejected), or an explicit "store it anyway" (no usable row). */
 export function confirmationNeeded(result: WholeFileCheck): "none" | "most_rejected" | "nothing_usable" {
+  // The same bytes are stored already: the upload is recognised (and a different mapping offered as a re-read).
+  if (result.sameFile) return "none";
   if (result.usable === 0) return "nothing_usable";
   if (result.rejected * 2 > result.rowsRead) return "most_rejected";
   return "none";
@@ -65,6 +68,11 @@ function CheckResult({ result, confirmed, onConfirm, confirmId }: { result: Whol
       <p data-testid="check-summary">
         All {formatNumber(result.rowsRead)} rows checked: <span className="font-semibold">{formatNumber(result.usable)} usable</span>, <span className="font-semibold">{formatNumber(result.rejected)} with a problem</span>. Nothing has been stored yet.
       </p>
+      {result.sameFile ? (
+        <p role="status" className="rounded-md bg-warn-pale px-3 py-2 text-warn" data-testid="check-same-file">
+          These exact bytes are stored in this campaign already ({result.sameFile.fileName}, uploaded {formatDateTimeUtc(result.sameFile.uploadedAt)}), which is why their times count as duplicates here. Uploading it again is recognised and counts nothing twice; with another mapping, Calmcrest offers to re-read the stored file instead.
+        </p>
+      ) : null}
       {setAside ? <p className="text-ink-soft" data-testid="check-set-aside">{setAside}</p> : null}
       {result.warnings.map((warning) => (
         <p key={warning.code} role="note" className="rounded bg-warn-pale px-2 py-1 text-warn">
@@ -76,9 +84,8 @@ function CheckResult({ result, confirmed, onConfirm, confirmId }: { result: Whol
           {reasons.map(([reason, count]) => (
             <li key={reason}>
               <span className="font-semibold">
-                {formatNumber(count)} {reasonLabel(reason)}
-              </span>{" "}
-              <code className="text-xs text-ink-soft">{reason}</code>
+                {formatNumber(count)} <Reason reason={reason} />
+              </span>
               <ul className="mt-1 space-y-1">
                 {result.problemLines
                   .filter((line) => line.reason === reason)

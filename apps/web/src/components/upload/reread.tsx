@@ -3,6 +3,7 @@ import { useQuery, useQueryClient } from "@tanstack/react-query";
 import type { CampaignDetail, ColumnMappingInput, Me, UploadListItem } from "@calmcrest/contracts";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { ApiError } from "../../api/client";
+import { campaignKeys, siteKeys, uploadKeys } from "../../api/query-keys";
 import { rawFileHead, rawFileUrl, rereadUpload, restoreUpload, uploadQuery, withdrawUpload } from "../../api/uploads";
 import { formatDateTimeUtc, formatNumber } from "../../lib/format";
 import { HEAD_BYTES, readLogHead } from "../../lib/log-head";
@@ -22,9 +23,9 @@ const settled = (upload: UploadListItem) => upload.status !== "queued" && upload
 /** Invalidates everything an upload's samples feed: the campaign (list and figures), its site, the site list. */
 async function refreshAfterChange(queryClient: ReturnType<typeof useQueryClient>, campaignId: number): Promise<void> {
   await Promise.all([
-    queryClient.invalidateQueries({ queryKey: ["campaigns", "detail", campaignId] }),
-    queryClient.invalidateQueries({ queryKey: ["sites"] }),
-    queryClient.invalidateQueries({ queryKey: ["uploads"] }),
+    queryClient.invalidateQueries({ queryKey: campaignKeys.detail(campaignId) }),
+    queryClient.invalidateQueries({ queryKey: siteKeys.all }),
+    queryClient.invalidateQueries({ queryKey: uploadKeys.all }),
   ]);
 }
 
@@ -217,7 +218,7 @@ function NumberField({ label, unit, value, onChange }: { label: string; unit: st
  */
 export function RereadPanel({ upload, campaign, onClose }: { upload: UploadListItem; campaign: CampaignDetail; onClose: () => void }) {
   const head = useQuery({
-    queryKey: ["uploads", "detail", upload.id, "raw-head"],
+    queryKey: [...uploadKeys.detail(upload.id), "raw-head"],
     queryFn: async () => readLogHead(await rawFileHead(upload.id, HEAD_BYTES)),
     staleTime: Number.POSITIVE_INFINITY,
   });

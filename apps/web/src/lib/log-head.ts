@@ -1,4 +1,4 @@
-import { LogFormatError, LogTextReader, proposeMapping, type ColumnMapping, type LogField } from "@calmcrest/seeing-stats";
+import { LogFormatError, previewLog, type ColumnMapping, type LogField, type LogPreview, type MonitorSettings } from "@calmcrest/seeing-stats";
 
 /** The first part of a log file as the browser reads it, before anything is sent. */
 export interface LogHead {
@@ -12,42 +12,37 @@ export interface LogHead {
 /** Bytes read from each file for the header and first rows (a few hundred lines of a typical log). */
 export const HEAD_BYTES = 64 * 1024;
 
-/** Thrown inside the reader once enough rows are read. */
-class HeadFull extends Error {}
+/** Monitor settings for reading the head only: the rows' values and the proposal do not depend on them. */
+const HEAD_MONITOR: MonitorSettings = { wavelengthNm: 500, response: "z-tilt" };
 
 /**
- * Reads the header line and first rows of a log's opening text with the engine's own text reader (the one the
- * server ingests with: line ends per line, strict quotes, repeated headers and UTF-16 refused), skipping '#'
- * comments, blank lines and lines that cannot be split, and proposes a mapping from the header names.
+ * Reads the header line and first rows of a log's opening text through the engine's previewLog, the one reading
+ * path of preview, ingest, analyzer and wizard (line ends per line, strict quotes, repeated headers and UTF-16
+ * refused), skipping '#' comments, blank lines and lines that cannot be split, and proposes a mapping from the
+ * header names.
  */
 export function readLogHead(text: string, maxRows = 8): LogHead {
   // The slice may end mid-line; drop the partial last line so it is not shown as a broken row.
   const lastEnd = Math.max(text.lastIndexOf("\n"), text.lastIndexOf("\r"));
   const complete = lastEnd < 0 || lastEnd === text.length - 1 ? text : text.slice(0, lastEnd + 1);
-  let headers: string[] = [];
-  let delimiter = ",";
-  const rows: Record<string, string>[] = [];
-  const reader = new LogTextReader({
-    header(found, used) {
-      headers = found;
-      delimiter = used;
-      if (maxRows <= 0) throw new HeadFull();
-    },
-    row(fields) {
-      rows.push(Object.fromEntries(headers.map((header, index) => [header, (fields[index] ?? "").trim()])));
-      if (rows.length >= maxRows) throw new HeadFull();
-    },
-    badLine() {},
-  });
+  let preview: LogPreview;
   try {
-    reader.push(complete);
-    reader.end();
+    // Lines that cannot be split are listed by previewLog too; read enough to show maxRows good ones.
+    preview = previewLog(complete, { monitor: HEAD_MONITOR, maxRows: maxRows * 4 });
   } catch (error) {
-    if (error instanceof LogFormatError) throw new Error(`${error.message} ${error.hint}`);
-    if (!(error instanceof HeadFull)) throw error;
+    if (error instanceof LogFormatError) {
+      if (error.line === null && /no header line/.test(error.message)) {
+        throw new Error("The file has no header line: the first line that is not a comment must name the columns.");
+      }
+      throw new Error(`${error.message} ${error.hint}`);
+    }
+    throw error;
   }
-  if (reader.headers === null) throw new Error("The file has no header line: the first line that is not a comment must name the columns.");
-  return { delimiter, headers, rows, proposedMapping: proposeMapping(headers) };
+  const rows = preview.rows
+    .filter((row) => Object.keys(row.values).length > 0)
+    .slice(0, maxRows)
+    .map((row) => Object.fromEntries(Object.entries(row.values).map(([header, value]) => [header, value.trim()])));
+  return { delimiter: preview.delimiter, headers: preview.headers, rows, proposedMapping: preview.proposedMapping };
 }
 
 export type VarianceUnit = "arcsec2" | "px2";

@@ -114,6 +114,24 @@ const cases: Case[] = [
     content: lf(['time_utc,var_long_arcsec2,var_trans_arcsec2,zenith_deg', ...Array.from({ length: 20 }, (_, index) => `${time(index)},${index === 3 ? '1e300' : '0.07'},${index === 3 ? '1e300' : '0.05'},15`)]),
     expected: done(19, { implausible_seeing: 1 }, false),
   },
+  {
+    file: '67-exposure-correction-too-large.csv',
+    tries: 'a 2τ variance at a tenth of the τ variance (asks for ×2.82)',
+    content: lf([
+      'time_utc,var_long_arcsec2,var_trans_arcsec2,var_long_2x_arcsec2,var_trans_2x_arcsec2,zenith_deg',
+      ...Array.from({ length: 20 }, (_, index) => `${time(index)},0.07,0.05,${index === 4 ? '0.007,0.005' : '0.063,0.045'},15`),
+    ]),
+    expected: done(19, { exposure_correction_too_large: 1 }, false),
+  },
+  {
+    file: '68-centroid-noise-dominated.csv',
+    tries: 'centroid noise at over half of the measured variance',
+    content: lf([
+      'time_utc,var_long_arcsec2,var_trans_arcsec2,noise_long_arcsec2,noise_trans_arcsec2,zenith_deg',
+      ...Array.from({ length: 20 }, (_, index) => `${time(index)},0.07,0.05,${index === 5 ? '0.02' : '0.001'},0.001,15`),
+    ]),
+    expected: done(19, { noise_dominated: 1 }, false),
+  },
   { file: '48-seeing-outside-window.csv', tries: 'seeing 0.01″ and 50″ (a unit mistake)', content: lf(withRows({ 2: `${time(2)},0.01,12`, 3: `${time(3)},50,13` })), expected: done(18, { implausible_seeing: 2 }, false) },
   { file: '49-zero-negative-seeing.csv', tries: 'seeing 0 and −0.5', content: lf(withRows({ 2: `${time(2)},0,12`, 3: `${time(3)},-0.5,13` })), expected: done(18, { non_physical: 2 }, false) },
   { file: '50-empty-values.csv', tries: 'empty seeing and empty zenith angle', content: lf(withRows({ 2: `${time(2)},,12`, 3: `${time(3)},0.8,` })), expected: done(18, { missing_value: 2 }, false) },

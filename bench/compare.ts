@@ -62,7 +62,8 @@ function startServer(dataDir: string, port: number): ChildProcess {
 }
 
 async function stopServer(server: ChildProcess): Promise<void> {
-  if (server.exitCode !== null) return;
+  // Already gone (exited, or ended by a signal): nothing to wait for.
+  if (server.exitCode !== null || server.signalCode !== null) return;
   const exited = new Promise((resolve) => server.once("exit", resolve));
   server.kill("SIGTERM");
   await exited;
@@ -116,6 +117,30 @@ async function loadRidges(base: string, rows: number): Promise<{ siteIds: number
  * kept there and reused by the next run with the same rows, so the cold figure can be measured again without four
  * uploads (the ridges' ids and stored count are kept in bench-compare.json beside the database).
  */
+/**
+ * The same comparison's first answer from another fresh process after the first one stopped: the first wrote each
+ * campaign's column snapshot (data/cache/columns) when it read the rows, so this one reads those files instead.
+ * This is the cold answer after a restart of a server that had served the campaigns before.
+ */
+async function coldAfterRestart(dataDir: string, siteIds: number[], previous: ChildProcess): Promise<Record<string, number>> {
+  await stopServer(previous);
+  const port = await freePort();
+  const base = `http://127.0.0.1:${port}`;
+  const server = startServer(dataDir, port);
+  try {
+    await waitForHealth(base, server, 60_000);
+    const headers = await signIn(base);
+    const cpuBefore = processCpuMs(server.pid ?? 0);
+    const begin = performance.now();
+    const response = await fetch(`${base}/api/comparisons?sites=${siteIds.join(",")}`, { headers });
+    if (!response.ok) throw new Error(`comparison after restart: ${response.status} ${await response.text()}`);
+    await response.arrayBuffer();
+    return { comparisonColdAfterRestartMs: Math.round(performance.now() - begin), comparisonColdAfterRestartServerCpuMs: processCpuMs(server.pid ?? 0) - cpuBefore };
+  } finally {
+    await stopServer(server);
+  }
+}
+
 export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMPARE_DATA_DIR }: { rows: number; runs?: number; keepDataDir?: string }): Promise<Record<string, number | string>> {
   const dataDir = keepDataDir ?? mkdtempSync(join(tmpdir(), "calmcrest-bench-compare-"));
   const loadedFile = join(dataDir, "bench-compare.json");
@@ -139,7 +164,9 @@ export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMP
       if (keepDataDir !== undefined) writeFileSync(loadedFile, JSON.stringify(loaded));
     }
 
-    // A fresh process on the same data: nothing of the samples is in memory yet.
+    // A fresh process on the same data: nothing of the samples is in memory yet, and no column snapshot exists
+    // (data/cache/columns: a kept data directory loses them here, so every run measures the cold read from SQLite).
+    rmSync(join(dataDir, "cache"), { recursive: true, force: true });
     const port = await freePort();
     const base = `http://127.0.0.1:${port}`;
     const server = startServer(dataDir, port);
@@ -184,6 +211,7 @@ export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMP
         comparisonRecomputedServerCpuMedianMs: median(recomputedCpu),
         loadAverage1Min: Number(loadavg()[0]?.toFixed(1)),
         serverPeakRssMb: Math.round(peakRssMb(server.pid ?? 0)),
+        ...(await coldAfterRestart(dataDir, loaded.siteIds, server)),
         runAt: new Date().toISOString(),
       };
     } finally {

@@ -1,6 +1,7 @@
 import type Database from "better-sqlite3";
 import { sortPositive, tau0ToReference, theta0ToReference, type SortedSeeing } from "@calmcrest/seeing-stats";
 import type { SiteSummaryBrief } from "@calmcrest/contracts";
+import { readSnapshot, writeSnapshot, type SampleFingerprint } from "./column-snapshot.server";
 import { readDataVersions } from "./data-version.server";
 
 /**
@@ -43,6 +44,8 @@ interface CampaignEntry {
   version: number;
   /** Bytes of the typed arrays held (columns, and the sort once made). */
   bytes: number;
+  /** What the columns were read as (version −1: read outside sync, never written to a snapshot). */
+  fingerprint: SampleFingerprint;
 }
 
 /** About 41 bytes a sample: five Float64 columns and the anisotropy byte (τ0/θ0 add 8 each when logged, the two axes 16 when read); the seeing sort adds 12 more. */
@@ -71,11 +74,15 @@ export class SampleCache {
   /** Campaigns the running computation uses: never evicted until unpin(). */
   private readonly pinned = new Set<number>();
 
+  /** Where column snapshots live (column-snapshot.server.ts); none without it. */
+  private readonly snapshotDir: string | null;
+
   constructor(
     private readonly sqlite: Database.Database,
-    options: { maxBytes?: number } = {},
+    options: { maxBytes?: number; snapshotDir?: string } = {},
   ) {
     this.maxBytes = options.maxBytes ?? Number.POSITIVE_INFINITY;
+    this.snapshotDir = options.snapshotDir ?? null;
   }
 
   /** Bytes of sample columns (and sorts) held now. */
@@ -88,7 +95,7 @@ export class SampleCache {
     return [...this.campaigns.keys()];
   }
 
-  private entry(campaignId: number): CampaignEntry {
+  private entry(campaignId: number, version = -1): CampaignEntry {
     const cached = this.campaigns.get(campaignId);
     if (cached) {
       // Map order is the LRU order: move it to the end.
@@ -96,8 +103,13 @@ export class SampleCache {
       this.campaigns.set(campaignId, cached);
       return cached;
     }
-    const columns = this.loadColumns(campaignId);
-    const entry: CampaignEntry = { columns, exclusions: this.loadExclusions(campaignId), seeingSort: null, version: -1, bytes: columnBytes(columns) };
+    const fingerprint = this.fingerprint(campaignId, version);
+    // A snapshot written at this very version with these very samples, else the rows from SQLite.
+    const snapshot = this.snapshotDir !== null && version >= 0 ? readSnapshot(this.snapshotDir, fingerprint) : null;
+    const columns = snapshot?.columns ?? this.loadColumns(campaignId, fingerprint);
+    const seeingSort = snapshot?.sort ?? null;
+    const sortBytes = seeingSort === null ? 0 : seeingSort.sorted.byteLength + seeingSort.order.byteLength;
+    const entry: CampaignEntry = { columns, exclusions: this.loadExclusions(campaignId), seeingSort, version: -1, bytes: columnBytes(columns) + sortBytes, fingerprint };
     this.campaigns.set(campaignId, entry);
     this.heldBytes += entry.bytes;
     this.evict();
@@ -133,7 +145,7 @@ export class SampleCache {
         const version = versions[index] ?? 0;
         const held = this.campaigns.get(campaignId);
         if (held && held.version !== version) this.drop(campaignId);
-        const entry = this.entry(campaignId);
+        const entry = this.entry(campaignId, version);
         entry.version = version;
         // Read in the same snapshot as the columns they sit beside.
         if (options.axes === true && entry.columns.seeingLongArcsec === undefined) this.loadAxes(campaignId, entry);
@@ -167,6 +179,8 @@ export class SampleCache {
     if (entry.seeingSort === null) {
       const { seeingArcsec, count } = entry.columns;
       entry.seeingSort = sortPositive(seeingArcsec.subarray(0, count));
+      // Columns read from SQLite inside sync, now with their sort: kept on disk for the next worker that needs them.
+      if (this.snapshotDir !== null && entry.fingerprint.version >= 0) writeSnapshot(this.snapshotDir, entry.fingerprint, entry.columns, entry.seeingSort);
       const sortBytes = entry.seeingSort.sorted.byteLength + entry.seeingSort.order.byteLength;
       entry.bytes += sortBytes;
       this.heldBytes += sortBytes;
@@ -181,17 +195,31 @@ export class SampleCache {
     this.briefs.clear();
   }
 
-  private loadColumns(campaignId: number): CampaignColumns {
-    // One scan counts the samples and the logged τ0 and θ0 values (stored as logged; the summaries want them at
-    // zenith and 500 nm like the seeing).
-    const counted = this.sqlite.prepare("SELECT COUNT(*) AS n, COUNT(tau0_ms) AS tau0, COUNT(theta0_arcsec) AS theta0 FROM sample WHERE campaign_id = ?").get(campaignId) as {
-      n: number;
-      tau0: number;
-      theta0: number;
-    };
-    const count = counted.n;
+  /**
+   * One scan counts the samples and the logged τ0 and θ0 values and sums the times and seeing values (the
+   * fingerprint a column snapshot must match), with the campaign's wavelength (τ0 and θ0 are stored as logged;
+   * the summaries want them at zenith and 500 nm like the seeing).
+   */
+  private fingerprint(campaignId: number, version: number): SampleFingerprint {
+    const counted = this.sqlite
+      .prepare("SELECT COUNT(*) AS n, COUNT(tau0_ms) AS tau0, COUNT(theta0_arcsec) AS theta0, TOTAL(time_ms) AS timeSum, TOTAL(seeing_arcsec) AS seeingTotal FROM sample WHERE campaign_id = ?")
+      .get(campaignId) as { n: number; tau0: number; theta0: number; timeSum: number; seeingTotal: number };
     const campaign = this.sqlite.prepare("SELECT wavelength_nm AS wavelengthNm FROM campaign WHERE id = ?").get(campaignId) as { wavelengthNm: number | null } | undefined;
-    const turbulence = { tau0: counted.tau0, theta0: counted.theta0, wavelengthNm: campaign?.wavelengthNm ?? null };
+    return {
+      campaignId,
+      version,
+      count: counted.n,
+      timeSum: counted.timeSum,
+      seeingTotal: counted.seeingTotal,
+      tau0Count: counted.tau0,
+      theta0Count: counted.theta0,
+      wavelengthNm: campaign?.wavelengthNm ?? 500,
+    };
+  }
+
+  private loadColumns(campaignId: number, fingerprint: SampleFingerprint): CampaignColumns {
+    const count = fingerprint.count;
+    const turbulence = { tau0: fingerprint.tau0Count, theta0: fingerprint.theta0Count, wavelengthNm: fingerprint.wavelengthNm };
     const wavelengthNm = turbulence.wavelengthNm ?? 500;
     const columns: CampaignColumns = {
       count,

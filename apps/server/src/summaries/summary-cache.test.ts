@@ -1,4 +1,5 @@
-import { readFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
@@ -6,6 +7,7 @@ import type { SummaryResponse } from "@calmcrest/contracts";
 import { createSiteAndCampaign, DATA_SAMPLES, postUpload, waitForUpload } from "../routes/test-helpers";
 import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
 import { BUMP_DATA_VERSION_SQL, readDataVersions } from "./data-version.server";
+import { snapshotPath } from "./column-snapshot.server";
 import { SampleCache } from "./sample-cache.server";
 import { SummaryService } from "./summary-service.server";
 
@@ -211,6 +213,61 @@ describe("memory bounds", () => {
       expect(cache.bytesHeld).toBeLessThanOrEqual(8_000);
     } finally {
       connection.close();
+    }
+  });
+
+  it("read a campaign's columns and sort from its snapshot file only while the file matches the campaign's version and samples", async () => {
+    const { campaign } = await campaignWithSamples(300, 420);
+    const snapshotDir = mkdtempSync(join(tmpdir(), "calmcrest-snapshots-"));
+    const reader = new Database(context.db.file, { readonly: true });
+    try {
+      // A first worker reads the rows from SQLite and, with the sort made, writes the snapshot.
+      const first = new SampleCache(reader, { snapshotDir });
+      first.sync([campaign.id]);
+      const fromRows = { columns: first.columns(campaign.id), sort: first.seeingSort(campaign.id) };
+      first.unpin([campaign.id]);
+      const file = snapshotPath(snapshotDir, campaign.id);
+      expect(existsSync(file)).toBe(true);
+
+      // A restarted worker gets the very same columns and sort from the file.
+      const second = new SampleCache(reader, { snapshotDir });
+      second.sync([campaign.id]);
+      const fromFile = { columns: second.columns(campaign.id), sort: second.seeingSort(campaign.id) };
+      expect(Array.from(fromFile.columns.timeMs)).toEqual(Array.from(fromRows.columns.timeMs));
+      expect(Array.from(fromFile.columns.seeingArcsec)).toEqual(Array.from(fromRows.columns.seeingArcsec));
+      expect(Array.from(fromFile.columns.zenithDeg)).toEqual(Array.from(fromRows.columns.zenithDeg));
+      expect(Array.from(fromFile.columns.sunAltDeg)).toEqual(Array.from(fromRows.columns.sunAltDeg));
+      expect(Array.from(fromFile.columns.flux)).toEqual(Array.from(fromRows.columns.flux));
+      expect(Array.from(fromFile.columns.anisotropic ?? [])).toEqual(Array.from(fromRows.columns.anisotropic ?? []));
+      expect(Array.from(fromFile.sort.order)).toEqual(Array.from(fromRows.sort.order));
+      expect(Array.from(fromFile.sort.sorted)).toEqual(Array.from(fromRows.sort.sorted));
+      second.unpin([campaign.id]);
+
+      // It really is the file that is read: a value changed in the file (header intact) comes back as changed.
+      const bytes = readFileSync(file);
+      const headerBytes = 80;
+      bytes.writeDoubleLE(123.5, headerBytes + 8 * fromRows.columns.count + 8); // seeingArcsec[1]
+      writeFileSync(file, bytes);
+      const third = new SampleCache(reader, { snapshotDir });
+      third.sync([campaign.id]);
+      expect(third.columns(campaign.id).seeingArcsec[1]).toBe(123.5);
+      third.unpin([campaign.id]);
+
+      // A sample changed in the database (here without raising the version, as a hand edit would) no longer
+      // matches the file's fingerprint: the rows are read again, with the new value.
+      const writer = new Database(context.db.file);
+      try {
+        writer.prepare("UPDATE sample SET seeing_arcsec = seeing_arcsec + 0.25 WHERE campaign_id = ? AND time_ms = ?").run(campaign.id, fromRows.columns.timeMs[2]);
+      } finally {
+        writer.close();
+      }
+      const fourth = new SampleCache(reader, { snapshotDir });
+      fourth.sync([campaign.id]);
+      expect(fourth.columns(campaign.id).seeingArcsec[2]).toBeCloseTo((fromRows.columns.seeingArcsec[2] ?? 0) + 0.25, 12);
+      expect(fourth.columns(campaign.id).seeingArcsec[1]).toBe(fromRows.columns.seeingArcsec[1]);
+      fourth.unpin([campaign.id]);
+    } finally {
+      reader.close();
     }
   });
 });

@@ -1,3 +1,4 @@
+import { dirname, join } from "node:path";
 import { parentPort, workerData } from "node:worker_threads";
 import Database from "better-sqlite3";
 import { SampleCache } from "./sample-cache.server";
@@ -12,7 +13,8 @@ const options = workerData as SummaryWorkerOptions;
 const connection = new Database(options.dbFile, { readonly: true, fileMustExist: true });
 // A reader never needs the write lock; a short busy wait covers the moment a checkpoint resets the WAL.
 connection.pragma("busy_timeout = 5000");
-const cache = new SampleCache(connection, { maxBytes: options.columnCacheMaxBytes });
+// Column snapshots beside the database (data/cache/columns): a restarted worker reads them instead of the rows.
+const cache = new SampleCache(connection, { maxBytes: options.columnCacheMaxBytes, snapshotDir: join(dirname(options.dbFile), "cache", "columns") });
 
 function post(message: FromSummaryWorker): void {
   parentPort?.postMessage(message);

@@ -75,7 +75,7 @@ export interface UserListItem {
 
 /** `GET /api/users/:id` (admin): one person's page. */
 export interface UserDetail extends UserListItem {
-  /** The person's own latest actions, newest first. */
+  /** The latest audit rows by the person or about their account (sign-ins, role changes), newest first (20). */
   recentActions: AuditListItem[];
   /** Whether this person is the last active administrator (cannot be demoted or deactivated). */
   lastActiveAdmin: boolean;

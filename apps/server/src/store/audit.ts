@@ -53,7 +53,9 @@ export function auditStore(core: StoreCore) {
   }
 
   function item(row: AuditJoinedRow, names: Map<string, string>): AuditListItem {
-    const action: AuditAction = isAuditAction(row.action) ? row.action : "upload.ingested";
+    // The store writes only actions of the vocabulary (StoreCore.write refuses others), so every stored row has one.
+    if (!isAuditAction(row.action)) throw new Error(`Audit row ${row.id} has the action ${row.action}, which is not in the vocabulary (packages/contracts/src/audit.ts).`);
+    const action: AuditAction = row.action;
     const details = parseDetails(row.details);
     return {
       id: row.id,

@@ -141,4 +141,25 @@ async function syntheticLines(options: { seed: number; nights: number; cadenceSe
   writeFileSync(join(here, 'malformed-no-time.csv'), 'seeing_arcsec,zenith_deg\n0.71,20.5\n0.83,21.0\n');
   writeFileSync(join(here, 'malformed-empty.csv'), '');
 }
+// 7. Times as monitors also write them: Julian dates, and day-first local times in a file kept at UTC+02:00.
+{
+  const random = createRandom(16);
+  const start = Date.parse('2025-06-10T23:00:00Z');
+  const seeing = () => (0.75 * Math.exp(0.3 * (random() + random() - 1))).toFixed(3);
+  const zenith = () => (10 + 30 * random()).toFixed(1);
+  const jdRows: string[] = ['# Julian dates (UTC), invented data', 'jd,seeing_arcsec,zenith_deg'];
+  for (let index = 0; index < 120; index += 1) jdRows.push(`${((start + index * 120_000) / 86_400_000 + 2440587.5).toFixed(8)},${seeing()},${zenith()}`);
+  jdRows[41] = (jdRows[41] ?? '').replace(/^[^,]+/, '2025-06-11T00:18:00Z'); // line 42: an ISO time in a Julian-date column
+  writeFileSync(join(here, 'time-jd.csv'), `${jdRows.join('\n')}\n`);
+  const two = (value: number) => String(value).padStart(2, '0');
+  const localRows: string[] = ['Date/time (local);Seeing;Zenith'];
+  for (let index = 0; index < 100; index += 1) {
+    const local = new Date(start + 2 * 3_600_000 + index * 120_000);
+    const text = `${two(local.getUTCDate())}/${two(local.getUTCMonth() + 1)}/${local.getUTCFullYear()} ${two(local.getUTCHours())}:${two(local.getUTCMinutes())}:00`;
+    localRows.push(`${text};${seeing().replace('.', ',')};${zenith().replace('.', ',')}`);
+  }
+  localRows[30] = (localRows[30] ?? '').replace(/^\d\d\/06/, '31/06'); // line 31: 31 June does not exist
+  writeFileSync(join(here, 'time-dmy-local.csv'), `${localRows.join('\n')}\n`);
+  console.log('time-jd.csv 120 rows, time-dmy-local.csv 100 rows');
+}
 rmSync(scratch, { recursive: true, force: true });

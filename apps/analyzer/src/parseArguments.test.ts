@@ -59,4 +59,12 @@ describe('analyzer arguments', () => {
     expect(() => parseArguments(['log.csv', '--thresholds', '0.6,x'])).toThrow(/--thresholds/);
     expect(() => parseArguments(['log.csv', '--replicates', '2.5'])).toThrow(/--replicates/);
   });
+
+  it('read --time-format and --utc-offset into the reading options', () => {
+    const parsed = parseArguments(['log.csv', '--time-format', 'mjd', '--utc-offset=-03:30']);
+    expect(parsed.options.timeFormat).toBe('mjd');
+    expect(parsed.options.utcOffsetMinutes).toBe(-210);
+    expect(parseArguments(['log.csv']).options.timeFormat).toBeUndefined();
+    expect(() => parseArguments(['log.csv', '--time-format', 'unix'])).toThrow(UsageError);
+  });
 });

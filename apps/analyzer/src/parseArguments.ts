@@ -1,4 +1,4 @@
-import { isLogField, RESPONSE_SETS, type MappingOverrides, type ResponseSet } from '@calmcrest/seeing-stats';
+import { isLogField, parseUtcOffsetMinutes, RESPONSE_SETS, TIME_FORMATS, type MappingOverrides, type ResponseSet, type TimeFormat } from '@calmcrest/seeing-stats';
 import type { AnalyzeOptions } from '@calmcrest/seeing-stats/node';
 
 export class UsageError extends Error {
@@ -31,6 +31,8 @@ Monitor
   --response SET             z-tilt (default) | g-tilt | sarazin-roddier
 Columns
   --map field=Header         the file's column "Header" holds field (repeatable; other fields still match by name), e.g. --map zenith_deg=ZD; field= reads no column for field
+  --time-format F            how the time column is written: iso (default) | jd (Julian date) | mjd | dmy (31/12/2025 23:15) | mdy (12/31/2025 23:15)
+  --utc-offset ±HH:MM        the zone of times written without one (a log kept in local time), e.g. --utc-offset -04:00
 Filters
   --site-lat DEG --site-lon DEG   site position (east positive); turns on the night filter and names nights
                              and seasons by the site (without it nights split at 12:00 UTC: a warning)
@@ -95,6 +97,8 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
   let response: ResponseSet = 'z-tilt';
   let thresholdsArcsec: number[] | undefined;
   let keepAnisotropic = false;
+  let timeFormat: TimeFormat | undefined;
+  let utcOffsetMinutes: number | undefined;
   for (let index = 0; index < argv.length; index += 1) {
     const argument = argv[index] ?? '';
     const equals = argument.startsWith('--') ? argument.indexOf('=') : -1;
@@ -124,6 +128,17 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       }
       // field= (nothing after the '=') says the file has no such column: the field is not matched by name either.
       mapping[field] = header === '' ? null : header;
+    } else if (flag === '--time-format') {
+      const value = takeValue() ?? '';
+      if (!(TIME_FORMATS as readonly string[]).includes(value)) throw new UsageError(`--time-format must be one of ${TIME_FORMATS.join(', ')}, got "${value}".`);
+      timeFormat = value as TimeFormat;
+    } else if (flag === '--utc-offset') {
+      const value = takeValue() ?? '';
+      try {
+        utcOffsetMinutes = parseUtcOffsetMinutes(value);
+      } catch (error) {
+        throw new UsageError(`--utc-offset: ${error instanceof Error ? error.message : String(error)}.`);
+      }
     } else if (flag === '--thresholds') {
       const value = takeValue() ?? '';
       const parsed = value.split(',').map((part) => Number(part));
@@ -150,6 +165,8 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
 
   const options: AnalyzeOptions = {
     mapping: Object.keys(mapping).length > 0 ? mapping : undefined,
+    ...(timeFormat ? { timeFormat } : {}),
+    ...(utcOffsetMinutes ? { utcOffsetMinutes } : {}),
     monitor: {
       wavelengthNm: numbers.get('--wavelength-nm') ?? 500,
       response,

@@ -145,3 +145,4 @@ export {
   type ComparedSiteFacts,
 } from './compare/comparisonWarnings.js';
 export { prepareSite, comparePreparedPaired, comparePreparedUnpaired, type PreparedSite } from './compare/preparedComparison.js';
+export { parseTimeAs, parseUtcOffsetMinutes, timeFormatExample, TIME_FORMATS, type TimeFormat } from './log/parseTimeAs.js';

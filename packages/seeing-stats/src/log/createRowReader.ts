@@ -4,7 +4,7 @@ import { exposureTimeCorrection } from '../physics/exposureTimeCorrection.js';
 import { responseCoefficients, type ResponseSet } from '../physics/responseCoefficients.js';
 import { checkMapping } from './checkMapping.js';
 import type { ColumnMapping, LogField } from './logFields.js';
-import { parseUtcTime } from './parseUtcTime.js';
+import { parseTimeAs, timeFormatExample, type TimeFormat } from './parseTimeAs.js';
 import type { LineRejectReason } from './splitLog.js';
 import { createSunAltitude, type SiteLocation } from './sunAltitude.js';
 
@@ -278,8 +278,14 @@ export function createRowReader(options: {
   delimiter?: string;
   /** Overrides of the default plausibility window (defaultPlausibility() as of now). */
   plausibility?: Partial<PlausibilityWindow>;
+  /** How the time column is written (parseTimeAs); ISO 8601 by default. */
+  timeFormat?: TimeFormat;
+  /** The zone of times that carry none, in minutes east of UTC (a file logged in local time); 0 by default. */
+  utcOffsetMinutes?: number;
 }): (fields: readonly string[], line: number) => RowResult {
   const { headers, mapping, monitor, site } = options;
+  const timeFormat = options.timeFormat ?? 'iso';
+  const utcOffsetMinutes = options.utcOffsetMinutes ?? 0;
   validateMonitor(monitor);
   const plausible: PlausibilityWindow = { ...defaultPlausibility(), ...options.plausibility };
   validatePlausibility(plausible);
@@ -337,10 +343,10 @@ export function createRowReader(options: {
 
   return (fields) => {
     const timeText = fields[timeIndex];
-    const timeMs = timeText === undefined ? Number.NaN : parseUtcTime(timeText);
+    const timeMs = timeText === undefined ? Number.NaN : parseTimeAs(timeText, timeFormat, utcOffsetMinutes);
     if (Number.isNaN(timeMs)) {
       const shown = timeText === undefined || timeText.trim() === '' ? 'an empty time' : `"${timeText.slice(0, 40)}"`;
-      return { ok: false, reason: 'unreadable_time', message: `${shown} is not an ISO 8601 UTC time like 2025-03-01T23:15:00Z` };
+      return { ok: false, reason: 'unreadable_time', message: `${shown} is not ${timeFormatExample(timeFormat)}` };
     }
     if (timeMs < earliestTimeMs || timeMs > latestTimeMs) {
       return {

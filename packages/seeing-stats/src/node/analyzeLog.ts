@@ -25,6 +25,7 @@ import { RESPONSE_SET_NAMES } from '../physics/responseCoefficients.js';
 import { nightIntervalStatus } from '../stats/nightIntervalStatus.js';
 import { hemisphereSeasons } from '../summary/hemisphereSeasons.js';
 import { MONTH_NAMES } from '../summary/seasonBalancedMedian.js';
+import type { TimeFormat } from '../log/parseTimeAs.js';
 import { INTERVAL_METHOD, SEASON_BALANCED_METHOD, SEASONS_METHOD, summarizeSeeing, type SeeingSummary, type SummaryOptions } from '../summary/summarizeSeeing.js';
 import { tau0ToReference } from '../physics/tau0ToReference.js';
 import { theta0ToReference } from '../physics/theta0ToReference.js';
@@ -35,6 +36,10 @@ import { GrowableColumns } from './growableColumns.js';
 import { streamLog } from './streamLog.js';
 
 export interface AnalyzeOptions {
+  /** How the time column is written (iso, jd, mjd, dmy, mdy); ISO 8601 by default. */
+  timeFormat?: TimeFormat;
+  /** The zone of times that carry none, minutes east of UTC. */
+  utcOffsetMinutes?: number;
   /** Fields whose header a person named (null: not in the file); every other field is matched by name. */
   mapping?: MappingOverrides;
   monitor: MonitorSettings;
@@ -115,7 +120,11 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
   let timesAscending = true;
   let previousTimeMs = Number.NEGATIVE_INFINITY;
 
-  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility }, {
+  const readOptions = {
+    ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
+    ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
+  };
+  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility, ...readOptions }, {
     onSample(sample, line) {
       const reason = filterReason(sample, filters);
       if (sample.timeMs <= previousTimeMs) timesAscending = false;

@@ -1,5 +1,6 @@
 import { LogFormatError } from '../errors.js';
 import { checkMapping } from '../log/checkMapping.js';
+import type { TimeFormat } from '../log/parseTimeAs.js';
 import { createRowReader, type LogSample, type MonitorSettings, type PlausibilityWindow, type RowRejectReason } from '../log/createRowReader.js';
 import type { ColumnMapping, MappingOverrides } from '../log/logFields.js';
 import { proposeMapping } from '../log/proposeMapping.js';
@@ -15,6 +16,10 @@ export interface StreamLogOptions {
   /** Overrides of the engine's default plausibility window. */
   plausibility?: Partial<PlausibilityWindow>;
   onProgress?: (bytesRead: number) => void;
+  /** How the time column is written; ISO 8601 by default (createRowReader). */
+  timeFormat?: TimeFormat;
+  /** The zone of times that carry none, minutes east of UTC. */
+  utcOffsetMinutes?: number;
 }
 
 export interface StreamLogHandlers {
@@ -63,7 +68,16 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
           hint: `${problems.slice(1).join(' ')} Headers found: ${listHeaders(headers)}. Rename the columns to the native names (README, "Log format") or map them with --map field=Header.`.trim(),
         });
       }
-      readRow = createRowReader({ headers, mapping, monitor: options.monitor, site: options.site, delimiter, plausibility: options.plausibility });
+      readRow = createRowReader({
+        headers,
+        mapping,
+        monitor: options.monitor,
+        site: options.site,
+        delimiter,
+        plausibility: options.plausibility,
+        ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
+        ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
+      });
       handlers.onHeader?.(headers, mapping);
     },
     row(fields, line, text) {

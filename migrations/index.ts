@@ -6,6 +6,7 @@ import * as outbox from "./20261205_0001_outbox";
 import * as campaignDataVersion from "./20261205_0002_campaign_data_version";
 import * as reports from "./20261205_0001_reports";
 import * as uploadWithdrawal from "./20261205_0003_upload_withdrawal";
+import * as uploadReadOptions from "./20261205_0004_upload_read_options";
 import * as accounts from "./20261205_0002_accounts";
 
 interface Migration {
@@ -23,6 +24,7 @@ const migrations: [name: string, migration: Migration][] = [
   ["20261205_0002_campaign_data_version", campaignDataVersion],
   ["20261205_0001_reports", reports],
   ["20261205_0003_upload_withdrawal", uploadWithdrawal],
+  ["20261205_0004_upload_read_options", uploadReadOptions],
   ["20261205_0002_accounts", accounts],
 ];
 

@@ -98,4 +98,23 @@ describe("the upload wizard's whole-file check", () => {
     expect(await warning.textContent()).toContain("subaperture 50 mm (campaign: 60 mm); baseline 180 mm (campaign: 200 mm); wavelength 550 nm (campaign: 500 nm); pixel scale 0.65″/px (campaign: none)");
     expect(browser.problems).toEqual([]);
   });
+
+  it("reads day-first local times with the time format and zone chosen in the wizard, to the documented counts", async () => {
+    const { page } = browser;
+    await page.goto(`${server.url}/upload?campaign=${campaignId}`);
+    await page.locator("input[type=file]").setInputFiles(join(repoRoot, "data-samples/time-dmy-local.csv"));
+    await page.getByLabel(/Time of the sample/).selectOption("Date/time (local)");
+    await page.getByLabel(/Seeing FWHM/).selectOption("Seeing");
+    await page.getByLabel(/Zenith angle of the star/).selectOption("Zenith");
+    await page.getByLabel("Time column holds").selectOption("dmy");
+    await page.getByLabel(/Time zone of times written without one/).fill("+02:00");
+    // data-samples/README.md: 100 rows, 31 June on line 31 unreadable; 11/06/2025 01:00 at UTC+02:00 is 23:00 UTC.
+    await expect.poll(() => page.getByTestId("check-summary").textContent(), { timeout: 20_000 }).toBe("All 100 rows checked: 99 usable, 1 with a problem. Nothing has been stored yet.");
+    expect(await page.getByTestId("whole-file-check").getByText(/^Line 31:/).count()).toBe(1);
+    await expect.poll(() => page.getByRole("table", { name: "First rows as the server reads them" }).getByRole("row").nth(1).textContent()).toContain("2025-06-10 23:00:00");
+    await page.getByRole("button", { name: "Upload", exact: true }).click();
+    await expect.poll(() => page.getByTestId("accepted-count").textContent(), { timeout: 15_000 }).toBe("99 accepted");
+    await screenshot(page, "upload-check-time-format-desktop");
+    expect(browser.problems).toEqual([]);
+  });
 });

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { mappingOverridesSchema, monitorSettingsSchema, type CampaignMonitor, type ColumnMappingInput } from "./campaigns";
-import type { LogSample } from "@calmcrest/seeing-stats";
+import { TIME_FORMATS, type LogSample } from "@calmcrest/seeing-stats";
 
 export const UPLOAD_STATUSES = ["queued", "ingesting", "done", "failed", "interrupted"] as const;
 export type UploadStatusName = (typeof UPLOAD_STATUSES)[number];
@@ -73,6 +73,8 @@ export interface UploadListItem {
   replacedByUploadId: number | null;
   /** Corrected monitor settings a re-read was made with (null: the campaign's). */
   monitorOverride: CampaignMonitor | null;
+  /** How the file's times were read (ISO 8601 UTC unless the upload said otherwise). */
+  readOptions: ReadOptions;
 }
 
 /** `GET /api/uploads/:id`. Poll it while status is queued or ingesting. */
@@ -124,6 +126,8 @@ export const rereadUploadSchema = z
     /** Overrides of the fields it names, like an upload's mapping (the web app sends every field). */
     mapping: mappingOverridesSchema.optional(),
     monitor: monitorSettingsSchema.optional(),
+    /** How the file's times are written (the old upload's when absent). */
+    readOptions: z.lazy(() => readOptionsSchema).optional(),
     reason: reasonText("read again"),
   });
 export type RereadUploadInput = z.input<typeof rereadUploadSchema>;
@@ -190,3 +194,19 @@ export interface WholeFileCheck {
   sha256: string;
   durationMs: number;
 }
+
+/**
+ * How a file is read beyond its mapping (multipart field `readOptions`, JSON): the time format (`iso` by default;
+ * `jd`, `mjd`, `dmy`, `mdy`) and the zone of times written without one, in minutes east of UTC.
+ */
+export const readOptionsSchema = z.object({
+  timeFormat: z.enum(TIME_FORMATS, { error: "timeFormat must be iso, jd, mjd, dmy or mdy." }).default("iso"),
+  utcOffsetMinutes: z
+    .number({ error: "utcOffsetMinutes must be a whole number of minutes east of UTC." })
+    .int("utcOffsetMinutes must be a whole number of minutes east of UTC.")
+    .min(-14 * 60, "utcOffsetMinutes must be between -840 and 840 (UTC-14:00 to UTC+14:00).")
+    .max(14 * 60, "utcOffsetMinutes must be between -840 and 840 (UTC-14:00 to UTC+14:00).")
+    .default(0),
+});
+export type ReadOptions = z.output<typeof readOptionsSchema>;
+export type ReadOptionsInput = z.input<typeof readOptionsSchema>;

@@ -1,4 +1,4 @@
-import type { ColumnMapping, MonitorSettings, SiteLocation } from "@calmcrest/seeing-stats";
+import type { ColumnMapping, MonitorSettings, SiteLocation, TimeFormat } from "@calmcrest/seeing-stats";
 
 // Messages between the ingest queue (main thread) and the ingest worker thread.
 
@@ -12,6 +12,9 @@ export interface IngestJob {
   sizeBytes: number;
   mapping: ColumnMapping;
   monitor: MonitorSettings;
+  /** How the file's times are written (null in the row: ISO 8601 UTC). */
+  timeFormat: TimeFormat;
+  utcOffsetMinutes: number;
   site: SiteLocation;
   /** Test-only: throw after this many stored samples, to prove a failed ingest leaves nothing behind. */
   failAfterSamples?: number;

@@ -2,7 +2,7 @@ import { join } from "node:path";
 import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
-import { effectiveCampaign, monitorOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
+import { effectiveCampaign, monitorOf, readOptionsOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
 import { rawFilePath, tmpDir } from "../uploads/raw-files.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
@@ -174,6 +174,7 @@ export class IngestQueue {
       mapping: JSON.parse(upload.mapping) as ColumnMapping,
       // A re-read may carry corrected monitor settings; otherwise the campaign's.
       monitor: monitorOf(effectiveCampaign(campaign, upload)),
+      ...readOptionsOf(upload),
       site: siteLocationOf(site),
     };
     if (this.options.allowTestHooks && this.testHooks.failAfterSamples !== undefined) job.failAfterSamples = this.testHooks.failAfterSamples;

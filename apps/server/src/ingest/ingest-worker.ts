@@ -89,6 +89,8 @@ async function readInto(job: IngestJob, sink: RowSink): Promise<ReadResult> {
       mapping: exactMapping(job.mapping),
       monitor: job.monitor,
       site: job.site,
+      timeFormat: job.timeFormat,
+      utcOffsetMinutes: job.utcOffsetMinutes,
       onProgress: (bytesRead) => {
         const now = Date.now();
         if (now - lastProgressMs < PROGRESS_EVERY_MS) return;

@@ -70,3 +70,53 @@ describe("the whole-file check before an upload", () => {
     expect(binary.body.error.message).toMatch(/not a text log/);
   });
 });
+
+describe("files whose times are not ISO 8601", () => {
+  const jdLog = join(DATA_SAMPLES, "time-jd.csv");
+  it("reads Julian dates when the upload says so, in the check, the preview and the ingest alike (data-samples/README.md: 120 read, 119 accepted)", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const readOptions = JSON.stringify({ timeFormat: "jd" });
+    const checked = (await lead
+      .post(`/api/campaigns/${campaign.id}/uploads/check`)
+      .set(SAME_ORIGIN)
+      .field("mapping", JSON.stringify({ time_utc: "jd" }))
+      .field("readOptions", readOptions)
+      .attach("file", jdLog)).body as WholeFileCheck;
+    expect(checked).toMatchObject({ rowsRead: 120, usable: 119, rejectedByReason: { unreadable_time: 1 } });
+    expect(checked.problemLines[0]?.line).toBe(42);
+    const preview = await lead
+      .post(`/api/campaigns/${campaign.id}/uploads/preview`)
+      .set(SAME_ORIGIN)
+      .field("mapping", JSON.stringify({ time_utc: "jd" }))
+      .field("readOptions", readOptions)
+      .attach("file", jdLog);
+    expect(preview.body.rows[0].sample.timeMs).toBe(Date.UTC(2025, 5, 10, 23));
+    const posted = await lead
+      .post(`/api/campaigns/${campaign.id}/uploads`)
+      .set(SAME_ORIGIN)
+      .field("mapping", JSON.stringify({ time_utc: "jd" }))
+      .field("readOptions", readOptions)
+      .attach("file", jdLog);
+    expect(posted.status).toBe(202);
+    const done = await waitForUpload(lead, posted.body.upload.id);
+    expect(done.samples).toMatchObject({ read: 120, accepted: 119, rejectedByReason: { unreadable_time: 1 } });
+    expect(done.readOptions).toEqual({ timeFormat: "jd", utcOffsetMinutes: 0 });
+  });
+
+  it("re-reads a file sent without its time format, and refuses read options it cannot use", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const first = await waitForUpload(lead, (await postUpload(lead, campaign.id, jdLog, "log.csv", { time_utc: "jd" })).body.upload.id);
+    expect(first.samples).toMatchObject({ read: 120, accepted: 1 });
+    const reread = await lead.post(`/api/uploads/${first.id}/reread`).set(SAME_ORIGIN).send({ readOptions: { timeFormat: "jd" }, reason: "The times are Julian dates" });
+    expect(reread.status).toBe(202);
+    const done = await waitForUpload(lead, reread.body.upload.id);
+    expect(done.samples).toMatchObject({ read: 120, accepted: 119 });
+    const bad = await lead
+      .post(`/api/campaigns/${campaign.id}/uploads/check`)
+      .set(SAME_ORIGIN)
+      .field("readOptions", JSON.stringify({ timeFormat: "unix" }))
+      .attach("file", jdLog);
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.message).toMatch(/timeFormat must be iso, jd, mjd, dmy or mdy/);
+  });
+});

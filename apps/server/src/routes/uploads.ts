@@ -6,10 +6,12 @@ import { describeLogFormatError, LogFormatError, previewLog, SeeingInputError, t
 import {
   dateInWords,
   mappingOverridesSchema,
+  readOptionsSchema,
   rereadUploadSchema,
   restoreUploadSchema,
   spreadsheetSafeCsv,
   withdrawUploadSchema,
+  type ReadOptions,
   type RereadAccepted,
   type UploadAccepted,
   type UploadDuplicateBody,
@@ -82,6 +84,23 @@ function parseMappingField(value: unknown): MappingOverrides | undefined {
   return parseOr400(mappingOverridesSchema, parsed, "The mapping");
 }
 
+/** The multipart `readOptions` field: JSON { timeFormat, utcOffsetMinutes }, or absent (ISO 8601 UTC). */
+function parseReadOptionsField(value: unknown): ReadOptions | undefined {
+  if (value === undefined || value === "") return undefined;
+  let parsed: unknown;
+  try {
+    parsed = typeof value === "string" ? JSON.parse(value) : undefined;
+  } catch {
+    parsed = undefined;
+  }
+  if (parsed === undefined) {
+    throw new HttpError(400, "invalid_input", 'The read options are not valid JSON. Send them like {"timeFormat":"jd"} or {"timeFormat":"dmy","utcOffsetMinutes":120}.', {
+      readOptions: ["Not valid JSON."],
+    });
+  }
+  return parseOr400(readOptionsSchema, parsed, "The read options");
+}
+
 /** Runs a multer middleware and turns its errors into the API's JSON errors (413 names the limit in MB). */
 function withUploadErrors(middleware: RequestHandler, limitMb: number): RequestHandler {
   return (req, res, next) => {
@@ -132,6 +151,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     const text = req.file ? req.file.buffer.toString("utf8") : typeof body?.text === "string" ? body.text : null;
     if (text === null) throw new HttpError(400, "invalid_input", 'Send the first rows of the log as the file field "file".', { file: ["No file was sent."] });
     const mapping = parseMappingField(body?.mapping);
+    const readOptions = parseReadOptionsField(body?.readOptions);
     const site = await store.campaigns.siteOf(campaign);
     try {
       const preview = previewLog(text, {
@@ -139,6 +159,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
         site: siteLocationOf(site),
         maxRows: 20,
         ...(mapping ? { mapping } : {}),
+        ...(readOptions ?? {}),
       });
       const answer: UploadPreview = {
         delimiter: preview.delimiter,
@@ -167,6 +188,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
         const campaign = accessedCampaign(locals);
         return {
           mapping: parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping),
+          readOptions: parseReadOptionsField((req.body as Record<string, unknown> | undefined)?.readOptions),
           monitor: monitorOf(campaign),
           site: locals.siteLocation,
           storedTimes: () => locals.storedTimes ?? new Float64Array(0),
@@ -213,13 +235,15 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     const file = req.file as (Express.Multer.File & HashedFile) | undefined;
     if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file".', { file: ["No file was sent."] });
     let mapping: MappingOverrides | undefined;
+    let readOptions: ReadOptions | undefined;
     try {
       mapping = parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping);
+      readOptions = parseReadOptionsField((req.body as Record<string, unknown> | undefined)?.readOptions);
     } catch (error) {
       await discardTemporary(file);
       throw error;
     }
-    const result = await acceptUpload(context, { campaign, userId: user.id, file, fileName: file.originalname, mapping });
+    const result = await acceptUpload(context, { campaign, userId: user.id, file, fileName: file.originalname, mapping, readOptions });
     if (result.kind === "duplicate") {
       const { existing } = result;
       // Same bytes with another mapping: offer to re-read the stored file with it (for those who may), not a dead end.
@@ -365,7 +389,7 @@ export function uploadRoutes(context: AppContext): ApiRouter {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       throw error;
     }
-    const newId = await store.uploads.reread(user, row, { mapping, monitor: input.monitor, reason: input.reason });
+    const newId = await store.uploads.reread(user, row, { mapping, monitor: input.monitor, reason: input.reason, readOptions: input.readOptions });
     ingest.enqueue(newId);
     const accepted: RereadAccepted = { upload: { id: newId, status: "queued" }, replaces: row.id };
     res.status(202).json(accepted);

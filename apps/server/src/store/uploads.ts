@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import type { User } from "lucia";
 import { readingWarnings, type ColumnMapping } from "@calmcrest/seeing-stats";
-import type { ColumnMappingInput, RejectReasonName, SampleCounts, UploadListItem, UploadStatus, UploadStatusName } from "@calmcrest/contracts";
+import type { ColumnMappingInput, ReadOptions, RejectReasonName, SampleCounts, UploadListItem, UploadStatus, UploadStatusName } from "@calmcrest/contracts";
 import type { z } from "zod";
 import type { monitorSettingsSchema } from "@calmcrest/contracts";
 import type { CampaignAction } from "../access/access.server";
@@ -39,6 +39,13 @@ export interface UploadRow {
   replaced_by_upload_id: number | null;
   /** JSON of the monitor columns a re-read was made with (null: the campaign's). */
   monitor_override: string | null;
+  /** JSON { timeFormat, utcOffsetMinutes } (null: ISO 8601 UTC). */
+  read_options: string | null;
+}
+
+/** The read options of a stored upload (ISO 8601 UTC when none were given). */
+export function readOptionsOf(row: Pick<UploadRow, "read_options">): ReadOptions {
+  return row.read_options ? (JSON.parse(row.read_options) as ReadOptions) : { timeFormat: "iso", utcOffsetMinutes: 0 };
 }
 
 /** The monitor columns a re-read may correct (the campaign row's names). */
@@ -91,6 +98,7 @@ export function uploadListItem(row: UploadRow): UploadListItem {
     replacesUploadId: row.replaces_upload_id,
     replacedByUploadId: row.replaced_by_upload_id,
     monitorOverride: row.monitor_override ? campaignMonitor({ ...PLACEHOLDER_CAMPAIGN, ...(JSON.parse(row.monitor_override) as MonitorOverride) }) : null,
+    readOptions: readOptionsOf(row),
   };
 }
 
@@ -258,7 +266,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
      */
     async record(
       actorId: string,
-      input: { campaignId: number; fileName: string; sizeBytes: number; sha256: string; mapping: ColumnMapping },
+      input: { campaignId: number; fileName: string; sizeBytes: number; sha256: string; mapping: ColumnMapping; readOptions?: ReadOptions | undefined },
     ): Promise<RecordResult> {
       try {
         const uploadId = await core.write(async ({ trx, audit }) => {
@@ -271,6 +279,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
               uploaded_by: actorId,
               uploaded_at: new Date().toISOString(),
               mapping: JSON.stringify(input.mapping),
+              read_options: input.readOptions ? JSON.stringify(input.readOptions) : null,
               status: "queued",
             })
             .returning<{ id: number }[]>("id");
@@ -379,7 +388,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
      * old one is queued, and the old one is withdrawn in the same transaction (unless it is withdrawn already).
      * Returns the new upload's id; the caller queues its ingest.
      */
-    async reread(user: User, row: UploadRow, input: { mapping: ColumnMapping; monitor: MonitorInput | undefined; reason: string }): Promise<number> {
+    async reread(user: User, row: UploadRow, input: { mapping: ColumnMapping; monitor: MonitorInput | undefined; reason: string; readOptions?: ReadOptions | undefined }): Promise<number> {
       requireOwnerOrLead(user, row, "re-read");
       return core.write(async ({ trx, audit, afterCommit }) => {
         const current = await trx("upload").where({ id: row.id }).first<{ status: UploadStatusName; withdrawn_at: string | null } | undefined>("status", "withdrawn_at");
@@ -401,6 +410,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
             status: "queued",
             replaces_upload_id: row.id,
             monitor_override: override,
+            read_options: input.readOptions ? JSON.stringify(input.readOptions) : row.read_options,
           })
           .returning<{ id: number }[]>("id");
         if (!inserted) throw new HttpError(500, "server_error", "The re-read could not be recorded. Try again.");

@@ -1,6 +1,7 @@
 import { createReadStream } from "node:fs";
 import { describeLogFormatError, LogFormatError, type ColumnMapping, type MappingOverrides, type MonitorSettings } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
+import type { ReadOptions } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
 import { monitorOf, type CampaignRow, type RecordResult } from "../store/index";
@@ -60,7 +61,7 @@ export type AcceptResult = { kind: "queued"; uploadId: number } | (Extract<Recor
  */
 export async function acceptUpload(
   context: AppContext,
-  input: { campaign: CampaignRow; userId: string; file: HashedFile; fileName: string; mapping: MappingOverrides | undefined },
+  input: { campaign: CampaignRow; userId: string; file: HashedFile; fileName: string; mapping: MappingOverrides | undefined; readOptions?: ReadOptions | undefined },
 ): Promise<AcceptResult> {
   const { campaign, file } = input;
   const { store } = context;
@@ -97,6 +98,7 @@ export async function acceptUpload(
       sizeBytes: file.size,
       sha256: file.sha256,
       mapping,
+      readOptions: input.readOptions,
     });
     if (result.kind === "queued") context.ingest.enqueue(result.uploadId);
     return result.kind === "queued" ? result : { ...result, mapping };

@@ -4,7 +4,7 @@ import type { Request } from "express";
 import type { StorageEngine } from "multer";
 import { DEFAULT_FILTERS, filterReason, readingWarnings, type MappingOverrides, type MonitorSettings, type SiteLocation } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
-import type { CheckedProblemLine, RejectReasonName, WholeFileCheck } from "@calmcrest/contracts";
+import type { CheckedProblemLine, ReadOptions, RejectReasonName, WholeFileCheck } from "@calmcrest/contracts";
 
 /** Problem lines kept per reason (the first ones in the file). */
 export const PROBLEM_LINES_PER_REASON = 3;
@@ -14,6 +14,8 @@ const RAW_LINE_CHARS = 300;
 
 export interface CheckOptions {
   mapping: MappingOverrides | undefined;
+  /** How the times are written (ISO 8601 UTC when absent). */
+  readOptions?: ReadOptions | undefined;
   monitor: MonitorSettings;
   site: SiteLocation;
   /** Sample times the campaign holds already, ascending (a row at one of them would be a duplicate_time). */
@@ -70,7 +72,7 @@ export async function checkWholeFile(source: NodeJS.ReadableStream, fileName: st
 
   const result = await streamLog(
     input,
-    { ...(options.mapping ? { mapping: options.mapping } : {}), monitor: options.monitor, site: options.site, onProgress: (bytes) => (sizeBytes = bytes) },
+    { ...(options.mapping ? { mapping: options.mapping } : {}), ...(options.readOptions ?? {}), monitor: options.monitor, site: options.site, onProgress: (bytes) => (sizeBytes = bytes) },
     {
       onSample(sample, line, fields, delimiter) {
         stored ??= options.storedTimes();

@@ -3,6 +3,7 @@ import { exactMapping } from "@calmcrest/seeing-stats";
 import type {
   ApiErrorBody,
   ColumnMappingInput,
+  ReadOptionsInput,
   RereadAccepted,
   RereadUploadInput,
   RestoreUploadInput,
@@ -26,10 +27,11 @@ export const uploadQuery = (uploadId: number) =>
   });
 
 /** Server-side reading of the first rows with the mapping; nothing is stored. */
-export function previewUpload(campaignId: number, head: Blob, fileName: string, mapping: ColumnMappingInput) {
+export function previewUpload(campaignId: number, head: Blob, fileName: string, mapping: ColumnMappingInput, readOptions?: ReadOptionsInput) {
   const form = new FormData();
   // Every field, unmapped ones as null: the server reads exactly the mapping the person checked.
   form.append("mapping", JSON.stringify(exactMapping(mapping)));
+  if (readOptions) form.append("readOptions", JSON.stringify(readOptions));
   form.append("file", head, fileName);
   return api<UploadPreview>(`/campaigns/${campaignId}/uploads/preview`, { form });
 }
@@ -43,7 +45,14 @@ const isDuplicate = (value: unknown): value is UploadDuplicateBody =>
  * Sends a whole log with XMLHttpRequest, because fetch cannot report upload progress. `onProgress` gets the
  * fraction 0..1 of bytes sent. A 409 for a file already in the campaign is an outcome, not an error.
  */
-export function sendUpload(campaignId: number, file: File, mapping: ColumnMappingInput, onProgress: (fraction: number) => void, signal?: AbortSignal): Promise<UploadOutcome> {
+export function sendUpload(
+  campaignId: number,
+  file: File,
+  mapping: ColumnMappingInput,
+  onProgress: (fraction: number) => void,
+  signal?: AbortSignal,
+  readOptions?: ReadOptionsInput,
+): Promise<UploadOutcome> {
   return new Promise((resolve, reject) => {
     const request = new XMLHttpRequest();
     request.open("POST", `/api/campaigns/${campaignId}/uploads`);
@@ -74,6 +83,7 @@ export function sendUpload(campaignId: number, file: File, mapping: ColumnMappin
     signal?.addEventListener("abort", () => request.abort());
     const form = new FormData();
     form.append("mapping", JSON.stringify(exactMapping(mapping)));
+    if (readOptions) form.append("readOptions", JSON.stringify(readOptions));
     form.append("file", file, file.name);
     request.send(form);
   });
@@ -121,7 +131,14 @@ export async function rawFileHead(uploadId: number, maxBytes: number): Promise<s
  * Sends a whole log to the server's check (nothing is stored) with XMLHttpRequest for the progress: the server
  * reads the rows as the bytes arrive, so the fraction sent is also the fraction checked.
  */
-export function checkWholeFile(campaignId: number, file: File, mapping: ColumnMappingInput, onProgress: (fraction: number) => void, signal?: AbortSignal): Promise<WholeFileCheck> {
+export function checkWholeFile(
+  campaignId: number,
+  file: File,
+  mapping: ColumnMappingInput,
+  onProgress: (fraction: number) => void,
+  signal?: AbortSignal,
+  readOptions?: ReadOptionsInput,
+): Promise<WholeFileCheck> {
   return new Promise((resolve, reject) => {
     const request = new XMLHttpRequest();
     request.open("POST", `/api/campaigns/${campaignId}/uploads/check`);
@@ -149,6 +166,7 @@ export function checkWholeFile(campaignId: number, file: File, mapping: ColumnMa
     const form = new FormData();
     // The mapping goes first: the server reads the file as it arrives, with the mapping it already has.
     form.append("mapping", JSON.stringify(exactMapping(mapping)));
+    if (readOptions) form.append("readOptions", JSON.stringify(readOptions));
     form.append("file", file, file.name);
     request.send(form);
   });

@@ -24,6 +24,7 @@ const upload = (id: number, status: UploadListItem["status"], fileName: string):
   replacesUploadId: null,
   replacedByUploadId: null,
   monitorOverride: null,
+  readOptions: { timeFormat: "iso", utcOffsetMinutes: 0 },
 });
 let uploads: UploadListItem[] = [];
 const campaign = (): CampaignDetail => ({

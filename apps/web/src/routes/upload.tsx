@@ -4,8 +4,8 @@ import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { Link, useSearchParams } from "react-router-dom";
 import { z } from "zod";
-import { columnMappingSchema, type CampaignDetail, type ColumnMappingInput } from "@calmcrest/contracts";
-import type { ColumnMapping } from "@calmcrest/seeing-stats";
+import { columnMappingSchema, type CampaignDetail, type ColumnMappingInput, type ReadOptions } from "@calmcrest/contracts";
+import { parseUtcOffsetMinutes, TIME_FORMATS, type ColumnMapping, type TimeFormat } from "@calmcrest/seeing-stats";
 import { campaignQuery, saveMapping } from "../api/campaigns";
 import { ApiError } from "../api/client";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
@@ -43,10 +43,10 @@ function Step({ number, title, children, done }: { number: number; title: string
 }
 
 
-function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file: File; mapping: ColumnMappingInput }) {
+function PreviewTable({ campaignId, file, mapping, readOptions }: { campaignId: number; file: File; mapping: ColumnMappingInput; readOptions: ReadOptions }) {
   const preview = useQuery({
-    queryKey: uploadKeys.preview(campaignId, file, mapping),
-    queryFn: () => previewUpload(campaignId, file.slice(0, HEAD_BYTES), file.name, mapping),
+    queryKey: [...uploadKeys.preview(campaignId, file, mapping), readOptions],
+    queryFn: () => previewUpload(campaignId, file.slice(0, HEAD_BYTES), file.name, mapping, readOptions),
     placeholderData: keepPreviousData,
     staleTime: Number.POSITIVE_INFINITY,
   });
@@ -106,6 +106,15 @@ function PreviewTable({ campaignId, file, mapping }: { campaignId: number; file:
   );
 }
 
+/** The time formats in words, for the wizard's choice. */
+const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
+  iso: "ISO 8601 dates and times (2025-03-01 23:15:00)",
+  jd: "Julian dates (2460736.46875)",
+  mjd: "modified Julian dates (60735.96875)",
+  dmy: "day first (01/03/2025 23:15)",
+  mdy: "month first (03/01/2025 23:15)",
+};
+
 /** The sentence a screen reader hears once the batch is through. */
 function announce(sends: FileSend[], finishedCount: number): string {
   const stored = sends.filter((send) => send.state === "stored").length;
@@ -137,6 +146,9 @@ export function UploadPage() {
   const [headText, setHeadText] = useState("");
   const [checks, setChecks] = useState<CheckState[]>([]);
   const [confirmed, setConfirmed] = useState<boolean[]>([]);
+  /** How the file's times are written, and the zone of times written without one. */
+  const [timeFormat, setTimeFormat] = useState<TimeFormat>("iso");
+  const [utcOffsetText, setUtcOffsetText] = useState("");
   const resultsHeading = useRef<HTMLHeadingElement>(null);
   const [headError, setHeadError] = useState<string | null>(null);
   const [headerMismatch, setHeaderMismatch] = useState<string[]>([]);
@@ -191,11 +203,20 @@ export function UploadPage() {
 
   const pixelScaleArcsec = campaign.data?.monitor.pixelScaleArcsec ?? null;
   const problems = useMemo(() => (head ? mappingProblems(mapping, head.headers, pixelScaleArcsec) : []), [head, mapping, pixelScaleArcsec]);
-  const mappingReady = Boolean(campaign.data && head && problems.length === 0 && headerMismatch.length === 0 && files.length > 0);
+  const offset = useMemo(() => {
+    if (utcOffsetText.trim() === "") return { minutes: 0, problem: null };
+    try {
+      return { minutes: parseUtcOffsetMinutes(utcOffsetText), problem: null };
+    } catch (error) {
+      return { minutes: 0, problem: error instanceof Error ? `The time zone: ${error.message}.` : "The time zone cannot be read." };
+    }
+  }, [utcOffsetText]);
+  const readOptions: ReadOptions = useMemo(() => ({ timeFormat, utcOffsetMinutes: offset.minutes }), [timeFormat, offset.minutes]);
+  const mappingReady = Boolean(campaign.data && head && problems.length === 0 && headerMismatch.length === 0 && files.length > 0 && offset.problem === null);
 
   // The whole-file check: every file read on the server as the upload would read it, again whenever the mapping,
   // the campaign or the files change (after a short pause, so typing through a mapping does not send the file each time).
-  const checkKey = mappingReady && sends === null ? JSON.stringify([campaignId, mapping, files.map((file) => [file.name, file.size, file.lastModified])]) : null;
+  const checkKey = mappingReady && sends === null ? JSON.stringify([campaignId, mapping, readOptions, files.map((file) => [file.name, file.size, file.lastModified])]) : null;
   useEffect(() => {
     if (checkKey === null || campaignId === null) return;
     const controller = new AbortController();
@@ -216,6 +237,7 @@ export function UploadPage() {
               setChecks([...state]);
             },
             controller.signal,
+            readOptions,
           );
           state[index] = { state: "done", result };
         } catch (error) {
@@ -273,6 +295,7 @@ export function UploadPage() {
             setSends([...state]);
           },
           controller.signal,
+          readOptions,
         );
         state[index] =
           outcome.kind === "accepted"
@@ -458,6 +481,30 @@ export function UploadPage() {
                 </pre>
               </figure>
             </div>
+            <fieldset className="mt-4 flex flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">
+              <legend className="px-1 font-semibold">How the times are written</legend>
+              <label className="block">
+                <span className="block font-semibold">Time column holds</span>
+                <select value={timeFormat} onChange={(event) => setTimeFormat(event.target.value as TimeFormat)} className="mt-1 rounded-md border border-line bg-panel px-2 py-1">
+                  {TIME_FORMATS.map((format) => (
+                    <option key={format} value={format}>
+                      {TIME_FORMAT_WORDS[format]}
+                    </option>
+                  ))}
+                </select>
+              </label>
+              <label className="block">
+                <span className="block font-semibold">
+                  Time zone of times written without one <span className="font-normal text-ink-soft">(±HH:MM; empty: UTC)</span>
+                </span>
+                <input value={utcOffsetText} onChange={(event) => setUtcOffsetText(event.target.value)} placeholder="+00:00" className="mt-1 w-28 rounded-md border border-line bg-panel px-2 py-1" aria-invalid={offset.problem ? true : undefined} />
+              </label>
+              {offset.problem ? (
+                <p role="alert" className="w-full text-bad">
+                  {offset.problem}
+                </p>
+              ) : null}
+            </fieldset>
             <label className="mt-4 flex items-center gap-2 text-sm">
               <input type="checkbox" {...register("keepMapping")} />
               Save this mapping for the campaign, so the next trip's logs need one click
@@ -479,7 +526,7 @@ export function UploadPage() {
                 />
               ))}
             </ol>
-            <PreviewTable campaignId={selectedCampaign.id} file={files[0]} mapping={mapping} />
+            <PreviewTable campaignId={selectedCampaign.id} file={files[0]} mapping={mapping} readOptions={readOptions} />
           </Step>
         ) : null}
 

@@ -4,9 +4,9 @@ import { parseUtcTime } from './parseUtcTime.js';
  * How a log writes its times: ISO 8601 (the native form), Julian date, modified Julian date, or a day-first /
  * month-first civil date ('31/12/2025 23:15[:30]', '12/31/2025 23:15', with '/', '.' or '-' between the parts).
  */
-export type TimeFormat = 'iso' | 'jd' | 'mjd' | 'dmy' | 'mdy';
+export const TIME_FORMATS = ['iso', 'jd', 'mjd', 'dmy', 'mdy'] as const;
 
-export const TIME_FORMATS: readonly TimeFormat[] = ['iso', 'jd', 'mjd', 'dmy', 'mdy'];
+export type TimeFormat = (typeof TIME_FORMATS)[number];
 
 /** Julian date of the Unix epoch 1970-01-01T00:00Z (standard value, e.g. the Astronomical Almanac's JD tables). */
 const UNIX_EPOCH_JD = 2440587.5;

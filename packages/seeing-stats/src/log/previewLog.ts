@@ -1,3 +1,4 @@
+import type { TimeFormat } from './parseTimeAs.js';
 import { LogFormatError, SeeingInputError } from '../errors.js';
 import { checkMapping } from './checkMapping.js';
 import { createRowReader, type LogSample, type MonitorSettings, type PlausibilityWindow } from './createRowReader.js';
@@ -34,7 +35,16 @@ class PreviewFull extends Error {}
  */
 export function previewLog(
   text: string,
-  options: { mapping?: MappingOverrides; monitor: MonitorSettings; site?: SiteLocation; maxRows?: number; plausibility?: Partial<PlausibilityWindow> },
+  options: {
+    mapping?: MappingOverrides;
+    monitor: MonitorSettings;
+    site?: SiteLocation;
+    maxRows?: number;
+    plausibility?: Partial<PlausibilityWindow>;
+    /** How the time column is written (createRowReader); ISO 8601 by default. */
+    timeFormat?: TimeFormat;
+    utcOffsetMinutes?: number;
+  },
 ): LogPreview {
   const maxRows = options.maxRows ?? 20;
   let headers: string[] = [];
@@ -65,7 +75,16 @@ export function previewLog(
         return;
       }
       try {
-        reader = createRowReader({ headers, mapping: proposedMapping, monitor: options.monitor, site: options.site, delimiter, plausibility: options.plausibility });
+        reader = createRowReader({
+          headers,
+          mapping: proposedMapping,
+          monitor: options.monitor,
+          site: options.site,
+          delimiter,
+          plausibility: options.plausibility,
+          ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
+          ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
+        });
       } catch (error) {
         if (error instanceof LogFormatError) readerProblem = `${error.message} ${error.hint}`;
         else if (error instanceof SeeingInputError) readerProblem = error.message;

@@ -60,7 +60,7 @@ describe("summaryQuerySchema", () => {
   it("uses the engine's limits: a zenith limit of exactly 90 degrees passes, 0 does not", () => {
     expect(summaryQuerySchema.safeParse({ maxZenithDeg: "90" }).success).toBe(true);
     const zero = summaryQuerySchema.safeParse({ maxZenithDeg: "0" });
-    expect(zero.error?.issues[0]?.message).toMatch(/more than 0, at most 90/);
+    expect(zero.error?.issues[0]?.message).toMatch(/The zenith limit \(maxZenithDeg\) must be more than 0° and at most 90°/);
   });
 
   it("refuses a window whose end is before its start, naming to; a bare to date includes its whole day", () => {

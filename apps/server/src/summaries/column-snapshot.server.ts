@@ -1,5 +1,6 @@
 import { existsSync, mkdirSync, openSync, closeSync, readSync, fstatSync, renameSync, rmSync, writeSync } from "node:fs";
 import { join } from "node:path";
+import { threadId } from "node:worker_threads";
 import type { SortedSeeing } from "@calmcrest/seeing-stats";
 import type { CampaignColumns } from "./sample-cache.server";
 
@@ -63,7 +64,9 @@ function expectedBytes(fingerprint: SampleFingerprint): number {
 export function writeSnapshot(directory: string, fingerprint: SampleFingerprint, columns: CampaignColumns, sort: SortedSeeing): void {
   if (columns.count !== fingerprint.count || sort.sorted.length !== fingerprint.count) return;
   const path = snapshotPath(directory, fingerprint.campaignId);
-  const temporary = `${path}.${process.pid}.tmp`;
+  // Its own temporary name per process and thread: two workers of one server may write the same campaign at once,
+  // and each renames a complete file of its own (the later one wins; both hold the same samples).
+  const temporary = `${path}.${process.pid}-${threadId}.tmp`;
   try {
     mkdirSync(directory, { recursive: true });
     const descriptor = openSync(temporary, "w");

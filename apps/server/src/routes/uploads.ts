@@ -159,7 +159,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
         site: siteLocationOf(site),
         maxRows: 20,
         ...(mapping ? { mapping } : {}),
-        ...(readOptions ?? {}),
+        ...readOptions,
       });
       const answer: UploadPreview = {
         delimiter: preview.delimiter,

@@ -72,7 +72,7 @@ export async function checkWholeFile(source: NodeJS.ReadableStream, fileName: st
 
   const result = await streamLog(
     input,
-    { ...(options.mapping ? { mapping: options.mapping } : {}), ...(options.readOptions ?? {}), monitor: options.monitor, site: options.site, onProgress: (bytes) => (sizeBytes = bytes) },
+    { ...(options.mapping ? { mapping: options.mapping } : {}), ...options.readOptions, monitor: options.monitor, site: options.site, onProgress: (bytes) => (sizeBytes = bytes) },
     {
       onSample(sample, line, fields, delimiter) {
         stored ??= options.storedTimes();

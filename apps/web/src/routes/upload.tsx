@@ -481,11 +481,11 @@ export function UploadPage() {
                 </pre>
               </figure>
             </div>
-            <fieldset className="mt-4 flex flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">
+            <fieldset className="mt-4 flex min-w-0 flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">
               <legend className="px-1 font-semibold">How the times are written</legend>
-              <label className="block">
+              <label className="block min-w-0 max-w-full">
                 <span className="block font-semibold">Time column holds</span>
-                <select value={timeFormat} onChange={(event) => setTimeFormat(event.target.value as TimeFormat)} className="mt-1 rounded-md border border-line bg-panel px-2 py-1">
+                <select value={timeFormat} onChange={(event) => setTimeFormat(event.target.value as TimeFormat)} className="mt-1 w-full max-w-full rounded-md border border-line bg-panel px-2 py-1">
                   {TIME_FORMATS.map((format) => (
                     <option key={format} value={format}>
                       {TIME_FORMAT_WORDS[format]}

@@ -42,27 +42,29 @@ const isDuplicate = (value: unknown): value is UploadDuplicateBody =>
   typeof value === "object" && value !== null && "upload" in value && (value as UploadDuplicateBody).error?.code === "duplicate_upload";
 
 /**
- * Sends a whole log with XMLHttpRequest, because fetch cannot report upload progress. `onProgress` gets the
- * fraction 0..1 of bytes sent. A 409 for a file already in the campaign is an outcome, not an error.
+ * Posts a log file with its mapping (the mapping first, so a server reading as the bytes arrive has it) through
+ * XMLHttpRequest, because fetch cannot report upload progress. `onProgress` gets the fraction 0..1 of bytes sent;
+ * `activity` names the action in the messages ("upload", "check"). Resolves with the status and parsed JSON body.
  */
-export function sendUpload(
-  campaignId: number,
+function postLogFile(
+  url: string,
+  activity: string,
   file: File,
   mapping: ColumnMappingInput,
   onProgress: (fraction: number) => void,
   signal?: AbortSignal,
   readOptions?: ReadOptionsInput,
-): Promise<UploadOutcome> {
+): Promise<{ status: number; body: unknown }> {
   return new Promise((resolve, reject) => {
     const request = new XMLHttpRequest();
-    request.open("POST", `/api/campaigns/${campaignId}/uploads`);
+    request.open("POST", url);
     request.setRequestHeader("Accept", "application/json");
     request.withCredentials = true;
     request.upload.onprogress = (event) => {
       if (event.lengthComputable && event.total > 0) onProgress(event.loaded / event.total);
     };
-    request.onerror = () => reject(new ApiError(0, "network", "The connection broke during the upload. Check the network and upload the file again; nothing half-sent is kept."));
-    request.onabort = () => reject(new DOMException("The upload was cancelled.", "AbortError"));
+    request.onerror = () => reject(new ApiError(0, "network", `The connection broke during the ${activity}. Check the network and try again; nothing half-sent is kept.`));
+    request.onabort = () => reject(new DOMException(`The ${activity} was cancelled.`, "AbortError"));
     request.onload = () => {
       let body: unknown = undefined;
       try {
@@ -70,15 +72,7 @@ export function sendUpload(
       } catch {
         body = undefined;
       }
-      if (request.status === 202) {
-        onProgress(1);
-        resolve({ kind: "accepted", accepted: body as UploadAccepted });
-      } else if (request.status === 409 && isDuplicate(body)) {
-        resolve({ kind: "duplicate", duplicate: body });
-      } else {
-        const error = (body as ApiErrorBody | undefined)?.error;
-        reject(new ApiError(request.status, error?.code ?? "http_error", error?.message ?? `The server answered ${request.status}. Try again.`, error?.fields, body));
-      }
+      resolve({ status: request.status, body });
     };
     signal?.addEventListener("abort", () => request.abort());
     const form = new FormData();
@@ -87,6 +81,30 @@ export function sendUpload(
     form.append("file", file, file.name);
     request.send(form);
   });
+}
+
+/** The ApiError for an answer that is not the expected outcome. */
+function answerError(status: number, body: unknown): ApiError {
+  const error = (body as ApiErrorBody | undefined)?.error;
+  return new ApiError(status, error?.code ?? "http_error", error?.message ?? `The server answered ${status}. Try again.`, error?.fields, body);
+}
+
+/** Sends a whole log for storing, with progress. A 409 for a file already in the campaign is an outcome, not an error. */
+export async function sendUpload(
+  campaignId: number,
+  file: File,
+  mapping: ColumnMappingInput,
+  onProgress: (fraction: number) => void,
+  signal?: AbortSignal,
+  readOptions?: ReadOptionsInput,
+): Promise<UploadOutcome> {
+  const { status, body } = await postLogFile(`/api/campaigns/${campaignId}/uploads`, "upload", file, mapping, onProgress, signal, readOptions);
+  if (status === 202) {
+    onProgress(1);
+    return { kind: "accepted", accepted: body as UploadAccepted };
+  }
+  if (status === 409 && isDuplicate(body)) return { kind: "duplicate", duplicate: body };
+  throw answerError(status, body);
 }
 
 /** Takes an upload's samples out of every statistic (lead, or the engineer who sent it); the raw file stays. */
@@ -128,10 +146,10 @@ export async function rawFileHead(uploadId: number, maxBytes: number): Promise<s
 }
 
 /**
- * Sends a whole log to the server's check (nothing is stored) with XMLHttpRequest for the progress: the server
- * reads the rows as the bytes arrive, so the fraction sent is also the fraction checked.
+ * Sends a whole log to the server's check (nothing is stored), with progress: the server reads the rows as the
+ * bytes arrive, so the fraction sent is also the fraction checked.
  */
-export function checkWholeFile(
+export async function checkWholeFile(
   campaignId: number,
   file: File,
   mapping: ColumnMappingInput,
@@ -139,35 +157,7 @@ export function checkWholeFile(
   signal?: AbortSignal,
   readOptions?: ReadOptionsInput,
 ): Promise<WholeFileCheck> {
-  return new Promise((resolve, reject) => {
-    const request = new XMLHttpRequest();
-    request.open("POST", `/api/campaigns/${campaignId}/uploads/check`);
-    request.setRequestHeader("Accept", "application/json");
-    request.withCredentials = true;
-    request.upload.onprogress = (event) => {
-      if (event.lengthComputable && event.total > 0) onProgress(event.loaded / event.total);
-    };
-    request.onerror = () => reject(new ApiError(0, "network", "The connection broke during the check. Check the network and try again."));
-    request.onabort = () => reject(new DOMException("The check was cancelled.", "AbortError"));
-    request.onload = () => {
-      let body: unknown = undefined;
-      try {
-        body = request.responseText ? JSON.parse(request.responseText) : undefined;
-      } catch {
-        body = undefined;
-      }
-      if (request.status === 200) resolve(body as WholeFileCheck);
-      else {
-        const error = (body as ApiErrorBody | undefined)?.error;
-        reject(new ApiError(request.status, error?.code ?? "http_error", error?.message ?? `The server answered ${request.status}. Try again.`, error?.fields, body));
-      }
-    };
-    signal?.addEventListener("abort", () => request.abort());
-    const form = new FormData();
-    // The mapping goes first: the server reads the file as it arrives, with the mapping it already has.
-    form.append("mapping", JSON.stringify(exactMapping(mapping)));
-    if (readOptions) form.append("readOptions", JSON.stringify(readOptions));
-    form.append("file", file, file.name);
-    request.send(form);
-  });
+  const { status, body } = await postLogFile(`/api/campaigns/${campaignId}/uploads/check`, "check", file, mapping, onProgress, signal, readOptions);
+  if (status === 200) return body as WholeFileCheck;
+  throw answerError(status, body);
 }

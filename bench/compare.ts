@@ -11,7 +11,7 @@ import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
 import { median } from "./childProcess.ts";
-import { freePort, peakRssMb, waitForHealth } from "./ingest.ts";
+import { freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -69,24 +69,9 @@ async function stopServer(server: ChildProcess): Promise<void> {
   await exited;
 }
 
-async function signIn(base: string): Promise<Record<string, string>> {
-  const response = await fetch(`${base}/api/auth/sign-in`, {
-    method: "POST",
-    headers: { Origin: base, "Content-Type": "application/json" },
-    body: JSON.stringify({ email: "lead@calmcrest.test", password: PASSWORD }),
-  });
-  if (!response.ok) throw new Error(`sign-in failed: ${response.status}`);
-  return { Origin: base, Cookie: (response.headers.get("set-cookie") ?? "").split(";")[0] ?? "" };
-}
-
 /** Creates the four ridges with a campaign each and uploads their logs; returns the site ids and samples stored. */
 async function loadRidges(base: string, rows: number): Promise<{ siteIds: number[]; stored: number }> {
-  const headers = await signIn(base);
-  const json = async (path: string, body: unknown) => {
-    const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
-    if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
-    return (await response.json()) as { id: number };
-  };
+  const { headers, postJson: json } = await signInAsLead(base, PASSWORD);
   const siteIds: number[] = [];
   let stored = 0;
   for (const ridge of RIDGES) {
@@ -129,7 +114,7 @@ async function coldAfterRestart(dataDir: string, siteIds: number[], previous: Ch
   const server = startServer(dataDir, port);
   try {
     await waitForHealth(base, server, 60_000);
-    const headers = await signIn(base);
+    const { headers } = await signInAsLead(base, PASSWORD);
     const cpuBefore = processCpuMs(server.pid ?? 0);
     const begin = performance.now();
     const response = await fetch(`${base}/api/comparisons?sites=${siteIds.join(",")}`, { headers });
@@ -172,7 +157,7 @@ export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMP
     const server = startServer(dataDir, port);
     try {
       await waitForHealth(base, server, 60_000);
-      const headers = await signIn(base);
+      const { headers } = await signInAsLead(base, PASSWORD);
       let commonNights = 0;
       let verdicts = "";
       const compareMs = async (extra = "") => {

@@ -72,6 +72,23 @@ export async function waitForHealth(base: string, server: ChildProcess, timeoutM
   throw new Error("the server did not start in time");
 }
 
+/** Signs in as the demo survey lead; gives the request headers (Origin, session cookie) and a JSON POST that expects 2xx. */
+export async function signInAsLead(base: string, password: string): Promise<{ headers: Record<string, string>; postJson: (path: string, body: unknown) => Promise<{ id: number }> }> {
+  const signIn = await fetch(`${base}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { Origin: base, "Content-Type": "application/json" },
+    body: JSON.stringify({ email: "lead@calmcrest.test", password }),
+  });
+  if (!signIn.ok) throw new Error(`sign-in failed: ${signIn.status}`);
+  const headers = { Origin: base, Cookie: (signIn.headers.get("set-cookie") ?? "").split(";")[0] ?? "" };
+  const postJson = async (path: string, body: unknown) => {
+    const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
+    if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
+    return (await response.json()) as { id: number };
+  };
+  return { headers, postJson };
+}
+
 export async function run({ rows }: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
   const logPath = await benchLog(rows);
   const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-data-"));
@@ -85,20 +102,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
   });
   try {
     await waitForHealth(base, server, 30_000);
-    const origin = { Origin: base };
-    const signIn = await fetch(`${base}/api/auth/sign-in`, {
-      method: "POST",
-      headers: { ...origin, "Content-Type": "application/json" },
-      body: JSON.stringify({ email: "lead@calmcrest.test", password: PASSWORD }),
-    });
-    if (!signIn.ok) throw new Error(`sign-in failed: ${signIn.status}`);
-    const cookie = (signIn.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
-    const headers = { ...origin, Cookie: cookie };
-    const json = async (path: string, body: unknown) => {
-      const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
-      if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
-      return (await response.json()) as { id: number };
-    };
+    const { headers, postJson: json } = await signInAsLead(base, PASSWORD);
     const site = await json("/api/sites", { name: "Bench Ridge", latitude: SITE.latitudeDeg, longitude: SITE.longitudeDeg, elevationM: SITE.elevationM });
     const campaign = await json(`/api/sites/${site.id}/campaigns`, { name: "Bench campaign", monitor: MONITOR });
 

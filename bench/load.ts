@@ -12,7 +12,7 @@ import { existsSync, mkdtempSync, openAsBlob, readFileSync, rmSync, writeFileSyn
 import { cpus, tmpdir, totalmem } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
-import { benchLog, freePort, peakRssMb, waitForHealth } from "./ingest.ts";
+import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -107,20 +107,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
   const pid = server.pid ?? 0;
   try {
     await waitForHealth(base, server, 60_000);
-    const origin = { Origin: base };
-    const signIn = await fetch(`${base}/api/auth/sign-in`, {
-      method: "POST",
-      headers: { ...origin, "Content-Type": "application/json" },
-      body: JSON.stringify({ email: "lead@calmcrest.test", password: PASSWORD }),
-    });
-    if (!signIn.ok) throw new Error(`sign-in failed: ${signIn.status}`);
-    const cookie = (signIn.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
-    const headers = { ...origin, Cookie: cookie };
-    const post = async (path: string, body: unknown) => {
-      const response = await fetch(`${base}${path}`, { method: "POST", headers: { ...headers, "Content-Type": "application/json" }, body: JSON.stringify(body) });
-      if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
-      return (await response.json()) as { id: number };
-    };
+    const { headers, postJson: post } = await signInAsLead(base, PASSWORD);
     const upload = async (campaignId: number): Promise<number> => {
       const form = new FormData();
       form.append("file", await openAsBlob(logPath), "load.csv");
@@ -150,7 +137,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     console.log(`load: ${stored.samples.accepted} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB)`);
 
     console.log(`load: ${flags.connections} connections on the repeated summary and ${HEALTH_CONNECTIONS} on /api/health for ${flags.durationS} s…`);
-    const [summary, health] = await hammerBoth(summaryUrl, `${base}/api/health`, cookie, flags.connections, flags.durationS);
+    const [summary, health] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", flags.connections, flags.durationS);
     console.log(describe("repeated summary", summary));
     console.log(describe("/api/health", health));
     const rssAfterSummaryMb = rssMb(pid);
@@ -174,7 +161,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     await new Promise((resolveWait) => setTimeout(resolveWait, 300));
     console.log(`load: the same during ${flags.rows}-row ingests…`);
     const loadStartMs = performance.now();
-    const [summaryDuringIngest, healthDuringIngest] = await hammerBoth(summaryUrl, `${base}/api/health`, cookie, flags.connections, flags.durationS);
+    const [summaryDuringIngest, healthDuringIngest] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", flags.connections, flags.durationS);
     const loadMs = performance.now() - loadStartMs;
     ingesting = false;
     await ingestLoop;

@@ -114,6 +114,8 @@ describe("invitations in a browser", () => {
     await page.context().clearCookies();
     await page.goto(`${server.url}/sign-in`);
     await page.getByRole("link", { name: "Forgotten your password?" }).click();
+    // The sign-in form has an "E-mail" field too: wait for the new page before typing, or the address lands on the old one.
+    await page.getByRole("heading", { name: "Forgotten password" }).waitFor();
     await page.getByLabel("E-mail").fill("nadia.ferreira@calmcrest.test");
     await page.getByRole("button", { name: "Send me a link" }).click();
     await expect.poll(() => page.getByRole("status").textContent()).toMatch(/If nadia.ferreira@calmcrest.test belongs to an active Calmcrest account, a link/);

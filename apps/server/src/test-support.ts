@@ -81,6 +81,41 @@ export async function countRows(context: AppContext, table: string, where: Recor
   return Number(row?.n ?? 0);
 }
 
+/** Sets `values` on the rows of a table matching `where` (to age a row past a limit, say); resolves to the number changed. */
+export async function updateRows(context: AppContext, table: string, where: Record<string, unknown>, values: Record<string, unknown>): Promise<number> {
+  return context.db.knex(table).where(where).update(values);
+}
+
+/** Deletes the rows of a table matching `where`; resolves to the number deleted. */
+export async function deleteRows(context: AppContext, table: string, where: Record<string, unknown> = {}): Promise<number> {
+  return context.db.knex(table).where(where).delete();
+}
+
+/** The sha256 of every finished upload of the sites' campaigns (what a frozen report version must list). */
+export async function finishedUploadHashes(context: AppContext, siteIds: readonly number[]): Promise<string[]> {
+  const rows = await context.db
+    .knex("upload")
+    .join("campaign", "campaign.id", "upload.campaign_id")
+    .whereIn("campaign.site_id", siteIds)
+    .where("upload.status", "done")
+    .select<{ sha256: string }[]>("upload.sha256");
+  return rows.map((row) => row.sha256);
+}
+
+/**
+ * Makes every insert into a table fail with `message` (a full disk, a broken table) until the returned function is
+ * awaited: for tests that a change and the rows it writes elsewhere commit or roll back together.
+ */
+export async function refuseInsertsInto(context: AppContext, table: string, message: string): Promise<() => Promise<void>> {
+  if (!/^[a-z_]+$/.test(table)) throw new Error(`refuseInsertsInto: "${table}" is not a plain table name.`);
+  const trigger = `${table}_refuses_inserts_in_test`;
+  const quoted = `'${message.replaceAll("'", "''")}'`;
+  await context.db.knex.raw(`CREATE TRIGGER ${trigger} BEFORE INSERT ON ${table} BEGIN SELECT RAISE(ABORT, ${quoted}); END`);
+  return async () => {
+    await context.db.knex.raw(`DROP TRIGGER ${trigger}`);
+  };
+}
+
 /**
  * An active account with a password, made through the store as `npm run create-admin` does (people join by
  * invitation in the app; tests that need a ready account use this). Returns its id.
@@ -116,6 +151,18 @@ export async function ingestHoldsWriteLock(context: AppContext): Promise<void> {
       }
       await new Promise((resolve) => setTimeout(resolve, 10));
     }
+  } finally {
+    probe.close();
+  }
+}
+
+/** Takes SQLite's write lock on a connection that does not wait, and gives it back; throws SQLITE_BUSY if anyone holds it. */
+export function takeWriteLockWithoutWaiting(context: AppContext): void {
+  const probe = new Database(context.db.file);
+  probe.pragma("busy_timeout = 0");
+  try {
+    probe.exec("BEGIN IMMEDIATE");
+    probe.exec("ROLLBACK");
   } finally {
     probe.close();
   }

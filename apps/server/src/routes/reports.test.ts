@@ -6,7 +6,7 @@ import type { OutboxList, OutboxMessage, ReportComments, ReportDetail, ReportLis
 import { expectConsoleError } from "../../../../tests/support/fail-on-console-error";
 import { seedDemoScenario } from "../seed/demo-scenario";
 import { monitorOf } from "../store/index";
-import { countRows, createAccount, createTestServer, SAME_ORIGIN, signedInAgent, userIdOf } from "../test-support";
+import { countRows, createAccount, createTestServer, finishedUploadHashes, refuseInsertsInto, SAME_ORIGIN, signedInAgent, updateRows, userIdOf } from "../test-support";
 import { postUpload, waitForUpload } from "./test-helpers";
 
 // The report loop end to end through the API, on the demo ridges at a tenth of their length.
@@ -84,9 +84,9 @@ describe("a report from a comparison", async () => {
     expect(v1.sections.map((section) => section.title)).toEqual(["Results", "How we measured", "Caveats", "Recommendation"]);
     expect(v1.comparison.rows.map((row) => row.label).sort()).toEqual(["Quartz Shoulder", "Tern Ridge"]);
     // Every finished upload of the two ridges' campaigns, each by sha256.
-    const stored = await context.db.knex("upload").join("campaign", "campaign.id", "upload.campaign_id").whereIn("campaign.site_id", [idOf("Tern Ridge"), idOf("Quartz Shoulder")]).where("upload.status", "done").select<{ sha256: string }[]>("upload.sha256");
+    const stored = await finishedUploadHashes(context, [idOf("Tern Ridge"), idOf("Quartz Shoulder")]);
     expect(stored.length).toBeGreaterThanOrEqual(4);
-    expect(v1.uploads.map((upload) => upload.sha256).sort()).toEqual(stored.map((row) => row.sha256).sort());
+    expect(v1.uploads.map((upload) => upload.sha256).sort()).toEqual(stored.sort());
     for (const upload of v1.uploads) expect(upload.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(v1.comparison.coefficientSets.length).toBeGreaterThan(0);
     expect(v1.comparison.rows[0]?.statistics?.cdf.length).toBeLessThanOrEqual(101);
@@ -143,7 +143,7 @@ describe("a report from a comparison", async () => {
     await committee.patch(`/api/comments/${threadId}`).set(SAME_ORIGIN).send({ action: "edit", body: "Is the Quartz margin robust to season and height?" }).expect(200);
     expect((await lead.patch(`/api/comments/${threadId}`).set(SAME_ORIGIN).send({ action: "edit", body: "hijack" })).status).toBe(403);
     // 16 minutes later:
-    await context.db.knex("report_comment").where({ id: threadId }).update({ created_at: new Date(Date.now() - 16 * 60_000).toISOString() });
+    await updateRows(context, "report_comment", { id: threadId }, { created_at: new Date(Date.now() - 16 * 60_000).toISOString() });
     const late = await committee.patch(`/api/comments/${threadId}`).set(SAME_ORIGIN).send({ action: "edit", body: "too late" });
     expect(late.status).toBe(409);
     expect(late.body.error.message).toMatch(/15 minutes/);
@@ -246,10 +246,10 @@ describe("sharing", async () => {
 describe("a publication and its e-mails commit together", async () => {
   it("leaves neither a version nor a message when writing the message fails", async () => {
     const report = await newReport("Doomed publication");
-    await context.db.knex.raw("CREATE TRIGGER outbox_refuses BEFORE INSERT ON outbox BEGIN SELECT RAISE(ABORT, 'outbox is full'); END");
+    const acceptInsertsAgain = await refuseInsertsInto(context, "outbox", "outbox is full");
     expectConsoleError();
     const response = await lead.post(`/api/reports/${report.id}/versions`).set(SAME_ORIGIN).send({});
-    await context.db.knex.raw("DROP TRIGGER outbox_refuses");
+    await acceptInsertsAgain();
     expect(response.status).toBe(500);
     expect(await countRows(context, "report_version", { report_id: report.id })).toBe(0);
     expect((await lead.get(`/api/reports/${report.id}`)).body.status).toBe("draft");

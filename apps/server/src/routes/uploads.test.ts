@@ -1,10 +1,9 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
 import { analyzeLog } from "@calmcrest/seeing-stats/node";
 import type { SummaryResponse, UploadDuplicateBody, UploadPreview } from "@calmcrest/contracts";
-import { countRows, createTestServer, ingestHoldsWriteLock, SAME_ORIGIN, signedInAgent, simulateDeadIngest, tableRows, userIdOf } from "../test-support";
+import { countRows, createTestServer, ingestHoldsWriteLock, SAME_ORIGIN, signedInAgent, simulateDeadIngest, tableRows, takeWriteLockWithoutWaiting, userIdOf } from "../test-support";
 import { createSiteAndCampaign, DATA_SAMPLES, postUpload, SAMPLES_SITE, waitForUpload } from "./test-helpers";
 
 const { app, context } = await createTestServer();
@@ -207,11 +206,7 @@ describe("writes while an ingest runs", () => {
     while (((await lead.get(`/api/uploads/${first}`)).body as { status: string }).status !== "ingesting") await new Promise((resolve) => setTimeout(resolve, 10));
     await new Promise((resolve) => setTimeout(resolve, 100));
     // A writer that does not wait gets the write lock: the reading ingest does not hold it.
-    const probe = new Database(context.db.file);
-    probe.pragma("busy_timeout = 0");
-    probe.exec("BEGIN IMMEDIATE");
-    probe.exec("ROLLBACK");
-    probe.close();
+    takeWriteLockWithoutWaiting(context);
     const startedMs = Date.now();
     const second = await postUpload(lead, campaign.id, join(DATA_SAMPLES, "r0-cm.csv"));
     expect(second.status).toBe(202);

@@ -1,8 +1,9 @@
 import { useMutation, useQueryClient, type QueryClient } from "@tanstack/react-query";
-import type { CreateCampaignInput, CreateExclusionInput, CreateSiteInput, PatchCampaignInput, PatchSiteInput } from "@calmcrest/contracts";
-import { addExclusion, removeExclusion, updateCampaign } from "./campaigns";
+import type { ColumnMappingInput, CreateCampaignInput, CreateExclusionInput, CreateSiteInput, PatchCampaignInput, PatchSiteInput, ReadOptionsInput, SavedMapping } from "@calmcrest/contracts";
+import { addExclusion, removeExclusion, saveMapping, updateCampaign } from "./campaigns";
 import { campaignKeys, siteKeys } from "./query-keys";
 import { createCampaign, createSite, updateSite } from "./sites";
+import { sendUpload } from "./uploads";
 
 // The field screens' changes as mutations. Each one's onSuccess returns the invalidation's promise, so
 // `mutateAsync` resolves only once the queries showing the change have been refetched: a form that says "Saved"
@@ -64,5 +65,36 @@ export function useRemoveExclusion(campaignId: number) {
   return useMutation({
     mutationFn: (exclusionId: number) => removeExclusion(campaignId, exclusionId),
     onSuccess: () => campaignChanged(queryClient, campaignId),
+  });
+}
+
+/** The mapping kept for a campaign's next upload: only the campaign's page shows it. */
+export function useSaveMapping() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ campaignId, input }: { campaignId: number; input: SavedMapping }) => saveMapping(campaignId, input),
+    onSuccess: (_saved, { campaignId }) => queryClient.invalidateQueries({ queryKey: campaignKeys.detail(campaignId) }),
+  });
+}
+
+export interface SendUploadInput {
+  campaignId: number;
+  file: File;
+  mapping: ColumnMappingInput;
+  onProgress: (fraction: number) => void;
+  signal?: AbortSignal;
+  readOptions?: ReadOptionsInput;
+}
+
+/**
+ * Sends one log file for storing. The server answers once the file is stored and queued, before its samples are
+ * read, so the figures change later (the upload's progress view invalidates them when the reading ends); only the
+ * campaign's upload list changes now.
+ */
+export function useSendUpload() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ campaignId, file, mapping, onProgress, signal, readOptions }: SendUploadInput) => sendUpload(campaignId, file, mapping, onProgress, signal, readOptions),
+    onSuccess: (_outcome, { campaignId }) => queryClient.invalidateQueries({ queryKey: campaignKeys.detail(campaignId) }),
   });
 }

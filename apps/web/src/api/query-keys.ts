@@ -27,8 +27,9 @@ export const campaignKeys = {
 export const uploadKeys = {
   all: ["uploads"] as const,
   detail: (uploadId: number) => [...uploadKeys.all, "detail", uploadId] as const,
-  preview: (campaignId: number, file: { name: string; size: number; lastModified: number }, mapping: object) =>
-    [...uploadKeys.all, "preview", campaignId, file.name, file.size, file.lastModified, mapping] as const,
+  /** The server's reading of a file's first rows with a mapping and read options (time format, delimiter, header line…). */
+  preview: (campaignId: number, file: { name: string; size: number; lastModified: number }, mapping: object, readOptions: object) =>
+    [...uploadKeys.all, "preview", campaignId, file.name, file.size, file.lastModified, mapping, readOptions] as const,
 };
 
 export const userKeys = {

@@ -1,24 +1,22 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from "react";
-import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useEffect, useMemo, useRef, useState, type DragEvent } from "react";
+import { useQuery } from "@tanstack/react-query";
 import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { Link, useSearchParams } from "react-router-dom";
 import { z } from "zod";
-import { columnMappingSchema, type CampaignDetail, type ColumnMappingInput, type ReadOptions } from "@calmcrest/contracts";
+import { columnMappingSchema, type CampaignDetail, type ReadOptions } from "@calmcrest/contracts";
 import { parseUtcOffsetMinutes, TIME_FORMATS, type ColumnMapping, type TimeFormat } from "@calmcrest/seeing-stats";
-import { campaignQuery, saveMapping } from "../api/campaigns";
-import { ApiError } from "../api/client";
+import { campaignQuery } from "../api/campaigns";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
-import { checkWholeFile, previewUpload, sendUpload } from "../api/uploads";
 import { Notice, Page } from "../components/page";
 import { FileProgress, type FileSend } from "../components/upload/file-progress";
-import { MappingEditor, mappingProblems } from "../components/upload/mapping-editor";
-import { confirmationNeeded, WholeFileCheckView, type CheckState } from "../components/upload/whole-file-check";
+import { MappingEditor } from "../components/upload/mapping-editor";
+import { PreviewTable } from "../components/upload/preview-table";
+import { WholeFileCheckView } from "../components/upload/whole-file-check";
 import { leadingComments, monitorDisagreements, statedMonitor } from "../lib/comment-monitor";
-import { HEAD_BYTES, mappingFitsHeaders, readLogHead, unitsOfMapping, type LogHead } from "../lib/log-head";
-import { formatArcsec, formatBytes, formatNumber } from "../lib/format";
-import { readText } from "../lib/read-text";
-import { campaignKeys, uploadKeys } from "../api/query-keys";
+import { mappingFitsHeaders } from "../lib/log-head";
+import { formatBytes, formatNumber } from "../lib/format";
+import { useUploadBatch } from "../upload/useUploadBatch";
 
 /** The wizard's form: the campaign, the mapping (the shared schema the server also checks) and whether to keep it. */
 const wizardSchema = z.object({
@@ -43,69 +41,6 @@ function Step({ number, title, children, done }: { number: number; title: string
 }
 
 
-function PreviewTable({ campaignId, file, mapping, readOptions }: { campaignId: number; file: File; mapping: ColumnMappingInput; readOptions: ReadOptions }) {
-  const preview = useQuery({
-    queryKey: [...uploadKeys.preview(campaignId, file, mapping), readOptions],
-    queryFn: () => previewUpload(campaignId, file.slice(0, HEAD_BYTES), file.name, mapping, readOptions),
-    placeholderData: keepPreviousData,
-    staleTime: Number.POSITIVE_INFINITY,
-  });
-  if (preview.isPending) return <p role="status" className="text-sm text-ink-soft">The server is reading the first rows…</p>;
-  if (preview.isError)
-    return (
-      <Notice tone="bad" title="The server could not read the first rows.">
-        {preview.error instanceof ApiError ? preview.error.message : "Try again."}
-      </Notice>
-    );
-  const rows = preview.data.rows;
-  const bad = rows.filter((row) => row.problem).length;
-  return (
-    <div className="space-y-2">
-      {preview.data.mappingProblems.length > 0 ? (
-        <Notice tone="bad" title="The server sees problems with this mapping.">
-          <ul>
-            {preview.data.mappingProblems.map((problem) => (
-              <li key={problem}>{problem}</li>
-            ))}
-          </ul>
-        </Notice>
-      ) : null}
-      <p className="text-sm" data-testid="preview-summary">
-        The server read the first {rows.length} rows: {rows.length - bad} usable, {bad} with a problem. Nothing has been stored yet.
-      </p>
-      <div className="overflow-x-auto rounded-lg border border-line">
-        <table className="w-full border-collapse text-sm">
-          <caption className="sr-only">First rows as the server reads them</caption>
-          <thead className="bg-paper">
-            <tr>
-              <th scope="col" className="num px-3 py-2">Line</th>
-              <th scope="col" className="px-3 py-2 text-left">Time (UTC)</th>
-              <th scope="col" className="num px-3 py-2">Seeing<span className="block text-xs font-normal text-ink-soft">arcsec, zenith, 500 nm</span></th>
-              <th scope="col" className="num px-3 py-2">r0<span className="block text-xs font-normal text-ink-soft">cm</span></th>
-              <th scope="col" className="num px-3 py-2">Zenith angle<span className="block text-xs font-normal text-ink-soft">deg</span></th>
-              <th scope="col" className="num px-3 py-2">Sun altitude<span className="block text-xs font-normal text-ink-soft">deg</span></th>
-              <th scope="col" className="px-3 py-2 text-left">Problem</th>
-            </tr>
-          </thead>
-          <tbody>
-            {rows.map((row) => (
-              <tr key={row.line} className={`border-t border-line ${row.problem ? "bg-bad-pale" : ""}`}>
-                <td className="num px-3 py-1.5">{row.line}</td>
-                <td className="whitespace-nowrap px-3 py-1.5 tabular-nums">{row.sample ? new Date(row.sample.timeMs).toISOString().slice(0, 19).replace("T", " ") : (row.values[mapping.time_utc ?? ""] ?? "–")}</td>
-                <td className="num px-3 py-1.5">{row.sample ? formatArcsec(row.sample.seeingArcsec) : "–"}</td>
-                <td className="num px-3 py-1.5">{row.sample ? formatNumber(row.sample.r0Cm, 1) : "–"}</td>
-                <td className="num px-3 py-1.5">{row.sample ? formatNumber(row.sample.zenithDeg, 1) : "–"}</td>
-                <td className="num px-3 py-1.5">{row.sample ? formatNumber(row.sample.sunAltDeg, 1) : "–"}</td>
-                <td className="px-3 py-1.5 text-bad">{row.problem ?? ""}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
-    </div>
-  );
-}
-
 /** The time formats in words, for the wizard's choice. */
 const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
   iso: "ISO 8601 dates and times (2025-03-01 23:15:00)",
@@ -129,7 +64,6 @@ function announce(sends: FileSend[], finishedCount: number): string {
 
 export function UploadPage() {
   const [searchParams, setSearchParams] = useSearchParams();
-  const queryClient = useQueryClient();
   const { campaigns, pending, sites } = useVisibleCampaigns();
   const { control, register, setValue, handleSubmit, formState } = useForm<WizardValues>({
     resolver: zodResolver(wizardSchema),
@@ -140,56 +74,28 @@ export function UploadPage() {
   const campaignId = /^\d+$/.test(campaignIdText) ? Number(campaignIdText) : null;
   const campaign = useQuery({ ...campaignQuery(campaignId ?? 0), enabled: campaignId !== null });
 
-  const [files, setFiles] = useState<File[]>([]);
-  const [head, setHead] = useState<LogHead | null>(null);
-  /** The opening text of the first file, shown raw beside the mapping (comments included). */
-  const [headText, setHeadText] = useState("");
-  const [checks, setChecks] = useState<CheckState[]>([]);
-  const [confirmed, setConfirmed] = useState<boolean[]>([]);
+  const selectedCampaign: CampaignDetail | undefined = campaign.data;
   /** How the file's times are written, and the zone of times written without one. */
   const [timeFormat, setTimeFormat] = useState<TimeFormat>("iso");
   const [utcOffsetText, setUtcOffsetText] = useState("");
+  const offset = useMemo(() => {
+    if (utcOffsetText.trim() === "") return { minutes: 0, problem: null };
+    try {
+      return { minutes: parseUtcOffsetMinutes(utcOffsetText), problem: null };
+    } catch (error) {
+      return { minutes: 0, problem: error instanceof Error ? `The time zone: ${error.message}.` : "The time zone cannot be read." };
+    }
+  }, [utcOffsetText]);
+  const readOptions: ReadOptions = useMemo(() => ({ timeFormat, utcOffsetMinutes: offset.minutes }), [timeFormat, offset.minutes]);
+  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: offset.problem });
+  const { files, head, headText, sends, running } = batch;
   const resultsHeading = useRef<HTMLHeadingElement>(null);
-  const [headError, setHeadError] = useState<string | null>(null);
-  const [headerMismatch, setHeaderMismatch] = useState<string[]>([]);
   const [mappingSource, setMappingSource] = useState<"saved" | "proposed" | null>(null);
-  const [sends, setSends] = useState<FileSend[] | null>(null);
-  const [failure, setFailure] = useState<string | null>(null);
-  const [finishedCount, setFinishedCount] = useState(0);
   const fileInput = useRef<HTMLInputElement>(null);
-  // The batch being sent, so Cancel can stop the transfer in progress.
-  const transfer = useRef<AbortController | null>(null);
   const [dragging, setDragging] = useState(false);
 
-  const chooseFiles = async (chosen: File[]) => {
-    setSends(null);
-    setFinishedCount(0);
-    setFailure(null);
-    setFiles(chosen);
-    setChecks(chosen.map(() => ({ state: "waiting" })));
-    setConfirmed(chosen.map(() => false));
-    setHead(null);
-    setHeadText("");
-    setHeadError(null);
-    setHeaderMismatch([]);
-    const first = chosen[0];
-    if (!first) return;
-    try {
-      const texts = await Promise.all(chosen.map((file) => readText(file.slice(0, HEAD_BYTES))));
-      const heads = texts.map((text) => readLogHead(text));
-      setHeadText(texts[0] ?? "");
-      const firstHead = heads[0];
-      if (!firstHead) return;
-      // One mapping is used for every file of a batch, so all files must share the first file's columns.
-      setHeaderMismatch(chosen.filter((_, index) => (heads[index]?.headers.join("\u0000") ?? "") !== firstHead.headers.join("\u0000")).map((file) => file.name));
-      setHead(firstHead);
-    } catch (error) {
-      setHeadError(`${first.name}: ${error instanceof Error ? error.message : "the file could not be read."}`);
-    }
-  };
-
   // When the file or campaign changes, start from the campaign's saved mapping if it fits the file, else the proposal.
-  const savedMapping = campaign.data?.savedMapping?.mapping as ColumnMapping | undefined;
+  const savedMapping = selectedCampaign?.savedMapping?.mapping as ColumnMapping | undefined;
   useEffect(() => {
     if (!head) return;
     if (savedMapping && mappingFitsHeaders(savedMapping, head.headers)) {
@@ -201,140 +107,19 @@ export function UploadPage() {
     }
   }, [head, savedMapping, setValue]);
 
-  const pixelScaleArcsec = campaign.data?.monitor.pixelScaleArcsec ?? null;
-  const problems = useMemo(() => (head ? mappingProblems(mapping, head.headers, pixelScaleArcsec) : []), [head, mapping, pixelScaleArcsec]);
-  const offset = useMemo(() => {
-    if (utcOffsetText.trim() === "") return { minutes: 0, problem: null };
-    try {
-      return { minutes: parseUtcOffsetMinutes(utcOffsetText), problem: null };
-    } catch (error) {
-      return { minutes: 0, problem: error instanceof Error ? `The time zone: ${error.message}.` : "The time zone cannot be read." };
-    }
-  }, [utcOffsetText]);
-  const readOptions: ReadOptions = useMemo(() => ({ timeFormat, utcOffsetMinutes: offset.minutes }), [timeFormat, offset.minutes]);
-  const mappingReady = Boolean(campaign.data && head && problems.length === 0 && headerMismatch.length === 0 && files.length > 0 && offset.problem === null);
-
-  // The whole-file check: every file read on the server as the upload would read it, again whenever the mapping,
-  // the campaign or the files change (after a short pause, so typing through a mapping does not send the file each time).
-  const checkKey = mappingReady && sends === null ? JSON.stringify([campaignId, mapping, readOptions, files.map((file) => [file.name, file.size, file.lastModified])]) : null;
-  useEffect(() => {
-    if (checkKey === null || campaignId === null) return;
-    const controller = new AbortController();
-    const state: CheckState[] = files.map(() => ({ state: "waiting" }));
-    setChecks([...state]);
-    setConfirmed(files.map(() => false));
-    const timer = setTimeout(async () => {
-      for (const [index, file] of files.entries()) {
-        state[index] = { state: "checking", fraction: 0 };
-        setChecks([...state]);
-        try {
-          const result = await checkWholeFile(
-            campaignId,
-            file,
-            mapping,
-            (fraction) => {
-              state[index] = { state: "checking", fraction };
-              setChecks([...state]);
-            },
-            controller.signal,
-            readOptions,
-          );
-          state[index] = { state: "done", result };
-        } catch (error) {
-          if (controller.signal.aborted) return;
-          state[index] = { state: "failed", message: error instanceof ApiError ? error.message : "The check failed. Try again." };
-        }
-        setChecks([...state]);
-      }
-    }, 300);
-    return () => {
-      clearTimeout(timer);
-      controller.abort();
-    };
-    // checkKey stands for campaignId, mapping and files.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [checkKey]);
-
-  const checksDone = checks.length === files.length && checks.every((check) => check.state === "done");
-  const unconfirmed = checks.filter((check, index) => check.state === "done" && confirmationNeeded(check.result) !== "none" && !confirmed[index]).length;
-  const ready = mappingReady && checksDone && unconfirmed === 0;
-  const monitorWarning = useMemo(() => (campaign.data ? monitorDisagreements(statedMonitor(leadingComments(headText)), campaign.data.monitor) : []), [headText, campaign.data]);
-  const running = sends !== null && sends.some((send) => send.state === "sending" || send.state === "waiting");
+  const pixelScaleArcsec = selectedCampaign?.monitor.pixelScaleArcsec ?? null;
+  const monitorWarning = useMemo(() => (selectedCampaign ? monitorDisagreements(statedMonitor(leadingComments(headText)), selectedCampaign.monitor) : []), [headText, selectedCampaign]);
 
   const onUpload = handleSubmit(async (values) => {
-    const target = campaign.data;
-    if (!target || !ready) return;
-    setFailure(null);
-    setFinishedCount(0);
-    const chosenMapping = values.mapping;
-    if (values.keepMapping) {
-      try {
-        await saveMapping(target.id, { mapping: chosenMapping, units: { ...unitsOfMapping(chosenMapping as ColumnMapping) } });
-        await queryClient.invalidateQueries({ queryKey: campaignKeys.detail(target.id) });
-      } catch (error) {
-        setFailure(`The mapping could not be saved for next time (${error instanceof ApiError ? error.message : "try again"}); the upload goes on.`);
-      }
-    }
-    const state: FileSend[] = files.map(() => ({ state: "waiting" }));
-    setSends([...state]);
-    const controller = new AbortController();
-    transfer.current = controller;
-    // One file at a time: the server ingests one at a time anyway, and the transfer bar stays meaningful.
-    for (const [index, file] of files.entries()) {
-      state[index] = { state: "sending", fraction: 0 };
-      setSends([...state]);
-      let sentFraction = 0;
-      try {
-        const outcome = await sendUpload(
-          target.id,
-          file,
-          chosenMapping,
-          (fraction) => {
-            sentFraction = fraction;
-            state[index] = { state: "sending", fraction };
-            setSends([...state]);
-          },
-          controller.signal,
-          readOptions,
-        );
-        state[index] =
-          outcome.kind === "accepted"
-            ? { state: "stored", uploadId: outcome.accepted.upload.id }
-            : { state: "duplicate", message: outcome.duplicate.error.message, upload: outcome.duplicate.upload, rereadOffer: outcome.duplicate.rereadOffer };
-      } catch (error) {
-        if (controller.signal.aborted) {
-          // Once every byte is out, the server may already have stored the file before the cancel reached it.
-          state[index] = { state: "cancelled", sentInFull: sentFraction >= 1 };
-          for (let later = index + 1; later < files.length; later += 1) state[later] = { state: "not-sent" };
-          setSends([...state]);
-          break;
-        }
-        state[index] = { state: "refused", message: error instanceof ApiError ? error.message : "The upload failed. Try again." };
-      }
-      setSends([...state]);
-    }
-    transfer.current = null;
+    await batch.send({ mapping: values.mapping, keepMapping: values.keepMapping });
     // The result is where the person's attention goes next (and what a screen reader reads).
     resultsHeading.current?.focus();
   });
 
-  /** Says what is still missing before the upload, in the order a person meets it. */
-  const notReadyText = () => {
-    if (!campaign.data) return "Choose the campaign first.";
-    if (files.length === 0) return "Choose the log files.";
-    if (headerMismatch.length > 0) return "Upload files with other columns separately (see above).";
-    if (problems.length > 0) return "Fix the mapping problems listed above.";
-    if (!checksDone) return checks.some((check) => check.state === "failed") ? "The check found a file that cannot be read (see above)." : "Waiting for the check of every row.";
-    if (unconfirmed > 0) return "Confirm the files with mostly rejected rows above, or correct the mapping.";
-    return "";
-  };
-
-  const onFinished = useCallback(() => setFinishedCount((count) => count + 1), []);
-
   const onDrop = (event: DragEvent<HTMLDivElement>) => {
     event.preventDefault();
     setDragging(false);
-    void chooseFiles(Array.from(event.dataTransfer.files));
+    void batch.chooseFiles(Array.from(event.dataTransfer.files));
   };
 
   if (sites.length === 0) {
@@ -347,7 +132,6 @@ export function UploadPage() {
     );
   }
 
-  const selectedCampaign: CampaignDetail | undefined = campaign.data;
   return (
     <Page title="Upload logs" intro="Send the monitor's logs from a trip. You check how Calmcrest reads the columns before anything is stored; rows that cannot be used are counted and listed, never silently dropped.">
       <form onSubmit={onUpload} noValidate className="space-y-5">
@@ -414,7 +198,7 @@ export function UploadPage() {
               aria-label="Log files"
               className="sr-only"
               tabIndex={-1}
-              onChange={(event) => void chooseFiles(Array.from(event.target.files ?? []))}
+              onChange={(event) => void batch.chooseFiles(Array.from(event.target.files ?? []))}
             />
           </div>
           {files.length > 0 ? (
@@ -427,7 +211,7 @@ export function UploadPage() {
                     {sends === null || !running ? (
                       <button
                         type="button"
-                        onClick={() => void chooseFiles(files.filter((other) => other !== file))}
+                        onClick={() => batch.removeFile(file)}
                         aria-label={`Remove ${file.name} from this batch`}
                         className="rounded border border-line px-2 py-0.5 text-xs font-semibold hover:bg-bad-pale"
                       >
@@ -439,20 +223,20 @@ export function UploadPage() {
               ))}
             </ul>
           ) : null}
-          {headError ? (
+          {batch.headError ? (
             <p role="alert" className="mt-3 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-              {headError}
+              {batch.headError}
             </p>
           ) : null}
-          {headerMismatch.length > 0 ? (
+          {batch.headerMismatch.length > 0 ? (
             <p role="alert" className="mt-3 rounded-md bg-warn-pale px-3 py-2 text-sm text-warn">
-              {headerMismatch.join(", ")} {headerMismatch.length === 1 ? "has" : "have"} different columns from {files[0]?.name}. One mapping serves the whole batch: upload files with other columns separately.
+              {batch.headerMismatch.join(", ")} {batch.headerMismatch.length === 1 ? "has" : "have"} different columns from {files[0]?.name}. One mapping serves the whole batch: upload files with other columns separately.
             </p>
           ) : null}
         </Step>
 
         {head && selectedCampaign && sends === null ? (
-          <Step number={3} title="Columns and units" done={problems.length === 0}>
+          <Step number={3} title="Columns and units" done={batch.problems.length === 0}>
             <p className="mb-3 text-sm text-ink-soft">
               {mappingSource === "saved"
                 ? "The mapping saved for this campaign fits these files and is filled in. Check it and go on."
@@ -512,17 +296,17 @@ export function UploadPage() {
           </Step>
         ) : null}
 
-        {head && selectedCampaign && problems.length === 0 && files[0] && sends === null ? (
-          <Step number={4} title="Check of every row" done={checksDone}>
+        {head && selectedCampaign && batch.problems.length === 0 && files[0] && sends === null ? (
+          <Step number={4} title="Check of every row" done={batch.checksDone}>
             <p className="mb-3 text-sm text-ink-soft">The server reads each whole file with this mapping, as the upload will, and stores nothing. The first rows as it reads them are listed below.</p>
             <ol className="mb-4 space-y-3">
               {files.map((file, index) => (
                 <WholeFileCheckView
                   key={`${file.name}-${file.size}-${index}`}
                   fileName={file.name}
-                  check={checks[index] ?? { state: "waiting" }}
-                  confirmed={confirmed[index] ?? false}
-                  onConfirm={(value) => setConfirmed((previous) => previous.map((old, at) => (at === index ? value : old)))}
+                  check={batch.checks[index] ?? { state: "waiting" }}
+                  confirmed={batch.confirmed[index] ?? false}
+                  onConfirm={(value) => batch.confirm(index, value)}
                 />
               ))}
             </ol>
@@ -530,19 +314,19 @@ export function UploadPage() {
           </Step>
         ) : null}
 
-        {failure ? (
+        {batch.failure ? (
           <p role="alert" className="rounded-md bg-warn-pale px-3 py-2 text-sm text-warn">
-            {failure}
+            {batch.failure}
           </p>
         ) : null}
 
         <div className="flex flex-wrap items-center gap-3">
           {sends === null ? (
             <>
-              <button type="submit" disabled={!ready} className="rounded-md bg-accent px-5 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-50">
+              <button type="submit" disabled={!batch.ready} className="rounded-md bg-accent px-5 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-50">
                 {files.length > 1 ? `Upload ${files.length} files` : "Upload"}
               </button>
-              {!ready ? <span className="text-sm text-ink-soft">{notReadyText()}</span> : null}
+              {!batch.ready ? <span className="text-sm text-ink-soft">{batch.notReadyText()}</span> : null}
             </>
           ) : (
             <span className="text-sm text-ink-soft">
@@ -562,7 +346,7 @@ export function UploadPage() {
             Upload
           </h2>
           <p role="status" aria-live="polite" className="sr-only" data-testid="upload-announcement">
-            {running ? "" : announce(sends, finishedCount)}
+            {running ? "" : announce(sends, batch.finishedCount)}
           </p>
           <ol className="space-y-3">
             {files.map((file, index) => (
@@ -571,16 +355,13 @@ export function UploadPage() {
                 file={file}
                 send={sends[index] ?? { state: "waiting" }}
                 campaignId={selectedCampaign.id}
-                onFinished={onFinished}
-                onCancel={() => transfer.current?.abort()}
-                check={(() => {
-                  const check = checks[index];
-                  return check?.state === "done" ? check.result : undefined;
-                })()}
+                onFinished={batch.onFinished}
+                onCancel={batch.cancel}
+                check={batch.checkResult(index)}
               />
             ))}
           </ol>
-          {finishedCount > 0 ? (
+          {batch.finishedCount > 0 ? (
             <Link to={`/campaigns/${selectedCampaign.id}`} className="inline-block font-semibold text-accent underline">
               Open the campaign {selectedCampaign.name}
             </Link>

@@ -1,6 +1,7 @@
 import { queryOptions } from "@tanstack/react-query";
 import type { AuditPage } from "@calmcrest/contracts";
 import { api } from "./client";
+import { auditKeys } from "./query-keys";
 
 /** The audit page's filters as they stand in the address (all optional; page from 1). */
 export interface AuditFilters {
@@ -23,7 +24,7 @@ export function auditSearch(filters: AuditFilters, withPage = true): string {
 
 export const auditQuery = (filters: AuditFilters) =>
   queryOptions({
-    queryKey: ["audit", "page", filters],
+    queryKey: auditKeys.page(filters),
     queryFn: () => api<AuditPage>(`/audit?${auditSearch(filters)}`),
   });
 

@@ -1,10 +1,11 @@
 import { queryOptions } from "@tanstack/react-query";
 import type { Me, PasswordLinkInfo, ResetRequestInput, SetPasswordInput, SignInInput } from "@calmcrest/contracts";
 import { ApiError, api } from "./client";
+import { meKeys, passwordLinkKey } from "./query-keys";
 
 /** The signed-in user, or null when signed out. */
 export const meQuery = queryOptions({
-  queryKey: ["me"],
+  queryKey: meKeys.all,
   queryFn: async (): Promise<Me | null> => {
     try {
       return await api<Me>("/me");
@@ -22,7 +23,7 @@ export const signOutEverywhere = () => api<{ ok: true }>("/auth/sign-out-everywh
 
 export const passwordLinkQuery = (token: string) =>
   queryOptions({
-    queryKey: ["password-link", token],
+    queryKey: passwordLinkKey(token),
     queryFn: () => api<PasswordLinkInfo>(`/auth/password-links/${encodeURIComponent(token)}`),
     retry: false,
     staleTime: Infinity,

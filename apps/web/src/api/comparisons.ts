@@ -1,11 +1,12 @@
 import { queryOptions } from "@tanstack/react-query";
 import type { ComparisonResponse } from "@calmcrest/contracts";
 import { api } from "./client";
+import { comparisonKey } from "./query-keys";
 
-/** `GET /api/comparisons?…`; the key holds the whole query string, so each bookmarked comparison caches on its own. */
+/** `GET /api/comparisons?…` (see `comparisonKey`). */
 export const comparisonQuery = (queryString: string) =>
   queryOptions({
-    queryKey: ["comparisons", queryString],
+    queryKey: comparisonKey(queryString),
     queryFn: () => api<ComparisonResponse>(`/comparisons?${queryString}`),
     staleTime: 60_000,
   });

@@ -1,9 +1,29 @@
 import { useMutation, useQueryClient, type QueryClient } from "@tanstack/react-query";
-import type { ColumnMappingInput, CreateCampaignInput, CreateExclusionInput, CreateSiteInput, PatchCampaignInput, PatchSiteInput, ReadOptionsInput, SavedMapping } from "@calmcrest/contracts";
-import { addExclusion, removeExclusion, saveMapping, updateCampaign } from "./campaigns";
-import { campaignKeys, siteKeys } from "./query-keys";
+import type {
+  ChangeEmailInput,
+  ColumnMappingInput,
+  CreateCampaignInput,
+  CreateExclusionInput,
+  CreateReportInput,
+  CreateSiteInput,
+  InviteFormInput,
+  MailPreferences,
+  PatchCampaignInput,
+  PatchSiteInput,
+  PatchUserInput,
+  PublishReportInput,
+  ReadOptionsInput,
+  ReportComments,
+  ReportDetail,
+  SavedMapping,
+} from "@calmcrest/contracts";
+import { signOutEverywhere } from "./auth";
+import { addExclusion, addMember, removeExclusion, removeMember, saveMapping, updateCampaign } from "./campaigns";
+import { auditKeys, campaignKeys, meKeys, reportKeys, siteKeys, userKeys } from "./query-keys";
+import { createReport, publishReport, setPreferences } from "./reports";
 import { createCampaign, createSite, updateSite } from "./sites";
 import { sendUpload } from "./uploads";
+import { changeEmail, deactivateUser, inviteUser, patchUser, reactivateUser, sendPasswordLink, signOutUserEverywhere } from "./users";
 
 // The field screens' changes as mutations. Each one's onSuccess returns the invalidation's promise, so
 // `mutateAsync` resolves only once the queries showing the change have been refetched: a form that says "Saved"
@@ -96,5 +116,90 @@ export function useSendUpload() {
   return useMutation({
     mutationFn: ({ campaignId, file, mapping, onProgress, signal, readOptions }: SendUploadInput) => sendUpload(campaignId, file, mapping, onProgress, signal, readOptions),
     onSuccess: (_outcome, { campaignId }) => queryClient.invalidateQueries({ queryKey: campaignKeys.detail(campaignId) }),
+  });
+}
+
+// Administration. An account change (role, status, e-mail, campaign membership, invitation) can change the lists
+// and pages of people, the audit log, what a field engineer sees (sites and campaigns) and, for one's own account,
+// `me`: all of them are refreshed before the change's promise resolves.
+
+function peopleChanged(queryClient: QueryClient) {
+  return Promise.all(
+    [userKeys.all, auditKeys.all, campaignKeys.all, siteKeys.all, meKeys.all].map((queryKey) => queryClient.invalidateQueries({ queryKey })),
+  );
+}
+
+function useAccountChange<TInput, TResult>(change: (input: TInput) => Promise<TResult>) {
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn: change, onSuccess: () => peopleChanged(queryClient) });
+}
+
+export const useInviteUser = () => useAccountChange((input: InviteFormInput) => inviteUser(input));
+export const usePatchUser = () => useAccountChange(({ userId, patch }: { userId: string; patch: PatchUserInput }) => patchUser(userId, patch));
+export const useChangeEmail = (userId: string) => useAccountChange((input: ChangeEmailInput) => changeEmail(userId, input));
+export const useSendPasswordLink = () => useAccountChange((userId: string) => sendPasswordLink(userId));
+export const useDeactivateUser = () => useAccountChange((userId: string) => deactivateUser(userId));
+export const useReactivateUser = () => useAccountChange((userId: string) => reactivateUser(userId));
+export const useSignOutUserEverywhere = () => useAccountChange((userId: string) => signOutUserEverywhere(userId));
+export const useAddMember = () => useAccountChange(({ campaignId, userId }: { campaignId: number; userId: string }) => addMember(campaignId, { userId }));
+export const useRemoveMember = () => useAccountChange(({ campaignId, userId }: { campaignId: number; userId: string }) => removeMember(campaignId, userId));
+
+/** Ends every session of the signed-in person, this one too: nothing cached stays for the next person. */
+export function useSignOutEverywhere() {
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn: () => signOutEverywhere(), onSuccess: () => queryClient.clear() });
+}
+
+export function useSetPreferences() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: MailPreferences) => setPreferences(input),
+    onSuccess: (saved) => queryClient.setQueryData(meKeys.preferences(), saved),
+  });
+}
+
+// Reports.
+
+export function useCreateReport() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateReportInput) => createReport(input),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: reportKeys.list() }),
+  });
+}
+
+/**
+ * A change to a report's working copy (title, sharing, sections): every such call answers with the whole draft,
+ * which replaces the cached one; the list (titles, dates) and the draft's comparison preview are fetched again.
+ */
+export function useReportDraftChange(reportId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (change: () => Promise<ReportDetail>) => change(),
+    onSuccess: (detail) => {
+      queryClient.setQueryData(reportKeys.detail(reportId), detail);
+      return Promise.all([queryClient.invalidateQueries({ queryKey: reportKeys.list() }), queryClient.invalidateQueries({ queryKey: reportKeys.preview(reportId) })]);
+    },
+  });
+}
+
+/** A new version: the report (its version list and draft state) and the list of reports are fetched again. */
+export function usePublishReport(reportId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: PublishReportInput) => publishReport(reportId, input),
+    onSuccess: () => Promise.all([queryClient.invalidateQueries({ queryKey: reportKeys.detail(reportId) }), queryClient.invalidateQueries({ queryKey: reportKeys.list() })]),
+  });
+}
+
+/** A comment written, edited, withdrawn, resolved or reopened: the answer is the report's threads; the list shows open counts. */
+export function useCommentChange(reportId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (change: () => Promise<ReportComments>) => change(),
+    onSuccess: (comments) => {
+      queryClient.setQueryData(reportKeys.comments(reportId), comments);
+      return queryClient.invalidateQueries({ queryKey: reportKeys.list() });
+    },
   });
 }

@@ -16,22 +16,23 @@ import type {
   ReportVersionView,
 } from "@calmcrest/contracts";
 import { api } from "./client";
+import { meKeys, reportKeys } from "./query-keys";
 
 export const reportsQuery = queryOptions({
-  queryKey: ["reports", "list"],
+  queryKey: reportKeys.list(),
   queryFn: () => api<ReportListItem[]>("/reports"),
 });
 
 export const reportQuery = (reportId: number) =>
   queryOptions({
-    queryKey: ["reports", "detail", reportId],
+    queryKey: reportKeys.detail(reportId),
     queryFn: () => api<ReportDetail>(`/reports/${reportId}`),
   });
 
 /** A frozen version; `since` compares it with that earlier version instead of the previous one. */
 export const reportVersionQuery = (reportId: number, version: number, since?: number) =>
   queryOptions({
-    queryKey: ["reports", "detail", reportId, "version", version, since ?? null],
+    queryKey: reportKeys.version(reportId, version, since ?? null),
     queryFn: () => api<ReportVersionView>(`/reports/${reportId}/versions/${version}${since ? `?since=${since}` : ""}`),
     // A published version never changes; only its "newer data" count does.
     staleTime: 60_000,
@@ -39,23 +40,23 @@ export const reportVersionQuery = (reportId: number, version: number, since?: nu
 
 export const reportCommentsQuery = (reportId: number) =>
   queryOptions({
-    queryKey: ["reports", "detail", reportId, "comments"],
+    queryKey: reportKeys.comments(reportId),
     queryFn: () => api<ReportComments>(`/reports/${reportId}/comments`),
   });
 
 export const reportPreviewQuery = (reportId: number) =>
   queryOptions({
-    queryKey: ["reports", "detail", reportId, "preview"],
+    queryKey: reportKeys.preview(reportId),
     queryFn: () => api<ComparisonResponse>(`/reports/${reportId}/preview`),
   });
 
 export const recipientsQuery = queryOptions({
-  queryKey: ["reports", "recipients"],
+  queryKey: reportKeys.recipients(),
   queryFn: () => api<ReportRecipient[]>("/reports/recipients"),
 });
 
 export const preferencesQuery = queryOptions({
-  queryKey: ["me", "preferences"],
+  queryKey: meKeys.preferences(),
   queryFn: () => api<MailPreferences>("/me/preferences"),
 });
 

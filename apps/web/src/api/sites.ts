@@ -2,11 +2,11 @@ import { queryOptions } from "@tanstack/react-query";
 import type { AppConfig, CreateCampaignInput, CreateSiteInput, PatchSiteInput, SiteDetail, SiteListItem, SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
 import { api } from "./client";
 import { summaryQueryString } from "../lib/filter-params";
-import { siteKeys } from "./query-keys";
+import { configKey, siteKeys } from "./query-keys";
 
 /** Deployment settings (online map tiles or none). */
 export const configQuery = queryOptions({
-  queryKey: ["config"],
+  queryKey: configKey,
   queryFn: () => api<AppConfig>("/config"),
   staleTime: Infinity,
 });

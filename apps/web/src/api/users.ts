@@ -15,7 +15,7 @@ export const patchUser = (userId: string, input: PatchUserInput) =>
 
 export const userQuery = (userId: string) =>
   queryOptions({
-    queryKey: ["users", "detail", userId],
+    queryKey: userKeys.detail(userId),
     queryFn: () => api<UserDetail>(`/users/${encodeURIComponent(userId)}`),
   });
 

@@ -5,6 +5,7 @@ import { createExclusionSchema, type CampaignDetail, type CreateExclusionInput }
 import { useAddExclusion, useRemoveExclusion } from "../api/mutations";
 import { ApiError } from "../api/client";
 import { formatDateTimeUtc } from "../lib/format";
+import { Problem } from "./page";
 
 /** Exclusion windows of a campaign: samples inside leave every statistic (with the reason on record). */
 export function Exclusions({ campaign }: { campaign: CampaignDetail }) {
@@ -98,11 +99,7 @@ export function Exclusions({ campaign }: { campaign: CampaignDetail }) {
           </button>
         </form>
       ) : null}
-      {failure ? (
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-          {failure}
-        </p>
-      ) : null}
+      <Problem text={failure} />
     </section>
   );
 }

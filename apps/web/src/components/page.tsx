@@ -30,3 +30,12 @@ export function Notice({ tone = "info", title, children }: { tone?: "info" | "wa
     </div>
   );
 }
+
+/** What went wrong with the last action, in words, announced at once; nothing when there is no problem. */
+export function Problem({ text, className = "" }: { text: string | null | undefined; className?: string }) {
+  return text ? (
+    <p role="alert" className={`rounded-md bg-bad-pale px-3 py-2 text-sm text-bad ${className}`.trim()}>
+      {text}
+    </p>
+  ) : null;
+}

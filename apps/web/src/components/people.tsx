@@ -1,28 +1,14 @@
 import { useEffect, useId, useRef, useState, type ReactNode } from "react";
-import { useQueryClient } from "@tanstack/react-query";
 import { ROLE_LABELS, ROLES, roleChangeEffects, type AccountStatus, type Role, type UserListItem } from "@calmcrest/contracts";
 import { ApiError } from "../api/client";
-import { patchUser } from "../api/users";
+import { usePatchUser } from "../api/mutations";
+import { Problem } from "./page";
 
 // Pieces of the administration screens: the role-change confirmation, the "saved" note with its undo, and the
 // account status badge. A role never changes on a key press or a click in a list: it changes only when the
 // administrator confirms in the dialog, which says what the person gains and loses.
 
 export const messageOf = (error: unknown, fallback: string) => (error instanceof ApiError ? error.message : fallback);
-
-/** Refreshes everything an account change can touch (membership decides what engineers see). */
-export function useRefreshPeople() {
-  const queryClient = useQueryClient();
-  return async () => {
-    await Promise.all([
-      queryClient.invalidateQueries({ queryKey: ["users"] }),
-      queryClient.invalidateQueries({ queryKey: ["audit"] }),
-      queryClient.invalidateQueries({ queryKey: ["campaigns"] }),
-      queryClient.invalidateQueries({ queryKey: ["sites"] }),
-      queryClient.invalidateQueries({ queryKey: ["me"] }),
-    ]);
-  };
-}
 
 const STATUS_LABELS: Record<AccountStatus, string> = { active: "Active", invited: "Invited, no password yet", deactivated: "Deactivated" };
 
@@ -140,7 +126,7 @@ export function ChangeRoleButton({
   const [choice, setChoice] = useState<Role>(user.role);
   const [saving, setSaving] = useState(false);
   const [failure, setFailure] = useState<string | null>(null);
-  const refresh = useRefreshPeople();
+  const changeRole = usePatchUser();
   const effects = roleChangeEffects(user.role, choice);
 
   const open = () => {
@@ -156,14 +142,12 @@ export function ChangeRoleButton({
     onProblem(null);
     const from = user.role;
     try {
-      await patchUser(user.id, { role: choice });
+      await changeRole.mutateAsync({ userId: user.id, patch: { role: choice } });
       dialog.current?.close();
-      await refresh();
       onSaved({
         text: `${user.name} is now ${ROLE_LABELS[choice]} (was ${ROLE_LABELS[from]}).`,
         undo: async () => {
-          await patchUser(user.id, { role: from, undo: true });
-          await refresh();
+          await changeRole.mutateAsync({ userId: user.id, patch: { role: from, undo: true } });
         },
       });
     } catch (error) {
@@ -224,11 +208,7 @@ export function ChangeRoleButton({
               {choice === "engineer" && user.campaigns.length === 0 ? <p>As a field engineer they see no site until you add them to a campaign.</p> : null}
             </div>
           )}
-          {failure ? (
-            <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-              {failure}
-            </p>
-          ) : null}
+          <Problem text={failure} />
           <div className="flex flex-wrap justify-end gap-2">
             <button type="button" onClick={() => dialog.current?.close()} className="rounded-md border border-line px-4 py-1.5 font-semibold">
               Cancel
@@ -282,11 +262,7 @@ export function ConfirmButton({
             {title}
           </h2>
           <div className="text-sm">{consequences}</div>
-          {failure ? (
-            <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-              {failure}
-            </p>
-          ) : null}
+          <Problem text={failure} />
           <div className="flex flex-wrap justify-end gap-2">
             <button type="button" onClick={() => dialog.current?.close()} className="rounded-md border border-line px-4 py-1.5 font-semibold">
               Cancel

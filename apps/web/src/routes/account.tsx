@@ -1,18 +1,20 @@
 import { useState } from "react";
-import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
+import { useSuspenseQuery } from "@tanstack/react-query";
 import { ROLE_LABELS } from "@calmcrest/contracts";
 import { useNavigate } from "react-router-dom";
-import { meQuery, signOutEverywhere } from "../api/auth";
+import { meQuery } from "../api/auth";
 import { ConfirmButton } from "../components/people";
 import { ApiError } from "../api/client";
-import { preferencesQuery, setPreferences } from "../api/reports";
+import { useSetPreferences, useSignOutEverywhere } from "../api/mutations";
+import { preferencesQuery } from "../api/reports";
 import { Page } from "../components/page";
 
 /** /account: the signed-in person's own settings (for now: which e-mails they get). */
 export function AccountPage() {
   const { data: me } = useSuspenseQuery(meQuery);
   const { data: preferences } = useSuspenseQuery(preferencesQuery);
-  const queryClient = useQueryClient();
+  const setPreferences = useSetPreferences();
+  const signOutEverywhere = useSignOutEverywhere();
   const navigate = useNavigate();
   const [problem, setProblem] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
@@ -30,7 +32,7 @@ export function AccountPage() {
               setProblem(null);
               setSaved(false);
               try {
-                queryClient.setQueryData(preferencesQuery.queryKey, await setPreferences({ commentEmails: event.target.checked }));
+                await setPreferences.mutateAsync({ commentEmails: event.target.checked });
                 setSaved(true);
               } catch (error) {
                 setProblem(error instanceof ApiError ? error.message : "The setting could not be saved. Try again.");
@@ -69,8 +71,7 @@ export function AccountPage() {
           consequences={<p>Every session of {me.email} ends at once, including this one; you sign in again here afterwards.</p>}
           confirmLabel="Sign out everywhere"
           action={async () => {
-            await signOutEverywhere();
-            queryClient.clear();
+            await signOutEverywhere.mutateAsync();
             await navigate("/sign-in", { replace: true });
           }}
         />

@@ -5,26 +5,25 @@ import { useSuspenseQuery } from "@tanstack/react-query";
 import { Link, useParams } from "react-router-dom";
 import { AUDIT_ACTION_LABELS, changeEmailSchema, ROLE_LABELS, type ChangeEmailInput } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
-import { changeEmail, deactivateUser, reactivateUser, sendPasswordLink, signOutUserEverywhere, userQuery, usersQuery } from "../api/users";
-import { Notice, Page } from "../components/page";
-import { ChangeRoleButton, ConfirmButton, SavedBanner, StatusBadge, messageOf, roleLock, useRefreshPeople, type SavedNote } from "../components/people";
+import { useChangeEmail, useDeactivateUser, useReactivateUser, useSendPasswordLink, useSignOutUserEverywhere } from "../api/mutations";
+import { userQuery, usersQuery } from "../api/users";
+import { Notice, Page, Problem } from "../components/page";
+import { ChangeRoleButton, ConfirmButton, SavedBanner, StatusBadge, messageOf, roleLock, type SavedNote } from "../components/people";
 import { formatDateTimeUtc } from "../lib/format";
 
 function EmailForm({ userId, email, onSaved }: { userId: string; email: string; onSaved: (note: Omit<SavedNote, "id">) => void }) {
-  const refresh = useRefreshPeople();
+  const changeEmail = useChangeEmail(userId);
   const [failure, setFailure] = useState<string | null>(null);
   const { register, handleSubmit, formState, reset } = useForm<ChangeEmailInput>({ resolver: zodResolver(changeEmailSchema), defaultValues: { email } });
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
     try {
-      const user = await changeEmail(userId, input);
+      const user = await changeEmail.mutateAsync(input);
       reset({ email: user.email });
-      await refresh();
       onSaved({
         text: `${user.name} now signs in as ${user.email}.`,
         undo: async () => {
-          await changeEmail(userId, { email });
-          await refresh();
+          await changeEmail.mutateAsync({ email });
         },
       });
     } catch (error) {
@@ -43,11 +42,7 @@ function EmailForm({ userId, email, onSaved }: { userId: string; email: string; 
         </button>
       </div>
       {formState.errors.email ? <p className="text-xs text-bad">{formState.errors.email.message}</p> : null}
-      {failure ? (
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-          {failure}
-        </p>
-      ) : null}
+      <Problem text={failure} />
     </form>
   );
 }
@@ -57,7 +52,10 @@ export function PersonPage() {
   const { data: person } = useSuspenseQuery(userQuery(userId));
   const { data: everyone } = useSuspenseQuery(usersQuery);
   const { data: me } = useSuspenseQuery(meQuery);
-  const refresh = useRefreshPeople();
+  const sendPasswordLink = useSendPasswordLink();
+  const signOutEverywhere = useSignOutUserEverywhere();
+  const deactivate = useDeactivateUser();
+  const reactivate = useReactivateUser();
   const [problem, setProblem] = useState<string | null>(null);
   const [note, setNote] = useState<SavedNote | null>(null);
   const onSaved = useCallback((saved: Omit<SavedNote, "id">) => setNote({ ...saved, id: Date.now() }), []);
@@ -79,11 +77,7 @@ export function PersonPage() {
       actions={<StatusBadge status={person.status} />}
     >
       <div className="space-y-6">
-        {problem ? (
-          <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-            {problem}
-          </p>
-        ) : null}
+        <Problem text={problem} />
         <SavedBanner note={note} onDone={clearNote} onProblem={setProblem} />
         <div className="grid gap-6 lg:grid-cols-2">
           <section aria-labelledby="account-heading" className="space-y-3 rounded-lg border border-line bg-panel p-4">
@@ -139,8 +133,7 @@ export function PersonPage() {
                 }
                 confirmLabel="Send the e-mail"
                 action={async () => {
-                  const sent = await sendPasswordLink(person.id);
-                  await refresh();
+                  const sent = await sendPasswordLink.mutateAsync(person.id);
                   onSaved({ text: `${sent.purpose === "invite" ? "A new invitation" : "A password reset link"} is on its way to ${person.email}, valid until ${formatDateTimeUtc(sent.expiresAt)}.` });
                 }}
               />
@@ -151,8 +144,7 @@ export function PersonPage() {
               consequences={<p>{person.name} is signed out on every browser and device at once and must sign in again. Nothing else changes.</p>}
               confirmLabel="End every session"
               action={async () => {
-                await signOutUserEverywhere(person.id);
-                await refresh();
+                await signOutEverywhere.mutateAsync(person.id);
                 onSaved({ text: isSelf ? "Your other sessions ended; sign in again here." : `Every session of ${person.name} has ended.` });
               }}
             />
@@ -163,8 +155,7 @@ export function PersonPage() {
                 consequences={<p>{person.name} can sign in again with their password, with the role and campaigns they had ({ROLE_LABELS[person.role]}).</p>}
                 confirmLabel="Reactivate"
                 action={async () => {
-                  await reactivateUser(person.id);
-                  await refresh();
+                  await reactivate.mutateAsync(person.id);
                   onSaved({ text: `${person.name} can sign in again.` });
                 }}
               />
@@ -186,13 +177,11 @@ export function PersonPage() {
                 }
                 confirmLabel="Deactivate and end sessions"
                 action={async () => {
-                  await deactivateUser(person.id);
-                  await refresh();
+                  await deactivate.mutateAsync(person.id);
                   onSaved({
                     text: `${person.name} is deactivated and signed out everywhere.`,
                     undo: async () => {
-                      await reactivateUser(person.id);
-                      await refresh();
+                      await reactivate.mutateAsync(person.id);
                     },
                   });
                 }}

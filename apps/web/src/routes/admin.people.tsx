@@ -5,17 +5,18 @@ import { useSuspenseQuery } from "@tanstack/react-query";
 import { Link } from "react-router-dom";
 import { inviteSchema, ROLE_LABELS, ROLES, type InviteFormInput, type InviteInput, type UserListItem } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
-import { addMember, removeMember } from "../api/campaigns";
-import { inviteUser, usersQuery } from "../api/users";
+import { useAddMember, useInviteUser, useRemoveMember } from "../api/mutations";
+import { usersQuery } from "../api/users";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
-import { Page } from "../components/page";
-import { ChangeRoleButton, SavedBanner, StatusBadge, messageOf, roleLock, useRefreshPeople, type SavedNote } from "../components/people";
+import { Page, Problem } from "../components/page";
+import { ChangeRoleButton, SavedBanner, StatusBadge, messageOf, roleLock, type SavedNote } from "../components/people";
 import { formatDateTimeUtc } from "../lib/format";
 
 type Report = (note: Omit<SavedNote, "id">) => void;
 
 function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSaved: Report; onProblem: (message: string | null) => void }) {
-  const refresh = useRefreshPeople();
+  const addMember = useAddMember();
+  const removeMember = useRemoveMember();
   const { campaigns } = useVisibleCampaigns();
   const [choice, setChoice] = useState("");
   const available = campaigns.filter((campaign) => !user.campaigns.some((member) => member.id === campaign.id));
@@ -23,7 +24,6 @@ function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSa
     onProblem(null);
     try {
       await action();
-      await refresh();
       onSaved(note);
     } catch (error) {
       onProblem(messageOf(error, failure));
@@ -46,11 +46,10 @@ function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSa
               type="button"
               aria-label={`Remove ${user.name} from ${campaign.name}`}
               onClick={() =>
-                void run(() => removeMember(campaign.id, user.id), "The membership could not be removed.", {
+                void run(() => removeMember.mutateAsync({ campaignId: campaign.id, userId: user.id }), "The membership could not be removed.", {
                   text: `${user.name} no longer has access to ${campaign.siteName} — ${campaign.name}.`,
                   undo: async () => {
-                    await addMember(campaign.id, { userId: user.id });
-                    await refresh();
+                    await addMember.mutateAsync({ campaignId: campaign.id, userId: user.id });
                   },
                 })
               }
@@ -79,15 +78,14 @@ function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSa
               const campaign = available.find((candidate) => candidate.id === campaignId);
               void run(
                 async () => {
-                  await addMember(campaignId, { userId: user.id });
+                  await addMember.mutateAsync({ campaignId, userId: user.id });
                   setChoice("");
                 },
                 "The membership could not be added.",
                 {
                   text: `${user.name} now has access to ${campaign ? `${campaign.siteName} — ${campaign.name}` : "the campaign"}.`,
                   undo: async () => {
-                    await removeMember(campaignId, user.id);
-                    await refresh();
+                    await removeMember.mutateAsync({ campaignId, userId: user.id });
                   },
                 },
               );
@@ -103,7 +101,7 @@ function MembershipCell({ user, onSaved, onProblem }: { user: UserListItem; onSa
 }
 
 function InvitePerson({ onSaved }: { onSaved: Report }) {
-  const refresh = useRefreshPeople();
+  const invite = useInviteUser();
   const { campaigns } = useVisibleCampaigns();
   const [failure, setFailure] = useState<string | null>(null);
   // The campaign boxes are kept here (a form library reads one checkbox as true/false, several as a list).
@@ -113,10 +111,9 @@ function InvitePerson({ onSaved }: { onSaved: Report }) {
   const onSubmit = handleSubmit(async (input) => {
     setFailure(null);
     try {
-      const user = await inviteUser({ ...input, campaignIds: input.role === "engineer" ? campaignIds : [] });
+      const user = await invite.mutateAsync({ ...input, campaignIds: input.role === "engineer" ? campaignIds : [] });
       reset({ role: "engineer", email: "", name: "", campaignIds: [] });
       setCampaignIds([]);
-      await refresh();
       onSaved({ text: `Invitation sent to ${user.name} <${user.email}>. The link works once, for 72 hours; they choose their own password (the Outbox shows the message).` });
     } catch (error) {
       setFailure(messageOf(error, "The invitation could not be sent. Try again."));
@@ -179,11 +176,7 @@ function InvitePerson({ onSaved }: { onSaved: Report }) {
       <button type="submit" disabled={formState.isSubmitting} className="rounded-md bg-accent px-4 py-1.5 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
         Send invitation
       </button>
-      {failure ? (
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-          {failure}
-        </p>
-      ) : null}
+      <Problem text={failure} />
     </form>
   );
 }
@@ -240,11 +233,7 @@ export function PeoplePage() {
       }
     >
       <div className="space-y-4">
-        {problem ? (
-          <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-            {problem}
-          </p>
-        ) : null}
+        <Problem text={problem} />
         <SavedBanner note={note} onDone={clearNote} onProblem={setProblem} />
         <section aria-labelledby="people-heading" className="overflow-hidden rounded-lg border border-line bg-panel">
           <h2 id="people-heading" className="sr-only">

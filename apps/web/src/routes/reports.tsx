@@ -1,11 +1,12 @@
 import { useState } from "react";
-import { useQueryClient, useSuspenseQuery } from "@tanstack/react-query";
+import { useSuspenseQuery } from "@tanstack/react-query";
 import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import type { ReportListItem } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
 import { ApiError } from "../api/client";
-import { createReport, reportsQuery } from "../api/reports";
-import { Notice, Page } from "../components/page";
+import { useCreateReport } from "../api/mutations";
+import { reportsQuery } from "../api/reports";
+import { Notice, Page, Problem } from "../components/page";
 import { ComparisonPicker, type ComparisonSettings } from "../components/report/comparison-picker";
 import { formatDateUtc } from "../lib/format";
 
@@ -14,7 +15,7 @@ const COMPARISON_KEYS = ["sites", "campaigns", "from", "to", "maxZenithDeg", "su
 
 function NewReportForm({ initial, startOpen }: { initial: ComparisonSettings; startOpen: boolean }) {
   const navigate = useNavigate();
-  const queryClient = useQueryClient();
+  const create = useCreateReport();
   const [open, setOpen] = useState(startOpen);
   const [title, setTitle] = useState("");
   const [summary, setSummary] = useState("");
@@ -37,8 +38,7 @@ function NewReportForm({ initial, startOpen }: { initial: ComparisonSettings; st
         setProblem(null);
         setBusy(true);
         try {
-          const created = await createReport({ title, summary, comparison: settings });
-          await queryClient.invalidateQueries({ queryKey: ["reports"] });
+          const created = await create.mutateAsync({ title, summary, comparison: settings });
           await navigate(`/reports/${created.id}?edit=1`);
         } catch (error) {
           setProblem(error instanceof ApiError ? error.message : "The report could not be created. Check your connection and try again.");
@@ -68,11 +68,7 @@ function NewReportForm({ initial, startOpen }: { initial: ComparisonSettings; st
           Cancel
         </button>
       </div>
-      {problem ? (
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-          {problem}
-        </p>
-      ) : null}
+      <Problem text={problem} />
     </form>
   );
 }

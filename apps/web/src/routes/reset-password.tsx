@@ -5,7 +5,8 @@ import { Link } from "react-router-dom";
 import { resetRequestSchema, type ResetRequestInput } from "@calmcrest/contracts";
 import { requestPasswordReset } from "../api/auth";
 import { ApiError } from "../api/client";
-import { SignedOutFrame } from "./set-password";
+import { Problem } from "../components/page";
+import { SignedOutField, SignedOutFrame, SignedOutSubmit } from "../components/signed-out";
 
 /** /reset-password: ask for a link to choose a new password (the answer never says whether the address has an account). */
 export function ResetPasswordPage() {
@@ -29,21 +30,9 @@ export function ResetPasswordPage() {
       ) : (
         <form onSubmit={onSubmit} noValidate className="space-y-4">
           <p className="text-sm text-ink-soft">Give the e-mail address of your Calmcrest account. You get a link to choose a new password; your current one keeps working until then.</p>
-          <div>
-            <label htmlFor="reset-email" className="block text-sm font-semibold">
-              E-mail
-            </label>
-            <input id="reset-email" type="email" autoComplete="username" className="mt-1 w-full rounded-md border border-line px-3 py-2" aria-invalid={formState.errors.email ? true : undefined} {...register("email")} />
-            {formState.errors.email ? <p className="mt-1 text-sm text-bad">{formState.errors.email.message}</p> : null}
-          </div>
-          {failure ? (
-            <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-              {failure}
-            </p>
-          ) : null}
-          <button type="submit" disabled={formState.isSubmitting} className="w-full rounded-md bg-accent px-4 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
-            Send me a link
-          </button>
+          <SignedOutField id="reset-email" label="E-mail" type="email" autoComplete="username" error={formState.errors.email?.message} registration={register("email")} />
+          <Problem text={failure} />
+          <SignedOutSubmit busy={formState.isSubmitting} label="Send me a link" busyLabel="Sending…" />
         </form>
       )}
       <p className="mt-4 text-sm">

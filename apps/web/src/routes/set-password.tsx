@@ -6,27 +6,9 @@ import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import { PASSWORD_RULES_TEXT, passwordProblems, setPasswordSchema, type SetPasswordInput } from "@calmcrest/contracts";
 import { passwordLinkQuery, setPassword } from "../api/auth";
 import { ApiError } from "../api/client";
-import { Logo } from "../components/logo";
+import { Problem } from "../components/page";
+import { SignedOutField, SignedOutFrame, SignedOutSubmit } from "../components/signed-out";
 import { formatDateTimeUtc } from "../lib/format";
-
-/** The frame of the signed-out pages (sign-in, choosing a password, asking for a reset). */
-export function SignedOutFrame({ title, children }: { title: string; children: React.ReactNode }) {
-  return (
-    <main className="flex min-h-full items-center justify-center bg-night px-4 py-10">
-      <div className="w-full max-w-md rounded-xl bg-panel p-7 shadow-lg">
-        <div className="mb-6 flex items-center gap-3">
-          <Logo className="h-9 w-9" />
-          <div>
-            <p className="text-xl font-semibold">Calmcrest</p>
-            <p className="text-sm text-ink-soft">Seeing statistics for site surveys</p>
-          </div>
-        </div>
-        <h1 className="mb-4 text-lg font-semibold">{title}</h1>
-        {children}
-      </div>
-    </main>
-  );
-}
 
 /** /set-password?token=…: the page an invitation or reset e-mail links to. */
 export function SetPasswordPage() {
@@ -40,7 +22,7 @@ export function SetPasswordPage() {
   if (token === "") {
     return (
       <SignedOutFrame title="This link is incomplete">
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">The address has no link code. Open the whole link from the e-mail, or ask an administrator for a new one.</p>
+        <Problem text="The address has no link code. Open the whole link from the e-mail, or ask an administrator for a new one." />
       </SignedOutFrame>
     );
   }
@@ -55,9 +37,7 @@ export function SetPasswordPage() {
     const message = link.error instanceof ApiError ? link.error.message : "The link could not be checked. Try again in a moment.";
     return (
       <SignedOutFrame title="This link cannot be used">
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-          {message}
-        </p>
+        <Problem text={message} />
         <p className="mt-4 flex flex-wrap gap-4 text-sm">
           <Link to="/sign-in" className="font-semibold text-accent underline-offset-2 hover:underline">
             Go to sign-in
@@ -93,36 +73,17 @@ export function SetPasswordPage() {
       <form onSubmit={onSubmit} noValidate className="space-y-4">
         {/* The e-mail in a hidden field helps password managers store the new password under the right account. */}
         <input type="email" name="username" autoComplete="username" value={info.email} readOnly hidden />
-        <div>
-          <label htmlFor="new-password" className="block text-sm font-semibold">
-            New password
-          </label>
-          <p id="new-password-rules" className="mt-0.5 text-xs text-ink-soft">
-            {PASSWORD_RULES_TEXT}
-          </p>
-          <input
-            id="new-password"
-            type="password"
-            autoComplete="new-password"
-            className="mt-1 w-full rounded-md border border-line px-3 py-2"
-            aria-invalid={formState.errors.password ? true : undefined}
-            aria-describedby={formState.errors.password ? "new-password-rules new-password-error" : "new-password-rules"}
-            {...register("password")}
-          />
-          {formState.errors.password ? (
-            <p id="new-password-error" className="mt-1 text-sm text-bad">
-              {formState.errors.password.message}
-            </p>
-          ) : null}
-        </div>
-        {failure ? (
-          <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-            {failure}
-          </p>
-        ) : null}
-        <button type="submit" disabled={formState.isSubmitting} className="w-full rounded-md bg-accent px-4 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
-          {formState.isSubmitting ? "Saving…" : "Save the password"}
-        </button>
+        <SignedOutField
+          id="new-password"
+          label="New password"
+          type="password"
+          autoComplete="new-password"
+          rules={PASSWORD_RULES_TEXT}
+          error={formState.errors.password?.message}
+          registration={register("password")}
+        />
+        <Problem text={failure} />
+        <SignedOutSubmit busy={formState.isSubmitting} label="Save the password" busyLabel="Saving…" />
       </form>
     </SignedOutFrame>
   );

@@ -7,7 +7,8 @@ import { signInSchema, type SignInInput } from "@calmcrest/contracts";
 import { meQuery, signIn } from "../api/auth";
 import { ApiError } from "../api/client";
 import { homeFor, mayUse } from "../navigation";
-import { Logo } from "../components/logo";
+import { Problem } from "../components/page";
+import { SignedOutField, SignedOutFrame, SignedOutSubmit } from "../components/signed-out";
 
 export function SignInPage() {
   const queryClient = useQueryClient();
@@ -33,65 +34,23 @@ export function SignInPage() {
   });
 
   return (
-    <main className="flex min-h-full items-center justify-center bg-night px-4 py-10">
-      <div className="w-full max-w-sm rounded-xl bg-panel p-7 shadow-lg">
-        <div className="mb-6 flex items-center gap-3">
-          <Logo className="h-9 w-9" />
-          <div>
-            <p className="text-xl font-semibold">Calmcrest</p>
-            <p className="text-sm text-ink-soft">Seeing statistics for site surveys</p>
-          </div>
-        </div>
-        <h1 className="mb-4 text-lg font-semibold">Sign in</h1>
+    <SignedOutFrame title="Sign in" width="sm">
         {passwordJustSet ? (
           <p role="status" className="mb-4 rounded-md bg-accent-pale px-3 py-2 text-sm text-accent-strong">
             Your password is saved. Sign in with it now.
           </p>
         ) : null}
         <form onSubmit={onSubmit} noValidate className="space-y-4">
-          <div>
-            <label htmlFor="email" className="block text-sm font-semibold">E-mail</label>
-            <input
-              id="email"
-              type="email"
-              autoComplete="username"
-              className="mt-1 w-full rounded-md border border-line px-3 py-2"
-              aria-invalid={formState.errors.email ? true : undefined}
-              aria-describedby={formState.errors.email ? "email-error" : undefined}
-              {...register("email")}
-            />
-            {formState.errors.email ? <p id="email-error" className="mt-1 text-sm text-bad">{formState.errors.email.message}</p> : null}
-          </div>
-          <div>
-            <label htmlFor="password" className="block text-sm font-semibold">Password</label>
-            <input
-              id="password"
-              type="password"
-              autoComplete="current-password"
-              className="mt-1 w-full rounded-md border border-line px-3 py-2"
-              aria-invalid={formState.errors.password ? true : undefined}
-              aria-describedby={formState.errors.password ? "password-error" : undefined}
-              {...register("password")}
-            />
-            {formState.errors.password ? <p id="password-error" className="mt-1 text-sm text-bad">{formState.errors.password.message}</p> : null}
-          </div>
-          {failure ? (
-            <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">{failure}</p>
-          ) : null}
-          <button
-            type="submit"
-            disabled={formState.isSubmitting}
-            className="w-full rounded-md bg-accent px-4 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-60"
-          >
-            {formState.isSubmitting ? "Signing in…" : "Sign in"}
-          </button>
+          <SignedOutField id="email" label="E-mail" type="email" autoComplete="username" error={formState.errors.email?.message} registration={register("email")} />
+          <SignedOutField id="password" label="Password" type="password" autoComplete="current-password" error={formState.errors.password?.message} registration={register("password")} />
+          <Problem text={failure} />
+          <SignedOutSubmit busy={formState.isSubmitting} label="Sign in" busyLabel="Signing in…" />
         </form>
         <p className="mt-4 text-sm">
           <Link to="/reset-password" className="font-semibold text-accent underline-offset-2 hover:underline">
             Forgotten your password?
           </Link>
         </p>
-      </div>
-    </main>
+    </SignedOutFrame>
   );
 }

@@ -1,10 +1,11 @@
 import { useState } from "react";
-import { useQueryClient } from "@tanstack/react-query";
-import { COMMENT_MAX_CHARS, type CommentThread, type CommentView, type ReportComments } from "@calmcrest/contracts";
+import { COMMENT_MAX_CHARS, type CommentThread, type CommentView } from "@calmcrest/contracts";
 import { ApiError } from "../../api/client";
+import { useCommentChange } from "../../api/mutations";
 import { addComment, patchComment } from "../../api/reports";
 import { formatDateTimeUtc } from "../../lib/format";
 import { Markdown } from "../markdown";
+import { Problem } from "../page";
 
 // Comment threads on a report or one of its sections: write, reply, edit (15 minutes), withdraw, resolve, reopen.
 
@@ -25,12 +26,9 @@ export function threadMatches(thread: CommentThread, filter: ThreadFilter, myId:
 
 const messageOf = (error: unknown) => (error instanceof ApiError ? error.message : "That did not work. Check your connection and try again.");
 
+/** Runs a change of the threads (a call that answers with all of them) and waits until the page shows it. */
 function useCommentsUpdate(reportId: number) {
-  const queryClient = useQueryClient();
-  return async (next: ReportComments) => {
-    queryClient.setQueryData(["reports", "detail", reportId, "comments"], next);
-    await queryClient.invalidateQueries({ queryKey: ["reports", "list"] });
-  };
+  return useCommentChange(reportId).mutateAsync;
 }
 
 /** A textarea with a send button; used for new threads, replies and edits. */
@@ -85,11 +83,7 @@ function CommentForm({ label, initial = "", submitLabel, onSubmit, onCancel, idP
           </button>
         ) : null}
       </div>
-      {problem ? (
-        <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-          {problem}
-        </p>
-      ) : null}
+      <Problem text={problem} />
     </form>
   );
 }
@@ -118,7 +112,7 @@ function CommentItem({ comment, reportId, shownVersion }: { comment: CommentView
             submitLabel="Save the change"
             onCancel={() => setEditing(false)}
             onSubmit={async (body) => {
-              await update(await patchComment(comment.id, { action: "edit", body }));
+              await update(() => patchComment(comment.id, { action: "edit", body }));
               setEditing(false);
             }}
           />
@@ -138,7 +132,7 @@ function CommentItem({ comment, reportId, shownVersion }: { comment: CommentView
             onClick={async () => {
               setProblem(null);
               try {
-                await update(await patchComment(comment.id, { action: "withdraw" }));
+                await update(() => patchComment(comment.id, { action: "withdraw" }));
               } catch (error) {
                 setProblem(messageOf(error));
               }
@@ -166,7 +160,7 @@ export function Thread({ thread, reportId, shownVersion, canComment }: { thread:
   const moderate = async (action: "resolve" | "reopen") => {
     setProblem(null);
     try {
-      await update(await patchComment(thread.id, { action }));
+      await update(() => patchComment(thread.id, { action }));
     } catch (error) {
       setProblem(messageOf(error));
     }
@@ -206,7 +200,7 @@ export function Thread({ thread, reportId, shownVersion, canComment }: { thread:
             submitLabel="Send reply"
             onCancel={() => setReplying(false)}
             onSubmit={async (body) => {
-              await update(await addComment(reportId, { body, version: shownVersion, parentId: thread.id }));
+              await update(() => addComment(reportId, { body, version: shownVersion, parentId: thread.id }));
               setReplying(false);
             }}
           />
@@ -255,7 +249,7 @@ export function Discussion({
             submitLabel="Send comment"
             onCancel={() => setOpen(false)}
             onSubmit={async (body) => {
-              await update(await addComment(reportId, { body, version: shownVersion, sectionId }));
+              await update(() => addComment(reportId, { body, version: shownVersion, sectionId }));
               setOpen(false);
             }}
           />

@@ -1,10 +1,12 @@
 import { useState } from "react";
-import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { useQuery } from "@tanstack/react-query";
 import { useNavigate } from "react-router-dom";
 import type { ReportDetail, ReportDraft, ReportShare } from "@calmcrest/contracts";
-import { api, ApiError } from "../../api/client";
-import { addSection, deleteSection, patchReport, patchSection, publishReport, recipientsQuery, reorderSections } from "../../api/reports";
+import { ApiError } from "../../api/client";
+import { usePublishReport, useReportDraftChange } from "../../api/mutations";
+import { addSection, deleteSection, patchReport, patchSection, recipientsQuery, reorderSections } from "../../api/reports";
 import { Markdown } from "../markdown";
+import { Problem } from "../page";
 import { ComparisonPicker, type ComparisonSettings } from "./comparison-picker";
 
 // The lead's working copy: title, summary, what is compared, sections (add, rename, rewrite, reorder, delete),
@@ -14,21 +16,9 @@ const messageOf = (error: unknown) => (error instanceof ApiError ? error.message
 const button = "rounded-md border border-line bg-panel px-3 py-1 text-sm font-semibold disabled:opacity-50";
 const primary = "rounded-md bg-accent px-4 py-1.5 text-sm font-semibold text-white hover:bg-accent-strong disabled:opacity-60";
 
+/** Runs a change of the draft (a call that answers with the whole draft) and waits until the page shows it. */
 function useDetailUpdate(reportId: number) {
-  const queryClient = useQueryClient();
-  return async (detail: ReportDetail) => {
-    queryClient.setQueryData(["reports", "detail", reportId], detail);
-    await queryClient.invalidateQueries({ queryKey: ["reports", "list"] });
-    await queryClient.invalidateQueries({ queryKey: ["reports", "detail", reportId, "preview"] });
-  };
-}
-
-function Problem({ text }: { text: string | null }) {
-  return text ? (
-    <p role="alert" className="rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
-      {text}
-    </p>
-  ) : null;
+  return useReportDraftChange(reportId).mutateAsync;
 }
 
 function SectionEditor({ reportId, section, index, count, order }: { reportId: number; section: ReportDraft["sections"][number]; index: number; count: number; order: number[] }) {
@@ -43,7 +33,7 @@ function SectionEditor({ reportId, section, index, count, order }: { reportId: n
     setProblem(null);
     setSaved(false);
     try {
-      await update(await action());
+      await update(() => action());
       return true;
     } catch (error) {
       setProblem(messageOf(error));
@@ -154,7 +144,7 @@ function ShareEditor({ reportId, share }: { reportId: number; share: ReportShare
             setProblem(null);
             setSaved(false);
             try {
-              await update(await patchReport(reportId, { share: mode === "all" ? { mode: "all" } : { mode: "named", userIds: chosen } }));
+              await update(() => patchReport(reportId, { share: mode === "all" ? { mode: "all" } : { mode: "named", userIds: chosen } }));
               setSaved(true);
             } catch (error) {
               setProblem(messageOf(error));
@@ -173,6 +163,7 @@ function ShareEditor({ reportId, share }: { reportId: number; share: ReportShare
 export function ReportEditor({ detail }: { detail: ReportDetail }) {
   const draft = detail.draft;
   const update = useDetailUpdate(detail.id);
+  const publish = usePublishReport(detail.id);
   const navigate = useNavigate();
   const [title, setTitle] = useState(draft?.title ?? "");
   const [summary, setSummary] = useState(draft?.summary ?? "");
@@ -211,7 +202,7 @@ export function ReportEditor({ detail }: { detail: ReportDetail }) {
               setProblem(null);
               setSavedHead(false);
               try {
-                await update(await patchReport(detail.id, { title, summary, comparison: settings }));
+                await update(() => patchReport(detail.id, { title, summary, comparison: settings }));
                 setSavedHead(true);
               } catch (error) {
                 setProblem(messageOf(error));
@@ -242,7 +233,7 @@ export function ReportEditor({ detail }: { detail: ReportDetail }) {
             event.preventDefault();
             setProblem(null);
             try {
-              await update(await addSection(detail.id, { title: newTitle }));
+              await update(() => addSection(detail.id, { title: newTitle }));
               setNewTitle("");
             } catch (error) {
               setProblem(messageOf(error));
@@ -281,9 +272,8 @@ export function ReportEditor({ detail }: { detail: ReportDetail }) {
             setPublishProblem(null);
             setPublishing(true);
             try {
-              const version = await publishReport(detail.id, { note });
+              const version = await publish.mutateAsync({ note });
               setNote("");
-              await update(await api<ReportDetail>(`/reports/${detail.id}`));
               await navigate(`/reports/${detail.id}#version-${version.number}`);
             } catch (error) {
               setPublishProblem(messageOf(error));

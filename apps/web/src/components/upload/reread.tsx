@@ -218,7 +218,7 @@ function NumberField({ label, unit, value, onChange }: { label: string; unit: st
  */
 export function RereadPanel({ upload, campaign, onClose }: { upload: UploadListItem; campaign: CampaignDetail; onClose: () => void }) {
   const head = useQuery({
-    queryKey: [...uploadKeys.detail(upload.id), "raw-head"],
+    queryKey: uploadKeys.rawHead(upload.id),
     queryFn: async () => readLogHead(await rawFileHead(upload.id, HEAD_BYTES)),
     staleTime: Number.POSITIVE_INFINITY,
   });

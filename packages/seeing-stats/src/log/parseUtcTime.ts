@@ -75,7 +75,7 @@ export function parseUtcTime(raw: string): number {
  * Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant, "chrono-compatible low-level date
  * algorithms", days_from_civil): integer arithmetic, several times cheaper than Date.UTC in the row loop.
  */
-function daysFromCivil(year: number, month: number, day: number): number {
+export function daysFromCivil(year: number, month: number, day: number): number {
   const shiftedYear = month <= 2 ? year - 1 : year;
   const era = Math.floor(shiftedYear / 400);
   const yearOfEra = shiftedYear - era * 400;

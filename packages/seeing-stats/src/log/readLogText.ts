@@ -12,6 +12,13 @@ export interface LogTextHandlers {
   row(fields: string[], line: number, text: string): void;
   /** A data line that could not be split into fields; it counts as a row read. */
   badLine(line: number, reason: LineRejectReason, message: string, text: string): void;
+  /**
+   * Optional: a data line offered in place, before it is split (`text` from `start` to `end`), when the text around
+   * it holds no quote and it is neither blank nor a comment. Returns true when it read the line as a row itself
+   * (then it counts as a row read and nothing else is called for it), false to have it split and given to row()
+   * or badLine() as usual; it must have no effect when it returns false.
+   */
+  rowIn?(text: string, start: number, end: number, line: number): boolean;
 }
 
 /**
@@ -77,10 +84,23 @@ export class LogTextReader {
     this.splitter = new LineSplitter({
       line: (text, line) => this.line(text, line),
       tooLong: (line, lengthChars, head) => this.tooLong(line, lengthChars, head),
+      ...(this.handlers.rowIn === undefined ? {} : { lineIn: (text: string, start: number, end: number, line: number) => this.lineIn(text, start, end, line) }),
     });
     this.previousPieceQuoted = sample.includes('"');
     this.quotesNear = true;
     this.splitter.push(sample);
+  }
+
+  private lineIn(text: string, start: number, end: number, line: number): void {
+    if (this.headerNames !== null && !this.quotesNear && end > start && this.handlers.rowIn !== undefined) {
+      // isCommentOrBlankLine's test on the first character: anything else starts a data line.
+      const first = text.charCodeAt(start);
+      if (first !== 32 && first !== 9 && first !== 0xfeff && first !== 0xa0 && first !== 35 && this.handlers.rowIn(text, start, end, line)) {
+        this.rowsRead += 1;
+        return;
+      }
+    }
+    this.line(start === 0 && end === text.length ? text : text.slice(start, end), line);
   }
 
   private line(text: string, line: number): void {

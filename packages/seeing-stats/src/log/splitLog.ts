@@ -25,6 +25,11 @@ export interface LineHandlers {
   line(text: string, line: number): void;
   /** A line longer than MAX_LINE_CHARS: its length in characters and its first REJECTED_LINE_HEAD_CHARS. */
   tooLong(line: number, lengthChars: number, head: string): void;
+  /**
+   * Optional: a complete line given as the text it lies in, from start to end (without its line end), instead of
+   * a string of its own; when present it is called in place of line().
+   */
+  lineIn?(text: string, start: number, end: number, line: number): void;
 }
 
 /**
@@ -124,6 +129,8 @@ export class LineSplitter {
       this.handlers.tooLong(this.lineNumber, length, head);
     } else if (end - start > MAX_LINE_CHARS) {
       this.handlers.tooLong(this.lineNumber, end - start, text.slice(start, start + REJECTED_LINE_HEAD_CHARS));
+    } else if (this.handlers.lineIn !== undefined) {
+      this.handlers.lineIn(text, start, end, this.lineNumber);
     } else {
       this.handlers.line(start === 0 && end === text.length ? text : text.slice(start, end), this.lineNumber);
     }

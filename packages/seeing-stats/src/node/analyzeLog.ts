@@ -124,7 +124,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
     ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
     ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
   };
-  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility, ...readOptions }, {
+  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility, transientSamples: true, ...readOptions }, {
     onSample(sample, line) {
       const reason = filterReason(sample, filters);
       if (sample.timeMs <= previousTimeMs) timesAscending = false;

@@ -1,9 +1,11 @@
+import { isAscii } from 'node:buffer';
 import { LogFormatError } from '../errors.js';
 import { checkMapping } from '../log/checkMapping.js';
 import type { TimeFormat } from '../log/parseTimeAs.js';
 import { createRowReader, type LogSample, type MonitorSettings, type PlausibilityWindow, type RowRejectReason } from '../log/createRowReader.js';
 import type { ColumnMapping, MappingOverrides } from '../log/logFields.js';
 import { proposeMapping } from '../log/proposeMapping.js';
+import { blankSample, createFastRowReader, type FastRowReader } from '../log/fastRowReader.js';
 import { LogTextReader } from '../log/readLogText.js';
 import { listHeaders } from '../log/splitLog.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
@@ -20,6 +22,11 @@ export interface StreamLogOptions {
   timeFormat?: TimeFormat;
   /** The zone of times that carry none, minutes east of UTC. */
   utcOffsetMinutes?: number;
+  /**
+   * True when onSample neither keeps the sample object past the call nor reads `fields`: plain rows then come in
+   * one reused object and with no fields (an empty array), saving an object and a string per row.
+   */
+  transientSamples?: boolean;
 }
 
 export interface StreamLogHandlers {
@@ -57,6 +64,10 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
   let bytesRead = 0;
   let mapping: ColumnMapping = {};
   let readRow: ReturnType<typeof createRowReader> | null = null;
+  let readPlainRow: FastRowReader | null = null;
+  const transient = options.transientSamples === true;
+  const reused = blankSample();
+  const noFields: readonly string[] = [];
 
   const reader = new LogTextReader({
     header(headers, delimiter, line) {
@@ -68,7 +79,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
           hint: `${problems.slice(1).join(' ')} Headers found: ${listHeaders(headers)}. Rename the columns to the native names (README, "Log format") or map them with --map field=Header.`.trim(),
         });
       }
-      readRow = createRowReader({
+      const readerOptions = {
         headers,
         mapping,
         monitor: options.monitor,
@@ -77,7 +88,10 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
         plausibility: options.plausibility,
         ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
         ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
-      });
+      };
+      readRow = createRowReader(readerOptions);
+      // Plain rows are read in place, the rest (and every rejection) by readRow; both give the same samples.
+      readPlainRow = createFastRowReader(readerOptions);
       handlers.onHeader?.(headers, mapping);
     },
     row(fields, line, text) {
@@ -86,13 +100,35 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
       if (result.ok) handlers.onSample(result.sample, line, fields, reader.delimiter);
       else handlers.onReject(line, result.reason, result.message, text);
     },
+    rowIn(text, start, end, line) {
+      if (readPlainRow === null) return false;
+      const sample = readPlainRow(text, start, end, transient ? reused : blankSample());
+      if (sample === null) return false;
+      // Without transientSamples the fields join back into the line: one field holding it, delimiter ''.
+      if (transient) handlers.onSample(sample, line, noFields, reader.delimiter);
+      else handlers.onSample(sample, line, [text.slice(start, end)], '');
+      return true;
+    },
     badLine(line, reason, message, text) {
       handlers.onReject(line, reason, message, text);
     },
   });
 
+  // An all-ASCII piece reads the same in UTF-8 and Latin-1, and Latin-1 copies the bytes straight into a string
+  // (several times faster); only while the decoder holds no unfinished character from the piece before, and never
+  // for the first piece (the decoder drops a byte-order mark only at the start of what it was given).
+  let decoderIdle = false;
   for await (const chunk of input) {
-    const text = typeof chunk === 'string' ? chunk : decoder.decode(chunk, { stream: true });
+    let text: string;
+    if (typeof chunk === 'string') {
+      text = chunk;
+    } else if (decoderIdle && chunk instanceof Buffer && isAscii(chunk)) {
+      text = chunk.toString('latin1');
+    } else {
+      text = decoder.decode(chunk, { stream: true });
+      // A piece that ends in an ASCII byte leaves no character unfinished.
+      decoderIdle = chunk.length === 0 || (chunk[chunk.length - 1] ?? 0) < 0x80;
+    }
     bytesRead += typeof chunk === 'string' ? Buffer.byteLength(chunk) : chunk.length;
     reader.push(text);
     options.onProgress?.(bytesRead);

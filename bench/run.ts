@@ -12,6 +12,7 @@ export interface BenchmarkModule {
 const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   analyzer: () => import('./analyzer.ts'),
   ingest: () => import('./ingest.ts'),
+  withdraw: () => import('./withdraw.ts'),
   compare: () => import('./compare.ts'),
   peer: () => import('./peer.ts'),
   intervalCoverage: () => import('./intervalCoverage.ts'),

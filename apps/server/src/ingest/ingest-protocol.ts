@@ -1,4 +1,5 @@
 import type { ColumnMapping, MonitorSettings, SiteLocation, TimeFormat } from "@calmcrest/seeing-stats";
+import type { SampleMoveJob, SampleMoveOutcome } from "../store/sample-moves";
 
 // Messages between the ingest queue (main thread) and the ingest worker thread.
 
@@ -24,12 +25,22 @@ export interface IngestJob {
   holdCommitMs?: number;
 }
 
-/** "commit": the queue holds the write gate for this ingest; the worker may take SQLite's write lock now. */
-export type ToWorker = { type: "job"; job: IngestJob } | { type: "commit"; uploadId: number } | { type: "close" };
+/**
+ * "commit": the queue holds the write gate for this ingest; the worker may take SQLite's write lock now.
+ * "move": a withdrawal, restore or re-read (store/sample-moves.ts); the queue holds the write gate for it.
+ */
+export type ToWorker =
+  | { type: "job"; job: IngestJob }
+  | { type: "commit"; uploadId: number }
+  | { type: "move"; moveId: number; dbFile: string; job: SampleMoveJob }
+  | { type: "close" };
 
 export type FromWorker =
   | { type: "progress"; uploadId: number; bytesRead: number }
   /** The whole file is read and staged; the worker waits for "commit". */
   | { type: "ready"; uploadId: number }
   | { type: "done"; uploadId: number; rowsRead: number; accepted: number; rejectedByReason: Record<string, number> }
-  | { type: "failed"; uploadId: number; message: string };
+  | { type: "failed"; uploadId: number; message: string }
+  /** A move committed or was refused (outcome), or failed on an error (message; nothing changed). */
+  | { type: "moved"; moveId: number; outcome: SampleMoveOutcome }
+  | { type: "move-failed"; moveId: number; message: string };

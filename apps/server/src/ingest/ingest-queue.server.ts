@@ -3,6 +3,8 @@ import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { effectiveCampaign, monitorOf, readOptionsOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
+import type { SampleMover } from "../store/core";
+import type { SampleMoveJob, SampleMoveOutcome } from "../store/sample-moves";
 import { rawFilePath, tmpDir } from "../uploads/raw-files.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
@@ -13,9 +15,15 @@ import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
  * gate (once the main-thread writes in progress are done) and let it commit, so the write lock is held for the
  * copy of rows already read, never for the reading of the file.
  */
-export class IngestQueue {
+export class IngestQueue implements SampleMover {
   private readonly waiting: number[] = [];
+  /** Sample moves sent to the worker, by id, waiting for its answer. */
+  private readonly moves = new Map<number, { resolve: (outcome: SampleMoveOutcome) => void; reject: (error: Error) => void }>();
+  private nextMoveId = 1;
+  private readonly movesInFlight = new Set<Promise<unknown>>();
   private readonly progressByUpload = new Map<number, number>();
+  /** Releases the write gate the running ingest's commit holds (null while it holds none). */
+  private commitRelease: (() => void) | null = null;
   private running: { uploadId: number; campaignId: number; sizeBytes: number; settle: () => void; ready: () => void } | null = null;
   private worker: Worker | null = null;
   private stopped = false;
@@ -31,6 +39,40 @@ export class IngestQueue {
   ) {
     // The last main-thread writer leaving the gate lets a waiting ingest start.
     gate.onFree(() => void this.pump());
+    store.core.useSampleMover(this);
+  }
+
+  /**
+   * Runs a withdrawal, restore or re-read in the worker (store/sample-moves.ts): waits asynchronously for the write
+   * gate (no main-thread write in progress, no ingest committing), holds it while the worker moves the samples in
+   * one transaction on its own connection, and resolves with the outcome. The event loop keeps answering meanwhile.
+   */
+  moveSamples(job: SampleMoveJob): Promise<SampleMoveOutcome> {
+    if (this.stopped) return Promise.reject(new Error("The server is stopping; try again once it has restarted."));
+    const run = (async () => {
+      const release = await this.gate.holdExclusive();
+      try {
+        const moveId = this.nextMoveId;
+        this.nextMoveId += 1;
+        return await new Promise<SampleMoveOutcome>((resolve, reject) => {
+          this.moves.set(moveId, { resolve, reject });
+          this.ensureWorker().postMessage({ type: "move", moveId, dbFile: this.options.dbFile, job } satisfies ToWorker);
+        });
+      } finally {
+        release();
+      }
+    })();
+    this.movesInFlight.add(run);
+    void run.catch(() => undefined).finally(() => this.movesInFlight.delete(run));
+    return run;
+  }
+
+  /** A worker that died or exited answers no move it was given: each fails (its transaction never committed). */
+  private failMoves(reason: string): void {
+    for (const [moveId, pending] of this.moves) {
+      this.moves.delete(moveId);
+      pending.reject(new Error(reason));
+    }
   }
 
   /** Queues a stored upload (status queued) for ingest. */
@@ -68,6 +110,7 @@ export class IngestQueue {
     this.stopped = true;
     this.waiting.length = 0;
     if (this.busy) await new Promise<void>((resolve) => this.idleWaiters.push(resolve));
+    await Promise.allSettled(this.movesInFlight);
     const worker = this.worker;
     this.worker = null;
     if (worker) {
@@ -87,17 +130,26 @@ export class IngestQueue {
     worker.on("error", (error) => {
       // The worker died (out of memory, a bug): the running upload failed; a fresh worker serves the next one.
       this.worker = null;
+      this.failMoves(`The ingest worker stopped unexpectedly: ${error.message}. Nothing was changed; try again.`);
       const running = this.running;
       if (running) void this.finishFailed(running.uploadId, `The ingest stopped unexpectedly: ${error.message}`);
     });
     worker.on("exit", () => {
       if (this.worker === worker) this.worker = null;
+      this.failMoves("The ingest worker stopped. Nothing was changed; try again.");
     });
     this.worker = worker;
     return worker;
   }
 
   private onMessage(message: FromWorker): void {
+    if (message.type === "moved" || message.type === "move-failed") {
+      const pending = this.moves.get(message.moveId);
+      this.moves.delete(message.moveId);
+      if (message.type === "moved") pending?.resolve(message.outcome);
+      else pending?.reject(new Error(message.message));
+      return;
+    }
     const running = this.running;
     if (!running || running.uploadId !== message.uploadId) return;
     if (message.type === "ready") {
@@ -117,7 +169,8 @@ export class IngestQueue {
   }
 
   private async finishFailed(uploadId: number, error: string): Promise<void> {
-    await this.store.uploads.markFailed(uploadId, error);
+    // While this ingest's commit holds the gate, waiting for it would wait for itself.
+    await this.store.uploads.markFailed(uploadId, error, { holdsGate: this.commitRelease !== null });
     this.running?.settle();
   }
 
@@ -130,17 +183,18 @@ export class IngestQueue {
       return;
     }
     this.busy = true;
-    let holdsGate = false;
     try {
       const job = await this.jobFor(uploadId);
       if (job) {
         await new Promise<void>((settle) => {
           // The worker has read and staged the file: take the gate as soon as no main-thread write is in progress.
           const ready = async () => {
-            while (this.gate.writersActive) await this.gate.noWriters();
-            if (this.running?.uploadId !== uploadId) return;
-            this.gate.holdForIngest();
-            holdsGate = true;
+            const release = await this.gate.holdExclusive();
+            if (this.running?.uploadId !== uploadId) {
+              release();
+              return;
+            }
+            this.commitRelease = release;
             this.worker?.postMessage({ type: "commit", uploadId } satisfies ToWorker);
           };
           this.running = { uploadId, campaignId: job.campaignId, sizeBytes: job.sizeBytes, settle, ready: () => void ready() };
@@ -155,7 +209,9 @@ export class IngestQueue {
       this.busy = false;
       this.progressByUpload.delete(uploadId);
       // Writers that waited for this ingest's commit go first (their continuations run before setImmediate fires).
-      if (holdsGate) this.gate.releaseFromIngest();
+      const release = this.commitRelease;
+      this.commitRelease = null;
+      release?.();
     }
     setImmediate(() => void this.pump());
   }

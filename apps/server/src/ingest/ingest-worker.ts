@@ -5,6 +5,7 @@ import Database from "better-sqlite3";
 import { describeLogFormatError, exactMapping, LogFormatError, type LogSample } from "@calmcrest/seeing-stats";
 import { streamLog } from "@calmcrest/seeing-stats/node";
 import { tune } from "../db/tune.server";
+import { runSampleMove } from "../store/sample-moves";
 import { BUMP_DATA_VERSION_SQL } from "../summaries/data-version.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
@@ -270,6 +271,16 @@ parentPort?.on("message", (message: ToWorker) => {
   if (message.type === "commit") {
     grantCommit?.();
     grantCommit = null;
+    return;
+  }
+  if (message.type === "move") {
+    // Synchronous: while it runs, an ingest being staged simply pauses (its commit cannot be granted meanwhile, the
+    // queue holds the write gate for this move).
+    try {
+      post({ type: "moved", moveId: message.moveId, outcome: runSampleMove(open(message.dbFile), message.job) });
+    } catch (error) {
+      post({ type: "move-failed", moveId: message.moveId, message: describe(error) });
+    }
     return;
   }
   void ingest(message.job);

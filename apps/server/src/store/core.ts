@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import { isAuditAction, type AuditEntry as ContractAuditEntry } from "@calmcrest/contracts";
 import type { AppDatabase } from "../db/database.server";
 import type { SampleCache } from "../summaries/sample-cache.server";
+import type { SampleMoveJob, SampleMoveOutcome } from "./sample-moves";
 import type { WriteGate } from "./write-gate";
 
 /**
@@ -44,9 +45,15 @@ export interface WriteOptions {
   audited?: boolean;
 }
 
+/** Runs a sample move (store/sample-moves.ts) off the main thread: the ingest queue, in its worker. */
+export interface SampleMover {
+  moveSamples(job: SampleMoveJob): Promise<SampleMoveOutcome>;
+}
+
 /** The database, the caches its writes invalidate, the write gate and the change listeners: shared by every store module. */
 export class StoreCore {
   private readonly listeners: ChangeListener[] = [];
+  private sampleMover: SampleMover | null = null;
 
   constructor(
     readonly db: AppDatabase,
@@ -111,6 +118,32 @@ export class StoreCore {
       return result;
     };
     return options.gated === false ? run() : this.gate.withSlot(run);
+  }
+
+  /** The ingest queue registers itself: it runs sample moves in its worker, holding the write gate. */
+  useSampleMover(mover: SampleMover): void {
+    this.sampleMover = mover;
+  }
+
+  /**
+   * Withdraws, restores or re-reads an upload's samples in one transaction on the ingest worker's connection (a
+   * million samples take seconds to move, which must not stall the event loop), then runs the after-commit
+   * effects and the listeners' after-commit hooks here. The move writes its audit rows and raises the campaign's
+   * data version itself, in its transaction (listeners' in-transaction hooks do not run for it).
+   */
+  async moveSamples(job: SampleMoveJob): Promise<SampleMoveOutcome> {
+    if (!this.sampleMover) throw new Error("Sample moves run in the ingest worker: create the IngestQueue with this store first.");
+    const outcome = await this.sampleMover.moveSamples(job);
+    if (outcome.ok) {
+      let invalidated = false;
+      const invalidate = () => {
+        if (invalidated) return;
+        invalidated = true;
+        this.samples.invalidate(job.campaignId);
+      };
+      for (const change of outcome.changes) this.committedElsewhere(change, invalidate);
+    }
+    return outcome;
   }
 
   /**

@@ -7,6 +7,7 @@ import type { monitorSettingsSchema } from "@calmcrest/contracts";
 import type { CampaignAction } from "../access/access.server";
 import { HttpError, notFound } from "../http/errors";
 import type { StoreCore } from "./core";
+import type { SampleMoveJob } from "./sample-moves";
 import { campaignMonitor, monitorColumns, type CampaignRow } from "./campaigns";
 import type { SiteRow } from "./sites";
 
@@ -123,13 +124,6 @@ const PLACEHOLDER_CAMPAIGN: CampaignRow = {
   updated_at: "",
 };
 
-/** The sample columns, in the order both sample tables are copied with. */
-const SAMPLE_COLUMNS =
-  "campaign_id, time_ms, upload_id, seeing_arcsec, r0_cm, zenith_deg, seeing_long_arcsec, seeing_trans_arcsec, anisotropic, sun_alt_deg, flux, scint_index, tau0_ms, theta0_arcsec, wind_ms, rh_pct";
-
-/** Statuses an upload may be withdrawn, restored or re-read from (not while it is queued or being read). */
-const SETTLED_STATUSES: readonly UploadStatusName[] = ["done", "failed", "interrupted"];
-
 type MonitorInput = z.output<typeof monitorSettingsSchema>;
 
 /** Counts of rows rejected at ingest (they have no usable time, so they only join summaries without a time range). */
@@ -171,18 +165,11 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
     }
   }
 
-  function requireSettled(row: { status: UploadStatusName }, verb: string): void {
-    if (!SETTLED_STATUSES.includes(row.status)) {
-      throw new HttpError(409, "upload_busy", `This upload is ${row.status}; it can be ${verb} once its reading has finished. Wait a moment and try again.`);
-    }
-  }
-
-  /** Moves the upload's samples out of every statistic (into withdrawn_sample) and marks it withdrawn; inside a write. */
-  async function withdrawIn(trx: Knex.Transaction, row: { id: number; campaign_id: number }, actorId: string, reason: string, at: string): Promise<number> {
-    await trx.raw(`INSERT INTO withdrawn_sample (${SAMPLE_COLUMNS}) SELECT ${SAMPLE_COLUMNS} FROM sample WHERE campaign_id = ? AND upload_id = ?`, [row.campaign_id, row.id]);
-    const moved = await trx("sample").where({ campaign_id: row.campaign_id, upload_id: row.id }).delete();
-    await trx("upload").where({ id: row.id }).update({ withdrawn_at: at, withdrawn_by: actorId, withdrawn_reason: reason });
-    return moved;
+  /** Runs a withdrawal, restore or re-read in the ingest worker (StoreCore.moveSamples); a refusal becomes its HTTP answer. */
+  async function move(job: SampleMoveJob): Promise<number | null> {
+    const outcome = await core.moveSamples(job);
+    if (!outcome.ok) throw new HttpError(outcome.status, outcome.code, outcome.message);
+    return outcome.newUploadId;
   }
 
   return {
@@ -332,15 +319,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
      */
     async withdraw(user: User, row: UploadRow, reason: string): Promise<void> {
       requireOwnerOrLead(user, row, "withdraw");
-      await core.write(async ({ trx, audit, afterCommit }) => {
-        const current = await trx("upload").where({ id: row.id }).first<{ status: UploadStatusName; withdrawn_at: string | null } | undefined>("status", "withdrawn_at");
-        if (!current) throw notFound("That upload");
-        if (current.withdrawn_at !== null) throw new HttpError(409, "already_withdrawn", "This upload is withdrawn already. Restore it if its samples should count again.");
-        requireSettled(current, "withdrawn");
-        const moved = await withdrawIn(trx, row, user.id, reason, new Date().toISOString());
-        await audit({ userId: user.id, action: "upload.withdraw", targetType: "upload", targetId: row.id, details: { campaignId: row.campaign_id, reason, samples: moved } });
-        afterCommit(() => core.samples.invalidate(row.campaign_id));
-      });
+      await move({ kind: "withdraw", uploadId: row.id, campaignId: row.campaign_id, actorId: user.id, reason });
     },
 
     /**
@@ -349,38 +328,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
      */
     async restore(user: User, row: UploadRow, reason: string | undefined): Promise<void> {
       requireOwnerOrLead(user, row, "restore");
-      await core.write(async ({ trx, audit, afterCommit }) => {
-        const current = await trx("upload").where({ id: row.id }).first<{ withdrawn_at: string | null; withdrawn_reason: string | null } | undefined>("withdrawn_at", "withdrawn_reason");
-        if (!current) throw notFound("That upload");
-        if (current.withdrawn_at === null) throw new HttpError(409, "not_withdrawn", "This upload is not withdrawn; its samples already count.");
-        const holders = await trx("withdrawn_sample as w")
-          .join("sample as s", function () {
-            this.on("s.campaign_id", "=", "w.campaign_id").andOn("s.time_ms", "=", "w.time_ms");
-          })
-          .join("upload as u", "u.id", "s.upload_id")
-          .where("w.upload_id", row.id)
-          .groupBy("u.id", "u.file_name")
-          .select<{ id: number; file_name: string; n: number }[]>("u.id", "u.file_name", trx.raw("COUNT(*) AS n"));
-        if (holders.length > 0) {
-          const named = holders.map((holder) => `upload #${holder.id} (${holder.file_name}, ${holder.n} ${holder.n === 1 ? "time" : "times"})`).join(", ");
-          throw new HttpError(
-            409,
-            "times_taken",
-            `This upload cannot be restored: ${named} now ${holders.length === 1 ? "holds" : "hold"} samples at the same times. Withdraw ${holders.length === 1 ? "it" : "them"} first, then restore this one.`,
-          );
-        }
-        await trx.raw(`INSERT INTO sample (${SAMPLE_COLUMNS}) SELECT ${SAMPLE_COLUMNS} FROM withdrawn_sample WHERE upload_id = ?`, [row.id]);
-        const moved = await trx("withdrawn_sample").where({ upload_id: row.id }).delete();
-        await trx("upload").where({ id: row.id }).update({ withdrawn_at: null, withdrawn_by: null, withdrawn_reason: null });
-        await audit({
-          userId: user.id,
-          action: "upload.restore",
-          targetType: "upload",
-          targetId: row.id,
-          details: { campaignId: row.campaign_id, reason: reason ?? null, samples: moved, withdrawnAt: current.withdrawn_at, withdrawnReason: current.withdrawn_reason },
-        });
-        afterCommit(() => core.samples.invalidate(row.campaign_id));
-      });
+      await move({ kind: "restore", uploadId: row.id, campaignId: row.campaign_id, actorId: user.id, reason: reason ?? null });
     },
 
     /**
@@ -390,54 +338,30 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
      */
     async reread(user: User, row: UploadRow, input: { mapping: ColumnMapping; monitor: MonitorInput | undefined; reason: string; readOptions?: ReadOptions | undefined }): Promise<number> {
       requireOwnerOrLead(user, row, "re-read");
-      return core.write(async ({ trx, audit, afterCommit }) => {
-        const current = await trx("upload").where({ id: row.id }).first<{ status: UploadStatusName; withdrawn_at: string | null } | undefined>("status", "withdrawn_at");
-        if (!current) throw notFound("That upload");
-        requireSettled(current, "re-read");
-        const newer = await trx("upload").where({ replaces_upload_id: row.id }).whereNull("withdrawn_at").first<{ id: number } | undefined>("id");
-        if (newer) throw new HttpError(409, "already_reread", `This upload was re-read already as upload #${newer.id}; re-read that one instead.`);
-        const now = new Date().toISOString();
-        const override = input.monitor ? JSON.stringify(monitorColumns(input.monitor)) : row.monitor_override;
-        const [inserted] = await trx("upload")
-          .insert({
-            campaign_id: row.campaign_id,
-            file_name: row.file_name,
-            size_bytes: row.size_bytes,
-            sha256: row.sha256,
-            uploaded_by: user.id,
-            uploaded_at: now,
-            mapping: JSON.stringify(input.mapping),
-            status: "queued",
-            replaces_upload_id: row.id,
-            monitor_override: override,
-            read_options: input.readOptions ? JSON.stringify(input.readOptions) : row.read_options,
-          })
-          .returning<{ id: number }[]>("id");
-        if (!inserted) throw new HttpError(500, "server_error", "The re-read could not be recorded. Try again.");
-        if (current.withdrawn_at === null) {
-          const moved = await withdrawIn(trx, row, user.id, `Replaced by re-read #${inserted.id}: ${input.reason}`, now);
-          await audit({
-            userId: user.id,
-            action: "upload.withdraw",
-            targetType: "upload",
-            targetId: row.id,
-            details: { campaignId: row.campaign_id, reason: input.reason, samples: moved, replacedBy: inserted.id },
-          });
-        }
-        await audit({
-          userId: user.id,
-          action: "upload.reread",
-          targetType: "upload",
-          targetId: inserted.id,
-          details: { campaignId: row.campaign_id, replaces: row.id, reason: input.reason, mapping: input.mapping, monitor: input.monitor ?? null },
-        });
-        afterCommit(() => core.samples.invalidate(row.campaign_id));
-        return inserted.id;
+      const newId = await move({
+        kind: "reread",
+        uploadId: row.id,
+        campaignId: row.campaign_id,
+        actorId: user.id,
+        reason: input.reason,
+        newUpload: {
+          file_name: row.file_name,
+          size_bytes: row.size_bytes,
+          sha256: row.sha256,
+          mapping: JSON.stringify(input.mapping),
+          monitor_override: input.monitor ? JSON.stringify(monitorColumns(input.monitor)) : row.monitor_override,
+          read_options: input.readOptions ? JSON.stringify(input.readOptions) : row.read_options,
+        },
+        mapping: input.mapping,
+        monitor: input.monitor ?? null,
       });
+      if (newId === null) throw new HttpError(500, "server_error", "The re-read could not be recorded. Try again.");
+      return newId;
     },
 
-    // --- The ingest queue's bookkeeping. It holds the write gate itself while these run (gated: false), and an
-    // ingest's status is not a person's change (audited: false; the upload and the retry carry the audit rows).
+    // --- The ingest queue's bookkeeping. Its writes wait for the write gate like any other (a sample move may hold
+    // SQLite's write lock on the worker's connection), except a failure reported while the ingest's own commit holds
+    // the gate; an ingest's status is not a person's change (audited: false; the upload and the retry carry the audit rows).
 
     /** What the worker needs for an upload: the upload, its campaign and site. */
     async jobInput(uploadId: number): Promise<{ upload: UploadRow; campaign: CampaignRow; site: SiteRow } | null> {
@@ -454,12 +378,12 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
         async ({ trx }) => {
           await trx("upload").where({ id: uploadId }).update({ status: "ingesting", started_at: new Date().toISOString(), error: null, finished_at: null });
         },
-        { gated: false, audited: false },
+        { audited: false },
       );
     },
 
     /** The ingest failed (its transaction rolled back): no counts, the reason for the person who uploaded it. */
-    markFailed(uploadId: number, error: string): Promise<void> {
+    markFailed(uploadId: number, error: string, options: { holdsGate: boolean }): Promise<void> {
       return core.write(
         async ({ trx }) => {
           await trx("upload").where({ id: uploadId }).update({
@@ -471,7 +395,7 @@ export function uploadsStore(core: StoreCore, access: { campaignForUser(user: Us
             finished_at: new Date().toISOString(),
           });
         },
-        { gated: false, audited: false },
+        { gated: !options.holdsGate, audited: false },
       );
     },
 

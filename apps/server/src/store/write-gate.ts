@@ -11,6 +11,7 @@ export class WriteGate {
   private writerWaiters: (() => void)[] = [];
   private readonly freeListeners: (() => void)[] = [];
   private noWriterWaiters: (() => void)[] = [];
+  private exclusiveWaiters: (() => void)[] = [];
 
   /** Waits until no ingest holds the gate and takes a writer's slot. Call the returned release exactly once (more calls are ignored). */
   async acquire(): Promise<() => void> {
@@ -46,13 +47,35 @@ export class WriteGate {
   /** The ingest queue takes the gate before its worker opens the write transaction. Only call when !writersActive. */
   holdForIngest(): void {
     if (this.writers > 0) throw new Error("An ingest cannot take the write gate while main-thread writers hold it.");
+    if (this.ingestHolds) throw new Error("The write gate is held for another connection's write already; wait with holdExclusive().");
     this.ingestHolds = true;
   }
 
-  /** The ingest is over: writers that waited go first (their continuations run before any setImmediate). */
+  /** The ingest is over: writers that waited go first (their continuations run before any setImmediate), then the next exclusive holder. */
   releaseFromIngest(): void {
     this.ingestHolds = false;
     for (const resolve of this.writerWaiters.splice(0)) resolve();
+    for (const resolve of this.exclusiveWaiters.splice(0)) resolve();
+  }
+
+  /**
+   * Waits (asynchronously) until neither an ingest's commit nor another exclusive holder holds the gate and no
+   * main-thread writer is mid-write, then holds it like an ingest's commit: for work another connection does under
+   * SQLite's write lock (an ingest's commit, a sample move in the ingest worker). Call the returned release once.
+   */
+  async holdExclusive(): Promise<() => void> {
+    for (;;) {
+      if (this.ingestHolds) await new Promise<void>((resolve) => this.exclusiveWaiters.push(resolve));
+      else if (this.writers > 0) await this.noWriters();
+      else break;
+    }
+    this.holdForIngest();
+    let released = false;
+    return () => {
+      if (released) return;
+      released = true;
+      this.releaseFromIngest();
+    };
   }
 
   /** Resolves once no main-thread writer holds a slot (at once if none does). */

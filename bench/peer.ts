@@ -1,10 +1,10 @@
 // Benchmark (issue 15): the analyzer against the script a careful analyst would write instead (bench/peer/summary.py,
 // pandas/numpy), on the same seeded 1 000 000-row native log, in one paired run: the two alternate, five runs each,
 // wall time from spawn to exit and each process's own peak resident memory. Checks that both give the same median,
-// quartiles and nights. Needs Debian's python3-pandas, installed through apt-get when missing (as npm test does for
+// quartiles and nights, and that the analyzer's whole report still equals the reference one (requireSameReport). Needs Debian's python3-pandas, installed through apt-get when missing (as npm test does for
 // chromium). Run through bench/run.ts (`npm run bench -- --only peer`) or alone: node_modules/.bin/tsx bench/peer.ts [rows].
 import { spawn, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { writeSyntheticLog } from '../packages/seeing-stats/src/node/index.js';
@@ -59,11 +59,59 @@ function runPeer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; 
   });
 }
 
-async function runAnalyzer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; cpuMs: number; figures: Figures }> {
+async function runAnalyzer(logPath: string): Promise<{ wallMs: number; peakRssMb: number; cpuMs: number; figures: Figures; report: unknown }> {
   const result = await runMeasured([join(root, 'scripts', 'analyze.mjs'), logPath, '--json', ...FLAGS], root);
   if (result.exitCode !== 0) throw new Error(`the analyzer exited with ${String(result.exitCode)}: ${result.stderr.slice(0, 500)}`);
   const report = JSON.parse(result.stdout) as { samples: { accepted: number }; nights: number; seeing: { median: number; p25: number; p75: number } };
-  return { wallMs: result.wallMs, peakRssMb: result.peakRssMb, cpuMs: result.cpuMs, figures: { accepted: report.samples.accepted, nights: report.nights, median: report.seeing.median, p25: report.seeing.p25, p75: report.seeing.p75 } };
+  return {
+    wallMs: result.wallMs,
+    peakRssMb: result.peakRssMb,
+    cpuMs: result.cpuMs,
+    figures: { accepted: report.samples.accepted, nights: report.nights, median: report.seeing.median, p25: report.seeing.p25, p75: report.seeing.p75 },
+    report,
+  };
+}
+
+/** Relative tolerance of the exactness check: the same numbers as the reference, to rounding in the last bits at most. */
+const EXACT_TOLERANCE = 1e-12;
+/** The one report field that depends on the day it runs (the plausible times end one day after now). */
+const DAY_DEPENDENT = '.plausibility.latestTimeUtc';
+
+/**
+ * The analyzer's whole JSON report against the one the analyzer gave on the same log before the speed work of
+ * issue 15 (bench/peer/reference/analyzer-N-rows.json, written by main at b0c1ac6): every number within
+ * EXACT_TOLERANCE relative (absolute below 1), every other value equal, no field more or less. Returns how many numbers
+ * were compared, or null when there is no reference for this row count; throws naming the first difference.
+ */
+export function requireSameReport(report: unknown, rows: number): number | null {
+  const referencePath = join(root, 'bench', 'peer', 'reference', `analyzer-${rows}-rows.json`);
+  if (!existsSync(referencePath)) return null;
+  const reference: unknown = JSON.parse(readFileSync(referencePath, 'utf8'));
+  let numbers = 0;
+  const differences: string[] = [];
+  const walk = (expected: unknown, got: unknown, path: string): void => {
+    if (path === DAY_DEPENDENT || differences.length >= 5) return;
+    if (typeof expected === 'number' && typeof got === 'number') {
+      numbers += 1;
+      if (!(expected === got || Math.abs(expected - got) <= EXACT_TOLERANCE * Math.max(1, Math.abs(expected)))) differences.push(`${path}: ${expected} before, ${got} now`);
+      return;
+    }
+    if (expected === null || got === null || typeof expected !== 'object' || typeof got !== 'object') {
+      if (expected !== got) differences.push(`${path}: ${JSON.stringify(expected)} before, ${JSON.stringify(got)} now`);
+      return;
+    }
+    if (Array.isArray(expected) !== Array.isArray(got)) {
+      differences.push(`${path}: ${Array.isArray(expected) ? 'a list' : 'an object'} before, not now`);
+      return;
+    }
+    const keys = new Set([...Object.keys(expected), ...Object.keys(got)]);
+    for (const key of keys) walk((expected as Record<string, unknown>)[key], (got as Record<string, unknown>)[key], `${path}.${key}`);
+  };
+  walk(reference, report, '');
+  if (differences.length > 0) {
+    throw new Error(`the analyzer's report differs from bench/peer/reference/analyzer-${rows}-rows.json (today's statistics must stay exact): ${differences.join('; ')}`);
+  }
+  return numbers;
 }
 
 /** Same median, quartiles (to 1e-9 relative: numpy's and V8's powers may differ in the last bit) and nights, or an error naming the figure. */
@@ -91,6 +139,7 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
   const warmAnalyzer = await runAnalyzer(logPath);
   const warmPeer = await runPeer(logPath);
   requireAgreement(warmAnalyzer.figures, warmPeer.figures);
+  const numbersCompared = requireSameReport(warmAnalyzer.report, options.rows);
   const analyzerWall: number[] = [];
   const peerWall: number[] = [];
   const analyzerRss: number[] = [];
@@ -102,6 +151,7 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     const analyzer = await runAnalyzer(logPath);
     const peer = await runPeer(logPath);
     requireAgreement(analyzer.figures, peer.figures);
+    requireSameReport(analyzer.report, options.rows);
     analyzerWall.push(analyzer.wallMs);
     peerWall.push(peer.wallMs);
     analyzerRss.push(analyzer.peakRssMb);
@@ -134,6 +184,10 @@ export async function run(options: { rows: number; runs?: number }): Promise<Rec
     medianSeeingArcsec: Number(warmAnalyzer.figures.median.toFixed(6)),
     nights: warmAnalyzer.figures.nights,
     agreement: 'median, p25, p75 within 1e-9 relative; nights and accepted samples equal (checked on every run)',
+    exactness:
+      numbersCompared === null
+        ? `not checked: no reference report for ${options.rows} rows in bench/peer/reference/`
+        : `the whole JSON report equals bench/peer/reference/analyzer-${options.rows}-rows.json (the analyzer before issue 15's speed work): ${numbersCompared} numbers within ${EXACT_TOLERANCE} relative, every other value equal (checked on every run)`,
     peer: `${PYTHON} bench/peer/summary.py (pandas ${pandasVersion[0] ?? '?'}, numpy ${pandasVersion[1] ?? '?'}, Python ${pandasVersion[2] ?? '?'})`,
     analyzer: 'node scripts/analyze.mjs <log> --json --aperture-mm 60 --baseline-mm 200 --site-lat -27.42 --site-lon -70.15',
     loadAverage1Min: Number((await import('node:os')).loadavg()[0]?.toFixed(1)),

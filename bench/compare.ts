@@ -1,8 +1,8 @@
 // Benchmark of the site comparison (issue 10): four invented ridges with `rows` stored samples each, through the
-// upload API of a real server process; then a fresh server process on the same data answers
-// GET /api/comparisons for the four: cold (first call: columns loaded from SQLite, sorted, everything computed),
-// warm (the same comparison again, median of 5: the server keeps finished comparisons until data changes) and
-// recomputed (columns in memory but a comparison not asked before: another outer scale each time, median of 3).
+// upload API of a real server process; then fresh server processes on the same data answer GET /api/comparisons
+// for the four: cold three ways (see run()), warm (the same comparison again, median of 5: the server keeps finished
+// comparisons until data changes) and recomputed (columns in memory but a comparison not asked before: another
+// outer scale each time, median of 3).
 // Run through bench/run.ts (`npm run bench -- --only compare`).
 import { spawn, type ChildProcess } from "node:child_process";
 import { existsSync, mkdirSync, mkdtempSync, openAsBlob, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
@@ -11,6 +11,7 @@ import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
 import { median } from "./childProcess.ts";
+import { columnSnapshotDir, snapshotVersion } from "../apps/server/src/summaries/column-snapshot.server.ts";
 import { freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
@@ -70,9 +71,10 @@ async function stopServer(server: ChildProcess): Promise<void> {
 }
 
 /** Creates the four ridges with a campaign each and uploads their logs; returns the site ids and samples stored. */
-async function loadRidges(base: string, rows: number): Promise<{ siteIds: number[]; stored: number }> {
+async function loadRidges(base: string, rows: number): Promise<{ siteIds: number[]; campaignIds: number[]; stored: number }> {
   const { headers, postJson: json } = await signInAsLead(base, PASSWORD);
   const siteIds: number[] = [];
+  const campaignIds: number[] = [];
   let stored = 0;
   for (const ridge of RIDGES) {
     const logPath = await ridgeLog(ridge, rows);
@@ -93,47 +95,85 @@ async function loadRidges(base: string, rows: number): Promise<{ siteIds: number
       await new Promise((resolve) => setTimeout(resolve, 50));
     }
     siteIds.push(site.id);
+    campaignIds.push(campaign.id);
   }
-  return { siteIds, stored };
+  return { siteIds, campaignIds, stored };
 }
 
-/**
- * Runs the comparison benchmark. With `keepDataDir` (CALMCREST_BENCH_COMPARE_DATA_DIR) the loaded data directory is
- * kept there and reused by the next run with the same rows, so the cold figure can be measured again without four
- * uploads (the ridges' ids and stored count are kept in bench-compare.json beside the database).
- */
-/**
- * The same comparison's first answer from another fresh process after the first one stopped: the first wrote each
- * campaign's column snapshot (data/cache/columns) when it read the rows, so this one reads those files instead.
- * This is the cold answer after a restart of a server that had served the campaigns before.
- */
-async function coldAfterRestart(dataDir: string, siteIds: number[], previous: ChildProcess): Promise<Record<string, number>> {
-  await stopServer(previous);
+/** Waits until the ingest worker has written each campaign's column snapshot (it does so just after an ingest commits). */
+export async function waitForSnapshots(dataDir: string, campaignIds: readonly number[], timeoutMs = 120_000): Promise<void> {
+  const directory = columnSnapshotDir(join(dataDir, "calmcrest.sqlite"));
+  const startedMs = performance.now();
+  while (campaignIds.some((campaignId) => snapshotVersion(directory, campaignId) === null)) {
+    if (performance.now() - startedMs > timeoutMs) throw new Error(`no column snapshot after ingest for campaigns ${campaignIds.join(", ")} within ${timeoutMs} ms`);
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+}
+
+/** A fresh server process on the data directory: its first comparison of the four (wall and server CPU), then optionally warm and not-asked-before ones. */
+async function freshServerComparison(dataDir: string, siteIds: number[], options: { more: boolean }): Promise<Record<string, number | string>> {
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
   const server = startServer(dataDir, port);
   try {
     await waitForHealth(base, server, 60_000);
     const { headers } = await signInAsLead(base, PASSWORD);
+    let commonNights = 0;
+    let verdicts = "";
+    const compareMs = async (extra = "") => {
+      const begin = performance.now();
+      const response = await fetch(`${base}/api/comparisons?sites=${siteIds.join(",")}${extra}`, { headers });
+      if (!response.ok) throw new Error(`comparison: ${response.status} ${await response.text()}`);
+      const body = (await response.json()) as { pairs: { paired: { commonNights: number; verdict: string | null } | null }[] };
+      const elapsedMs = performance.now() - begin;
+      commonNights = Math.min(...body.pairs.map((pair) => pair.paired?.commonNights ?? 0));
+      verdicts = body.pairs.map((pair) => pair.paired?.verdict ?? "none").join(",");
+      return elapsedMs;
+    };
+    // The server's own CPU time beside each wall time: on a shared machine the wall time also holds other processes' turns.
     const cpuBefore = processCpuMs(server.pid ?? 0);
-    const begin = performance.now();
-    const response = await fetch(`${base}/api/comparisons?sites=${siteIds.join(",")}`, { headers });
-    if (!response.ok) throw new Error(`comparison after restart: ${response.status} ${await response.text()}`);
-    await response.arrayBuffer();
-    return { comparisonColdAfterRestartMs: Math.round(performance.now() - begin), comparisonColdAfterRestartServerCpuMs: processCpuMs(server.pid ?? 0) - cpuBefore };
+    const coldMs = await compareMs();
+    const result: Record<string, number | string> = { coldMs: Math.round(coldMs), coldServerCpuMs: processCpuMs(server.pid ?? 0) - cpuBefore, fewestCommonNights: commonNights, verdicts };
+    if (!options.more) return result;
+    const warm: number[] = [];
+    for (let index = 0; index < 5; index += 1) warm.push(await compareMs());
+    const recomputed: number[] = [];
+    const recomputedCpu: number[] = [];
+    for (const outerScaleM of [26, 27, 28]) {
+      const before = processCpuMs(server.pid ?? 0);
+      recomputed.push(await compareMs(`&outerScaleM=${outerScaleM}`));
+      recomputedCpu.push(processCpuMs(server.pid ?? 0) - before);
+    }
+    return {
+      ...result,
+      warmMedianMs: Math.round(median(warm)),
+      recomputedMedianMs: Math.round(median(recomputed)),
+      recomputedServerCpuMedianMs: median(recomputedCpu),
+      serverPeakRssMb: Math.round(peakRssMb(server.pid ?? 0)),
+    };
   } finally {
     await stopServer(server);
   }
 }
 
+/**
+ * Runs the comparison benchmark. "Cold" is always a fresh server process (started, healthy, a lead signed in) and
+ * its first request, with nothing of the samples in its memory; three cold figures differ in what is on disk:
+ * after ingest (the column snapshots the ingest worker wrote when each upload committed, as in normal use), with
+ * no snapshot files at all (data/cache removed: every row read through SQLite), and after a restart (the snapshots
+ * the previous process's summary workers wrote). With `keepDataDir` (CALMCREST_BENCH_COMPARE_DATA_DIR) the loaded
+ * data directory is kept there and reused by the next run with the same rows (the ridges' ids and stored count are
+ * kept in bench-compare.json beside the database); its "after ingest" figure then reads the snapshots the last
+ * run's workers left (the same files, written by another process).
+ */
 export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMPARE_DATA_DIR }: { rows: number; runs?: number; keepDataDir?: string }): Promise<Record<string, number | string>> {
   const dataDir = keepDataDir ?? mkdtempSync(join(tmpdir(), "calmcrest-bench-compare-"));
   const loadedFile = join(dataDir, "bench-compare.json");
   try {
-    let loaded: { siteIds: number[]; stored: number; rows?: number } | null = null;
+    let loaded: { siteIds: number[]; campaignIds: number[]; stored: number; rows?: number } | null = null;
     if (keepDataDir !== undefined && existsSync(loadedFile)) {
-      const kept = JSON.parse(readFileSync(loadedFile, "utf8")) as { siteIds: number[]; stored: number; rows?: number };
-      if (kept.rows === rows) loaded = kept;
+      const kept = JSON.parse(readFileSync(loadedFile, "utf8")) as { siteIds: number[]; campaignIds?: number[]; stored: number; rows?: number };
+      if (kept.rows === rows && kept.campaignIds !== undefined) loaded = { ...kept, campaignIds: kept.campaignIds };
       else rmSync(dataDir, { recursive: true, force: true });
     }
     if (loaded === null) {
@@ -143,65 +183,37 @@ export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_COMP
       try {
         await waitForHealth(`http://127.0.0.1:${loadPort}`, loader, 60_000);
         loaded = { ...(await loadRidges(`http://127.0.0.1:${loadPort}`, rows)), rows };
+        await waitForSnapshots(dataDir, loaded.campaignIds);
       } finally {
         await stopServer(loader);
       }
       if (keepDataDir !== undefined) writeFileSync(loadedFile, JSON.stringify(loaded));
     }
-
-    // A fresh process on the same data: nothing of the samples is in memory yet, and no column snapshot exists
-    // (data/cache/columns: a kept data directory loses them here, so every run measures the cold read from SQLite).
+    const afterIngest = await freshServerComparison(dataDir, loaded.siteIds, { more: true });
+    // No snapshot files at all: every row read through better-sqlite3.
     rmSync(join(dataDir, "cache"), { recursive: true, force: true });
-    const port = await freePort();
-    const base = `http://127.0.0.1:${port}`;
-    const server = startServer(dataDir, port);
-    try {
-      await waitForHealth(base, server, 60_000);
-      const { headers } = await signInAsLead(base, PASSWORD);
-      let commonNights = 0;
-      let verdicts = "";
-      const compareMs = async (extra = "") => {
-        const begin = performance.now();
-        const response = await fetch(`${base}/api/comparisons?sites=${loaded.siteIds.join(",")}${extra}`, { headers });
-        if (!response.ok) throw new Error(`comparison: ${response.status} ${await response.text()}`);
-        const body = (await response.json()) as { pairs: { paired: { commonNights: number; verdict: string | null } | null }[] };
-        const elapsedMs = performance.now() - begin;
-        commonNights = Math.min(...body.pairs.map((pair) => pair.paired?.commonNights ?? 0));
-        verdicts = body.pairs.map((pair) => pair.paired?.verdict ?? "none").join(",");
-        return elapsedMs;
-      };
-      // The server's own CPU time beside each wall time: on a shared machine the wall time also holds other processes' turns.
-      const cpuBefore = processCpuMs(server.pid ?? 0);
-      const coldMs = await compareMs();
-      const coldCpuMs = processCpuMs(server.pid ?? 0) - cpuBefore;
-      const warm: number[] = [];
-      for (let index = 0; index < 5; index += 1) warm.push(await compareMs());
-      const recomputed: number[] = [];
-      const recomputedCpu: number[] = [];
-      for (const outerScaleM of [26, 27, 28]) {
-        const before = processCpuMs(server.pid ?? 0);
-        recomputed.push(await compareMs(`&outerScaleM=${outerScaleM}`));
-        recomputedCpu.push(processCpuMs(server.pid ?? 0) - before);
-      }
-      return {
-        sites: RIDGES.length,
-        storedSamplesPerSite: Math.round(loaded.stored / RIDGES.length),
-        storedSamplesTotal: loaded.stored,
-        fewestCommonNights: commonNights,
-        verdicts,
-        comparisonColdMs: Math.round(coldMs),
-        comparisonColdServerCpuMs: coldCpuMs,
-        comparisonWarmMedianMs: Math.round(median(warm)),
-        comparisonRecomputedMedianMs: Math.round(median(recomputed)),
-        comparisonRecomputedServerCpuMedianMs: median(recomputedCpu),
-        loadAverage1Min: Number(loadavg()[0]?.toFixed(1)),
-        serverPeakRssMb: Math.round(peakRssMb(server.pid ?? 0)),
-        ...(await coldAfterRestart(dataDir, loaded.siteIds, server)),
-        runAt: new Date().toISOString(),
-      };
-    } finally {
-      await stopServer(server);
-    }
+    const noSnapshots = await freshServerComparison(dataDir, loaded.siteIds, { more: false });
+    // The previous process's workers wrote the snapshots when they read the rows.
+    const afterRestart = await freshServerComparison(dataDir, loaded.siteIds, { more: false });
+    return {
+      sites: RIDGES.length,
+      storedSamplesPerSite: Math.round(loaded.stored / RIDGES.length),
+      storedSamplesTotal: loaded.stored,
+      fewestCommonNights: afterIngest.fewestCommonNights ?? 0,
+      verdicts: afterIngest.verdicts ?? "",
+      comparisonColdAfterIngestMs: afterIngest.coldMs ?? 0,
+      comparisonColdAfterIngestServerCpuMs: afterIngest.coldServerCpuMs ?? 0,
+      comparisonColdNoSnapshotsMs: noSnapshots.coldMs ?? 0,
+      comparisonColdNoSnapshotsServerCpuMs: noSnapshots.coldServerCpuMs ?? 0,
+      comparisonColdAfterRestartMs: afterRestart.coldMs ?? 0,
+      comparisonColdAfterRestartServerCpuMs: afterRestart.coldServerCpuMs ?? 0,
+      comparisonWarmMedianMs: afterIngest.warmMedianMs ?? 0,
+      comparisonRecomputedMedianMs: afterIngest.recomputedMedianMs ?? 0,
+      comparisonRecomputedServerCpuMedianMs: afterIngest.recomputedServerCpuMedianMs ?? 0,
+      serverPeakRssMb: afterIngest.serverPeakRssMb ?? 0,
+      loadAverage1Min: Number(loadavg()[0]?.toFixed(1)),
+      runAt: new Date().toISOString(),
+    };
   } finally {
     if (keepDataDir === undefined) rmSync(dataDir, { recursive: true, force: true });
   }

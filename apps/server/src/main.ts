@@ -5,6 +5,8 @@ import { toError } from "./http/errors";
 try {
   const env = parseEnv();
   const context = await createContext(env);
+  // The summary workers load their code before the server listens, not inside the first summary or comparison someone asks for.
+  await context.summaries.start();
   const server = await listen(context);
   if (!env.listensOnLoopback && !env.publicOrigin) {
     console.warn(

@@ -7,6 +7,8 @@ import { streamLog } from "@calmcrest/seeing-stats/node";
 import { tune } from "../db/tune.server";
 import { runSampleMove } from "../store/sample-moves";
 import { BUMP_DATA_VERSION_SQL } from "../summaries/data-version.server";
+import { columnSnapshotDir } from "../summaries/column-snapshot.server";
+import { writeSnapshotAfterIngest } from "../summaries/snapshot-at-ingest.server";
 import type { FromWorker, IngestJob, ToWorker } from "./ingest-protocol";
 
 // Runs in a worker thread so the HTTP server stays responsive while a large file is parsed and written, and so
@@ -253,6 +255,8 @@ async function ingest(job: IngestJob): Promise<void> {
     let result = staged.result;
     if (!commitStaged(db, job, result)) result = await ingestInsideLock(db, job);
     post({ type: "done", uploadId: job.uploadId, rowsRead: result.rowsRead, accepted: result.accepted, rejectedByReason: result.rejectedByReason });
+    // After the commit, for the new data version: the first summary of it reads this file, not the rows.
+    writeSnapshotAfterIngest(db, columnSnapshotDir(job.dbFile), job.campaignId);
   } catch (error) {
     post({ type: "failed", uploadId: job.uploadId, message: describe(error) });
   } finally {

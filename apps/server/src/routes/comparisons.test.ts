@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import type { ComparisonResponse, SiteListItem } from "@calmcrest/contracts";
 import { seedDemoScenario } from "../seed/demo-scenario";
+import { compareForUser } from "../summaries/compare.server";
+import { SummaryService } from "../summaries/summary-service.server";
 import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
 
 // The demo scenario at a tenth of its length: four invented ridges, the engineer a member at two of them.
@@ -102,5 +104,25 @@ describe("GET /api/comparisons", () => {
       campaigns: ["campaigns: there is no campaign with id 99998. Choose the campaigns to compare from the list on the Compare page."],
     });
     expect(await fieldsOf(`sites=${allFour}&from=2025-06-02&to=2025-06-01`)).toEqual({ to: ["to must not be before from: the window must end on or after its first day."] });
+  });
+
+  it("gives the same comparison from one summary worker as from two sharing it (rows on one, pairs on the other)", async () => {
+    const leadId = (await context.store.users.idByEmail("lead@calmcrest.test")) ?? "";
+    const row = await context.store.users.byId(leadId);
+    expect(row).toBeDefined();
+    const user = { id: leadId, email: row?.email ?? "", name: row?.name ?? "", role: row?.role ?? "lead", status: row?.status ?? "active" };
+    const query = { sites: sites.map((site) => site.id), bandNm: 500, outerScaleM: 31, pairing: "nights" as const };
+    const answers: string[] = [];
+    for (const workers of [1, 2]) {
+      const summaries = new SummaryService({ dbFile: context.db.file, sqlite: context.db.sqlite, workers });
+      try {
+        const { generatedAt: _generatedAt, ...answer } = await compareForUser({ ...context, summaries }, user, query);
+        expect(answer.pairs.filter((pair) => pair.paired !== null)).toHaveLength(6);
+        answers.push(JSON.stringify(answer));
+      } finally {
+        await summaries.close();
+      }
+    }
+    expect(answers[1]).toBe(answers[0]);
   });
 });

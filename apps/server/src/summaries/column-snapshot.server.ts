@@ -1,5 +1,5 @@
 import { existsSync, mkdirSync, openSync, closeSync, readSync, fstatSync, renameSync, rmSync, writeSync } from "node:fs";
-import { join } from "node:path";
+import { dirname, join } from "node:path";
 import { threadId } from "node:worker_threads";
 import type { SortedSeeing } from "@calmcrest/seeing-stats";
 import type { CampaignColumns } from "./sample-cache.server";
@@ -27,6 +27,11 @@ export interface SampleFingerprint {
   tau0Count: number;
   theta0Count: number;
   wavelengthNm: number;
+}
+
+/** Where a server keeps its column snapshots: data/cache/columns beside the database file (deleting it is always safe). */
+export function columnSnapshotDir(dbFile: string): string {
+  return join(dirname(dbFile), "cache", "columns");
 }
 
 export function snapshotPath(directory: string, campaignId: number): string {
@@ -58,6 +63,23 @@ function bodyArrays(columns: CampaignColumns, sort: SortedSeeing): ArrayBufferVi
 function expectedBytes(fingerprint: SampleFingerprint): number {
   const floatColumns = 6 + (fingerprint.tau0Count > 0 ? 1 : 0) + (fingerprint.theta0Count > 0 ? 1 : 0);
   return HEADER_BYTES + fingerprint.count * (floatColumns * 8 + 4 + 1);
+}
+
+/** The data version a campaign's snapshot file was written at (null without a readable file); for tests and benchmarks. */
+export function snapshotVersion(directory: string, campaignId: number): number | null {
+  const path = snapshotPath(directory, campaignId);
+  if (!existsSync(path)) return null;
+  let descriptor: number | null = null;
+  try {
+    descriptor = openSync(path, "r");
+    const header = new Float64Array(HEADER_FLOATS);
+    if (readSync(descriptor, new Uint8Array(header.buffer), 0, HEADER_BYTES, 0) !== HEADER_BYTES) return null;
+    return header[0] === MAGIC && header[1] === campaignId ? (header[2] ?? null) : null;
+  } catch {
+    return null;
+  } finally {
+    if (descriptor !== null) closeSync(descriptor);
+  }
 }
 
 /** Writes the snapshot (to a temporary name, then renamed, so a reader never sees half a file). Failures are only logged: the file is an optimisation. */

@@ -4,7 +4,7 @@ import type { ComparedCampaign, ComparisonQuery, ComparisonResponse } from "@cal
 import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
 import { campaignMonitor, siteRef, type CampaignRow, type SiteRow } from "../store/index";
-import type { ComparisonRowInput } from "./comparison";
+import { mergeComparisonParts, type ComparisonRowInput, type PairFigures } from "./comparison";
 import type { SummaryAnswer } from "./summary-service.server";
 
 // GET /api/comparisons on the main thread: access to every site or campaign, the rows' campaigns, uploads and
@@ -102,6 +102,12 @@ export async function compareForUserAnswer(context: AppContext, user: User, quer
     campaignIds: allCampaignIds,
     key: JSON.stringify({ kind, rows, settings }),
     input: () => ({ kind, rows, query }),
+    // With two workers: the rows' summaries on one and the pairs on the other, at the same time (the same answer).
+    split: {
+      parts: (input) => [{ ...input, part: "rows" }, { ...input, part: "pairs" }],
+      merge: ([rowsBody, pairsBody]) =>
+        Buffer.from(JSON.stringify(mergeComparisonParts(JSON.parse(String(rowsBody)) as ComparisonResponse, JSON.parse(String(pairsBody)) as PairFigures[]))),
+    },
   });
 }
 

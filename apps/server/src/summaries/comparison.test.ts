@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { DEFAULT_FILTERS, sortPositive } from "@calmcrest/seeing-stats";
 import type { ComparedCampaign } from "@calmcrest/contracts";
-import { computeComparison, type ComparisonItemInput } from "./comparison";
+import { computeComparison, computeComparisonPairs, mergeComparisonParts, type ComparisonItemInput, type ComparisonSettings } from "./comparison";
 
 const OFFSETS = [0, 0.01, 0.03, 0.05];
 
@@ -55,13 +55,14 @@ function item(index: number, label: string, columns: { timeMs: Float64Array; see
 const north = item(1, "North", nights([{ month: 3, days: range(1, 12), level: 0.6 }, { month: 4, days: [1, 2], level: 1.0 }]), 6);
 const south = item(2, "South", nights([{ month: 3, days: range(1, 12), level: 0.7 }]), 6);
 const east = item(3, "East", nights([{ month: 3, days: range(5, 9), level: 0.9 }]), 2);
-const comparison = computeComparison([north, south, east], {
+const settings: ComparisonSettings = {
   kind: "sites",
   resolved: { fromMs: null, toMs: null, from: null, to: null, filters: DEFAULT_FILTERS },
   telescope: { apertureM: null, bandNm: 500, outerScaleM: 25 },
   pairing: "nights",
   generatedAt: "2026-12-05T00:00:00.000Z",
-});
+};
+const comparison = computeComparison([north, south, east], settings);
 
 describe("computeComparison on hand-built logs", () => {
   it("gives the season-balanced median of an unequal month mix, worked by hand, beside the pooled one", () => {
@@ -110,5 +111,19 @@ describe("computeComparison on hand-built logs", () => {
     expect(comparison.rows[2]?.statistics?.seeing.medianCi95).toBeNull();
     expect(comparison.filters.standard).toBe(true);
     expect(comparison.warnings).toEqual([]);
+  });
+
+  it("gives the same answer, byte for byte as JSON, when the rows and the pairs are computed apart (two workers) and joined", () => {
+    for (const pairing of ["nights", "bins"] as const) {
+      const items = [north, south, east];
+      const whole = computeComparison(items, { ...settings, pairing });
+      const rowsPart = computeComparison(items, { ...settings, pairing }, "omit");
+      // The rows part leaves every pair's figures out; the pairs part has them, in the same order.
+      expect(rowsPart.pairs.every((pair) => pair.paired === null && pair.unpaired === null)).toBe(true);
+      // Through JSON, as the parts travel from the workers.
+      const joined = mergeComparisonParts(JSON.parse(JSON.stringify(rowsPart)), JSON.parse(JSON.stringify(computeComparisonPairs(items, { pairing }))));
+      expect(JSON.stringify(joined)).toBe(JSON.stringify(whole));
+    }
+    expect(() => mergeComparisonParts(comparison, [])).toThrow(/3 pairs and 0 pair figures/);
   });
 });

@@ -66,7 +66,7 @@ export interface ComparisonSettings {
  * engine's prepared-site entry points (the same results, each row's nights arranged once for all its pairs), and the comparison's
  * warnings per row, per pair and overall (comparisonWarnings). Pure: the same input gives the same output.
  */
-export function computeComparison(items: readonly ComparisonItemInput[], settings: ComparisonSettings): ComparisonResponse {
+export function computeComparison(items: readonly ComparisonItemInput[], settings: ComparisonSettings, pairFigures?: readonly PairFigures[] | "omit"): ComparisonResponse {
   const { resolved, telescope } = settings;
   const matchedBinMinutes = settings.pairing === "bins" ? PAIRING_BIN_MINUTES : undefined;
   const summaries = items.map((item) =>
@@ -138,54 +138,12 @@ export function computeComparison(items: readonly ComparisonItemInput[], setting
     };
   });
 
-  // Each row's samples arranged once for all its pairs (nights, nightly medians, bootstrap replicates).
-  const preparedRows = new Map<number, ReturnType<typeof prepareSite>>();
-  const prepared = (index: number) => {
-    const cached = preparedRows.get(index);
-    if (cached) return cached;
-    const item = items[index];
-    if (!item) throw new Error(`no comparison row ${index}`);
-    const made = prepareSite({ timeMs: item.selected.timeMs, seeingArcsec: item.selected.seeingArcsec }, item.selected.presorted, { longitudeDeg: item.site.longitude });
-    preparedRows.set(index, made);
-    return made;
-  };
-  const pairs: ComparisonPair[] = warnings.pairs.map(({ a, b, warnings: pairWarnings }) => {
-    const itemA = items[a];
-    const itemB = items[b];
-    const base = { a, b, aKey: itemA?.key ?? "", bKey: itemB?.key ?? "", warnings: pairWarnings };
-    if (!itemA || !itemB || itemA.selected.seeingArcsec.length === 0 || itemB.selected.seeingArcsec.length === 0) {
-      return { ...base, paired: null, unpaired: null };
-    }
-    const preparedA = prepared(a);
-    const preparedB = prepared(b);
-    const paired = comparePreparedPaired(preparedA, preparedB, {
-      ...(matchedBinMinutes === undefined ? {} : { matchedBinMinutes }),
-      bootstrapReplicates: REPLICATES,
-      seed: SEED,
-    });
-    const unpaired = comparePreparedUnpaired(preparedA, preparedB, { bootstrapReplicates: REPLICATES, seed: SEED });
-    const { nights, ...differencePercentiles } = paired.nightlyDifferences;
-    return {
-      ...base,
-      paired: {
-        commonNights: paired.commonNights,
-        matching: paired.matching,
-        binMinutes: paired.binMinutes,
-        samplesA: paired.samplesA,
-        samplesB: paired.samplesB,
-        medianA: paired.medianA,
-        medianB: paired.medianB,
-        medianDifferenceArcsec: paired.medianDifferenceArcsec,
-        ci95: paired.ci95,
-        interval: paired.interval,
-        nightlyDifferences: differencePercentiles,
-        wilcoxon: paired.wilcoxon,
-        verdict: paired.verdict,
-        sentence: describePairedVerdict(itemA.label, itemB.label, paired),
-        histogram: differenceHistogram(nights.map((night) => night.differenceArcsec)),
-      },
-      unpaired: { ...unpaired, note: UNPAIRED_NOTE },
-    };
+  // The pairs' figures: given (computed by another worker at the same time), left out, or computed here.
+  const figures = pairFigures === "omit" ? null : (pairFigures ?? computeComparisonPairs(items, settings));
+  const pairs: ComparisonPair[] = warnings.pairs.map(({ a, b, warnings: pairWarnings }, index) => {
+    const base = { a, b, aKey: items[a]?.key ?? "", bKey: items[b]?.key ?? "", warnings: pairWarnings };
+    const figure = figures?.[index];
+    return { ...base, paired: figure?.paired ?? null, unpaired: figure?.unpaired ?? null };
   });
 
   const filters = resolved.filters;
@@ -231,6 +189,72 @@ export function computeComparison(items: readonly ComparisonItemInput[], setting
   };
 }
 
+/** The paired and unpaired figures of one pair of rows (null when a row has no samples). */
+export type PairFigures = Pick<ComparisonPair, "paired" | "unpaired">;
+
+/** Every pair of rows a < b, in the order comparisonWarnings lists them (a, then b, ascending). */
+function pairIndices(rowCount: number): { a: number; b: number }[] {
+  const pairs: { a: number; b: number }[] = [];
+  for (let a = 0; a < rowCount; a += 1) for (let b = a + 1; b < rowCount; b += 1) pairs.push({ a, b });
+  return pairs;
+}
+
+/**
+ * Every pair's paired figures on common nights and unpaired figures, in pair order: the part of computeComparison
+ * that does not need the rows' summaries, so another worker can compute it at the same time (summary-service's
+ * split). computeComparison(items, settings, computeComparisonPairs(items, settings)) is computeComparison(items, settings).
+ */
+export function computeComparisonPairs(items: readonly ComparisonItemInput[], settings: Pick<ComparisonSettings, "pairing">): PairFigures[] {
+  const matchedBinMinutes = settings.pairing === "bins" ? PAIRING_BIN_MINUTES : undefined;
+  // Each row's samples arranged once for all its pairs (nights, nightly medians, bootstrap replicates).
+  const preparedRows = new Map<number, ReturnType<typeof prepareSite>>();
+  const prepared = (index: number) => {
+    const cached = preparedRows.get(index);
+    if (cached) return cached;
+    const item = items[index];
+    if (!item) throw new Error(`no comparison row ${index}`);
+    const made = prepareSite({ timeMs: item.selected.timeMs, seeingArcsec: item.selected.seeingArcsec }, item.selected.presorted, { longitudeDeg: item.site.longitude });
+    preparedRows.set(index, made);
+    return made;
+  };
+  return pairIndices(items.length).map(({ a, b }): PairFigures => {
+    const itemA = items[a];
+    const itemB = items[b];
+    if (!itemA || !itemB || itemA.selected.seeingArcsec.length === 0 || itemB.selected.seeingArcsec.length === 0) {
+      return { paired: null, unpaired: null };
+    }
+    const preparedA = prepared(a);
+    const preparedB = prepared(b);
+    const paired = comparePreparedPaired(preparedA, preparedB, {
+      ...(matchedBinMinutes === undefined ? {} : { matchedBinMinutes }),
+      bootstrapReplicates: REPLICATES,
+      seed: SEED,
+    });
+    const unpaired = comparePreparedUnpaired(preparedA, preparedB, { bootstrapReplicates: REPLICATES, seed: SEED });
+    const { nights, ...differencePercentiles } = paired.nightlyDifferences;
+    return {
+      paired: {
+        commonNights: paired.commonNights,
+        matching: paired.matching,
+        binMinutes: paired.binMinutes,
+        samplesA: paired.samplesA,
+        samplesB: paired.samplesB,
+        medianA: paired.medianA,
+        medianB: paired.medianB,
+        medianDifferenceArcsec: paired.medianDifferenceArcsec,
+        ci95: paired.ci95,
+        interval: paired.interval,
+        nightlyDifferences: differencePercentiles,
+        wilcoxon: paired.wilcoxon,
+        verdict: paired.verdict,
+        sentence: describePairedVerdict(itemA.label, itemB.label, paired),
+        histogram: differenceHistogram(nights.map((night) => night.differenceArcsec)),
+      },
+      unpaired: { ...unpaired, note: UNPAIRED_NOTE },
+    };
+  });
+}
+
 /** A row as the main thread resolved it for the caller: who it is, its visible campaigns and how they were measured. */
 export interface ComparisonRowInput {
   key: string;
@@ -246,10 +270,22 @@ export interface ComparisonTaskInput {
   kind: ComparisonResponse["kind"];
   rows: ComparisonRowInput[];
   query: ComparisonQuery;
+  /**
+   * Only a part, when two workers share the comparison (summary-service's split): "rows" gives the whole answer
+   * with every pair's figures left null, "pairs" only the pairs' figures (PairFigures[]); mergeComparisonParts
+   * joins them. Absent: the whole answer.
+   */
+  part?: "rows" | "pairs";
 }
 
-/** Runs in a summary worker: selects each row's samples from the worker's sample cache and computes the comparison. */
-export function runComparisonTask(cache: SampleCache, input: ComparisonTaskInput): ComparisonResponse {
+/** The answer of a "rows" part with the pairs' figures of the "pairs" part put in: what one worker computing both gives. */
+export function mergeComparisonParts(rowsPart: ComparisonResponse, pairsPart: readonly PairFigures[]): ComparisonResponse {
+  if (pairsPart.length !== rowsPart.pairs.length) throw new Error(`comparison parts disagree: ${rowsPart.pairs.length} pairs and ${pairsPart.length} pair figures`);
+  return { ...rowsPart, pairs: rowsPart.pairs.map((pair, index) => ({ ...pair, paired: pairsPart[index]?.paired ?? null, unpaired: pairsPart[index]?.unpaired ?? null })) };
+}
+
+/** Runs in a summary worker: selects each row's samples from the worker's sample cache and computes the comparison (or the part asked for). */
+export function runComparisonTask(cache: SampleCache, input: ComparisonTaskInput): ComparisonResponse | PairFigures[] {
   const resolved = resolveQuery(input.query);
   const items: ComparisonItemInput[] = input.rows.map((row) => ({
     key: row.key,
@@ -261,11 +297,13 @@ export function runComparisonTask(cache: SampleCache, input: ComparisonTaskInput
     summaryContext: { responseSets: row.campaigns.map((campaign) => campaign.responseName), monitorHeightsM: row.campaigns.map((campaign) => campaign.heightAboveGroundM) },
   }));
   const { query } = input;
-  return computeComparison(items, {
+  const settings: ComparisonSettings = {
     kind: input.kind,
     resolved,
     telescope: { apertureM: query.apertureM ?? null, bandNm: query.bandNm, outerScaleM: query.outerScaleM },
     pairing: query.pairing,
     generatedAt: new Date().toISOString(),
-  });
+  };
+  if (input.part === "pairs") return computeComparisonPairs(items, settings);
+  return computeComparison(items, settings, input.part === "rows" ? "omit" : undefined);
 }

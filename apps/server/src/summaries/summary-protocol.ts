@@ -22,4 +22,6 @@ export type FromSummaryWorker =
       /** Bytes of sample columns the worker holds after the task. */
       columnBytes: number;
     }
-  | { type: "error"; id: number; message: string };
+  | { type: "error"; id: number; message: string }
+  /** Sent once, when the worker has loaded its code and opened its connection. */
+  | { type: "ready" };

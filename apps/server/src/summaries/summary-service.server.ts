@@ -21,8 +21,11 @@ export const RESULT_CACHE_MAX_BYTES = 64 * 1024 * 1024;
 export const RESULT_CACHE_MAX_ENTRIES = 5000;
 /** Bound of the sample columns all summary workers hold together, in bytes (about 53 bytes a sample with its sort). */
 export const COLUMN_CACHE_MAX_BYTES = 256 * 1024 * 1024;
-/** One worker on a machine of two cores or fewer (the main thread needs the other), two above. */
-export const DEFAULT_SUMMARY_WORKERS = Math.min(2, Math.max(1, availableParallelism() - 1));
+/**
+ * Two workers on a machine of two cores or more, one on a single core. A comparison is split across both (its
+ * rows' summaries on one, its pairs on the other); the main thread needs little CPU while they compute.
+ */
+export const DEFAULT_SUMMARY_WORKERS = Math.min(2, Math.max(1, availableParallelism()));
 /** A computation whose campaigns changed while it ran is done again (with fresh inputs) at most this often. */
 const MAX_ATTEMPTS = 3;
 
@@ -46,6 +49,12 @@ export interface ComputeRequest<Kind extends SummaryTaskKind> {
   key: string;
   /** The task's input, only asked for on a miss (it may read the database). */
   input: () => Promise<SummaryTaskInputs[Kind]> | SummaryTaskInputs[Kind];
+  /**
+   * With two or more workers: the input cut into parts that different workers compute at the same time, and how
+   * their answers (UTF-8 JSON) join into the one answer a single worker would give. Without it, or with one worker,
+   * one worker computes the whole input.
+   */
+  split?: { parts(input: SummaryTaskInputs[Kind]): SummaryTaskInputs[Kind][]; merge(bodies: Buffer[]): Buffer };
 }
 
 export interface SummaryServiceStats {
@@ -70,6 +79,8 @@ class SummaryWorker {
   private worker: Worker | null = null;
   private readonly pending = new Map<number, PendingTask>();
   private nextId = 1;
+  private ready: Promise<void> = Promise.resolve();
+  private markReady: () => void = () => undefined;
   columnBytes = 0;
 
   constructor(private readonly options: SummaryWorkerOptions) {}
@@ -77,7 +88,14 @@ class SummaryWorker {
   private ensure(): Worker {
     if (this.worker) return this.worker;
     const worker = new Worker(new URL("./summary-worker.mjs", import.meta.url), { workerData: this.options });
+    this.ready = new Promise((resolve) => {
+      this.markReady = resolve;
+    });
     worker.on("message", (message: FromSummaryWorker) => {
+      if (message.type === "ready") {
+        this.markReady();
+        return;
+      }
       const task = this.pending.get(message.id);
       if (!task) return;
       this.pending.delete(message.id);
@@ -90,6 +108,7 @@ class SummaryWorker {
     });
     const fail = (error: Error) => {
       if (this.worker === worker) this.worker = null;
+      this.markReady();
       // A dead worker (out of memory, a bug) fails what it was given; the next task starts a fresh one.
       for (const task of this.pending.values()) task.reject(error);
       this.pending.clear();
@@ -98,6 +117,12 @@ class SummaryWorker {
     worker.on("exit", (code) => fail(new Error(`The summary worker stopped (exit code ${code}).`)));
     this.worker = worker;
     return worker;
+  }
+
+  /** Starts the thread; resolves once it has loaded its code (or failed: the next task starts a fresh one). */
+  start(): Promise<void> {
+    this.ensure();
+    return this.ready;
   }
 
   get queued(): number {
@@ -212,9 +237,8 @@ export class SummaryService {
     let key = cacheKey;
     for (let attempt = 1; ; attempt += 1) {
       const input = await request.input();
-      const worker = this.workerFor(request.campaignIds);
       this.counters.computations += 1;
-      const result = await worker.run(kind, input);
+      const result = request.split && this.workers.length >= 2 ? await this.runSplit(kind, input, request.campaignIds, request.split) : await this.workerFor(request.campaignIds).run(kind, input);
       const answer = answerOf(key, result.body);
       if (sameVersions(result.versions, expected)) {
         this.remember(key, answer);
@@ -226,6 +250,28 @@ export class SummaryService {
       expected = readDataVersions(this.options.sqlite, request.campaignIds);
       key = `${kind}|${request.campaignIds.join(",")}|v${expected.join(",")}|${request.key}`;
     }
+  }
+
+  /** The parts on different workers at once (the first on the campaigns' own worker), joined; versions only when every part saw the same. */
+  private async runSplit<Kind extends SummaryTaskKind>(
+    kind: Kind,
+    input: SummaryTaskInputs[Kind],
+    campaignIds: readonly number[],
+    split: NonNullable<ComputeRequest<Kind>["split"]>,
+  ): Promise<{ body: Buffer; versions: number[] }> {
+    const first = this.workers.indexOf(this.workerFor(campaignIds));
+    const results = await Promise.all(split.parts(input).map((part, index) => this.workers[(first + index) % this.workers.length]?.run(kind, part) ?? Promise.reject(new Error("The summary service has no worker."))));
+    const [head] = results;
+    if (!head) throw new Error("A split computation needs at least one part.");
+    // Parts that read different committed states cannot be joined as one answer: report a version no request
+    // expects, so the computation is done again.
+    const versions = results.every((result) => sameVersions(result.versions, head.versions)) ? head.versions : head.versions.map(() => -1);
+    return { body: split.merge(results.map((result) => result.body)), versions };
+  }
+
+  /** Starts every worker thread now (loading its code takes most of a second of CPU) and resolves when all are ready, so no request waits for it. */
+  async start(): Promise<void> {
+    await Promise.all(this.workers.map((worker) => worker.start()));
   }
 
   /** The same campaigns go to the same worker (so their columns are held once); otherwise the least busy. */

@@ -1,6 +1,6 @@
-import { dirname, join } from "node:path";
 import { parentPort, workerData } from "node:worker_threads";
 import Database from "better-sqlite3";
+import { columnSnapshotDir } from "./column-snapshot.server";
 import { SampleCache } from "./sample-cache.server";
 import type { FromSummaryWorker, SummaryWorkerOptions, ToSummaryWorker } from "./summary-protocol";
 import { SUMMARY_TASKS, type SummaryTaskInputs, type SummaryTaskKind } from "./tasks.server";
@@ -14,7 +14,7 @@ const connection = new Database(options.dbFile, { readonly: true, fileMustExist:
 // A reader never needs the write lock; a short busy wait covers the moment a checkpoint resets the WAL.
 connection.pragma("busy_timeout = 5000");
 // Column snapshots beside the database (data/cache/columns): a restarted worker reads them instead of the rows.
-const cache = new SampleCache(connection, { maxBytes: options.columnCacheMaxBytes, snapshotDir: join(dirname(options.dbFile), "cache", "columns") });
+const cache = new SampleCache(connection, { maxBytes: options.columnCacheMaxBytes, snapshotDir: columnSnapshotDir(options.dbFile) });
 
 function post(message: FromSummaryWorker): void {
   parentPort?.postMessage(message);
@@ -55,3 +55,5 @@ parentPort?.on("message", (message: ToSummaryWorker) => {
     post({ type: "error", id: message.id, message: error instanceof Error ? error.message : String(error) });
   }
 });
+
+post({ type: "ready" });

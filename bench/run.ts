@@ -14,6 +14,7 @@ const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   ingest: () => import('./ingest.ts'),
   withdraw: () => import('./withdraw.ts'),
   compare: () => import('./compare.ts'),
+  survey: () => import('./survey.ts'),
   peer: () => import('./peer.ts'),
   intervalCoverage: () => import('./intervalCoverage.ts'),
 };

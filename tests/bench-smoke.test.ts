@@ -30,6 +30,16 @@ describe('bench smoke run', () => {
     expect(Number(peer.peerMedianWallMs)).toBeGreaterThan(0);
     expect(Number(peer.wallRatio)).toBeGreaterThan(0);
     expect(peer.medianSeeingArcsec).toBe(analyzer.medianSeeingArcsec);
+    // the comparison: three cold first answers (after ingest, no snapshots, after a restart) on the same data
+    const compare = results.benchmarks.compare ?? {};
+    for (const key of ['comparisonColdAfterIngestMs', 'comparisonColdNoSnapshotsMs', 'comparisonColdAfterRestartMs', 'comparisonWarmMedianMs']) expect(Number(compare[key]), key).toBeGreaterThan(0);
+    // survey scale, tiny: ten sites of the same log, every short summary on the map after the restart
+    const survey = results.benchmarks.survey ?? {};
+    expect(survey.sites).toBe(10);
+    expect(survey.storedSamplesTotal).toBe(10 * (10000 - Math.floor(10000 / 997)));
+    expect(survey.mapSitesWithSummary).toBe(10);
+    expect(Number(survey.databaseBytesPerSample)).toBeGreaterThan(20);
+    expect(Number(survey.serverRssAfterMapAndPagesMb)).toBeGreaterThan(50);
     for (const [name, figures] of Object.entries(results.benchmarks)) expect(Object.keys(figures).length, name).toBeGreaterThan(0);
   }, 180_000);
 });

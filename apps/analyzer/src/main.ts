@@ -1,10 +1,16 @@
 #!/usr/bin/env node
 // Calmcrest's command-line log check: field engineers run it before uploading, with the same engine the server uses.
 import { basename } from 'node:path';
+import { setFlagsFromString } from 'node:v8';
 import { describeLogFormatError, LogFormatError, predictTelescopeFwhm, READING_WARNING_CODES, SeeingInputError, type TelescopePrediction } from '@calmcrest/seeing-stats';
 import { analyzeLog } from '@calmcrest/seeing-stats/node';
 import { formatReport } from './formatReport.ts';
 import { parseArguments, USAGE, UsageError } from './parseArguments.ts';
+
+// The young generation stays at its first size instead of doubling up to 16 MB a half: the reader leaves little
+// short-lived garbage, so a small one costs a few more, quick collections and keeps about 15 MB of peak memory off a
+// million-row run (issue 15; the flag is read whenever the young generation would grow, so it applies from here on).
+setFlagsFromString('--semi-space-growth-factor=1');
 
 const EXIT_NO_SAMPLES = 1;
 const EXIT_UNUSABLE = 2;

@@ -27,6 +27,24 @@ interface SunNode {
  * day) and sidereal time advances at its constant rate, then sin h = sin φ sin δ + cos φ cos δ cos H.
  * About 0.1 µs a call instead of ~30 µs for astronomy-engine's full chain; error well under 0.01°.
  */
+/** Grid nodes of the sites used last (most recent last): one site's reader and its checks share the same nodes. */
+const recentNodes: { key: string; nodes: Map<number, SunNode> }[] = [];
+const SITES_REMEMBERED = 4;
+
+/**
+ * The node table of a site (latitude, longitude, elevation as text), shared by every createSunAltitude for that site
+ * while it is among the last SITES_REMEMBERED used: a node depends on nothing else, so a second function for the
+ * same site (the row reader's fast path, the longitude-sign check) reuses the nodes the first one computed.
+ */
+function sharedNodes(key: string): Map<number, SunNode> {
+  const found = recentNodes.findIndex((entry) => entry.key === key);
+  const entry = found >= 0 ? recentNodes.splice(found, 1)[0] : undefined;
+  const nodes = entry?.nodes ?? new Map<number, SunNode>();
+  recentNodes.push({ key, nodes });
+  if (recentNodes.length > SITES_REMEMBERED) recentNodes.shift();
+  return nodes;
+}
+
 export function createSunAltitude(site: SiteLocation): (timeMs: number) => number {
   requireRange(site.latitudeDeg, 'latitudeDeg', -90, 90, 'degrees', true);
   const longitudeDeg = normalizeLongitudeDeg(site.longitudeDeg);
@@ -34,7 +52,7 @@ export function createSunAltitude(site: SiteLocation): (timeMs: number) => numbe
   const sinLatitude = Math.sin(site.latitudeDeg * DEG_TO_RAD);
   const cosLatitude = Math.cos(site.latitudeDeg * DEG_TO_RAD);
   const longitudeHours = longitudeDeg / 15;
-  const nodes = new Map<number, SunNode>();
+  const nodes = sharedNodes(`${site.latitudeDeg} ${longitudeDeg} ${site.elevationM ?? 0}`);
   const nodeAt = (nodeIndex: number): SunNode => {
     let node = nodes.get(nodeIndex);
     if (node === undefined) {

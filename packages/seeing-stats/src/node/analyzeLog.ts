@@ -87,6 +87,10 @@ export interface AnalyzerReport extends Omit<SeeingSummary, 'warnings'> {
 }
 
 const MAX_LISTED_REJECTIONS = 100;
+/** Accepted rows read before the file size is used to estimate how many will come. */
+const ROWS_BEFORE_ESTIMATE = 8192;
+/** Room for this much more than the estimate (rows later in a file may be a little shorter). */
+const ESTIMATE_MARGIN = 1.03;
 const FILTER_CODES: readonly FilterRejectReason[] = ['zenith_limit', 'sun_above_limit', 'low_flux', 'anisotropic'];
 const DUPLICATE_CODE = 255;
 /** GrowableColumns.exposure codes: index 0 = no interlaced columns. */
@@ -108,7 +112,15 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
   const plausibility: PlausibilityWindow = { ...defaultPlausibility(), ...options.plausibility };
   validatePlausibility(plausibility);
   const stream = typeof input === 'string' ? await openLog(input) : input;
+  const fileBytes = typeof input === 'string' ? await fileSize(input) : null;
   const kept = new GrowableColumns();
+  // Once some rows are in, the file size tells about how many will come: room for them all in one step.
+  let reserved = fileBytes === null;
+  const reserveFromSize = (bytesRead: number): void => {
+    if (reserved || fileBytes === null || kept.length < ROWS_BEFORE_ESTIMATE || bytesRead <= 0) return;
+    reserved = true;
+    kept.reserve(Math.ceil((kept.length * fileBytes * ESTIMATE_MARGIN) / bytesRead) + 1024);
+  };
   const rejectedByReason: Record<string, number> = {};
   const listed: { line: number; reason: RejectReason; message: string }[] = [];
   let anisotropic = 0;
@@ -124,7 +136,7 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
     ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
     ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
   };
-  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility, transientSamples: true, ...readOptions }, {
+  const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility, transientSamples: true, onProgress: reserveFromSize, ...readOptions }, {
     onSample(sample, line) {
       const reason = filterReason(sample, filters);
       if (sample.timeMs <= previousTimeMs) timesAscending = false;
@@ -152,15 +164,14 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
   const duplicateListing: { line: number; reason: RejectReason; message: string }[] = [];
   let accepted = 0;
   for (let index = 0; index < kept.length; index += 1) {
-    const status = kept.status[index] ?? 0;
-    const line = kept.line[index] ?? 0;
+    const status = kept.statusAt(index);
     if (status === 0) {
       kept.timeMs[accepted] = kept.timeMs[index] ?? 0;
       kept.seeingArcsec[accepted] = kept.seeingArcsec[index] ?? 0;
       if (kept.tau0Ms !== null) kept.tau0Ms[accepted] = kept.tau0Ms[index] ?? Number.NaN;
       if (kept.theta0Arcsec !== null) kept.theta0Arcsec[accepted] = kept.theta0Arcsec[index] ?? Number.NaN;
-      anisotropic += kept.anisotropic[index] ?? 0;
-      const exposureCode = kept.exposure[index] ?? 0;
+      anisotropic += kept.anisotropicAt(index);
+      const exposureCode = kept.exposureAt(index);
       exposureCounts[exposureCode] = (exposureCounts[exposureCode] ?? 0) + 1;
       accepted += 1;
       continue;
@@ -168,9 +179,10 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
     const reason: RejectReason = status === DUPLICATE_CODE ? 'duplicate_time' : (FILTER_CODES[status - 1] ?? 'zenith_limit');
     rejectedByReason[reason] = (rejectedByReason[reason] ?? 0) + 1;
     if (duplicateListing.length < MAX_LISTED_REJECTIONS) {
-      duplicateListing.push({ line, reason, message: `${describeLateRejection(reason, kept.timeMs[index] ?? 0, filters)}` });
+      duplicateListing.push({ line: kept.lineAt(index), reason, message: `${describeLateRejection(reason, kept.timeMs[index] ?? 0, filters)}` });
     }
   }
+  kept.releaseFlags();
   const rejectedRows = [...listed, ...duplicateListing].sort((left, right) => left.line - right.line).slice(0, MAX_LISTED_REJECTIONS);
   const rejected = Object.values(rejectedByReason).reduce((sum, count) => sum + count, 0);
 
@@ -250,7 +262,7 @@ function markDuplicates(kept: GrowableColumns, timesAscending: boolean): void {
   for (let index = 0; index < kept.length; index += 1) {
     const time = kept.timeMs[index] ?? 0;
     if (!repeated.has(time)) continue;
-    if (seen.has(time)) kept.status[index] = DUPLICATE_CODE;
+    if (seen.has(time)) kept.setStatus(index, DUPLICATE_CODE);
     else seen.add(time);
   }
 }
@@ -269,6 +281,16 @@ function describeLateRejection(reason: RejectReason, timeMs: number, filters: Fi
       return 'longitudinal and transverse seeing disagree beyond the set ratio (anisotropic; keep such samples with --keep-anisotropic)';
     default:
       return reason;
+  }
+}
+
+/** The size of the file in bytes, or null when it cannot be known (openLog reports why). */
+async function fileSize(path: string): Promise<number | null> {
+  try {
+    const info = await stat(path);
+    return info.isFile() ? info.size : null;
+  } catch {
+    return null;
   }
 }
 

@@ -154,8 +154,10 @@ function unpackKeys(
   const indexMask = 2 ** indexBits - 1;
   const lowShift = 32 - indexBits;
   const order = new Uint32Array(count);
-  const sorted = new Float64Array(count);
-  const sortedBits = new Uint32Array(sorted.buffer);
+  // The sorted values take the keys' place: position p's key is read before its value is written there, and no
+  // other position is read, so the keys' 8 bytes a value are reused instead of allocating as many again.
+  const sorted = new Float64Array(keyWords.buffer, keyWords.byteOffset, count);
+  const sortedBits = keyWords;
   const bucketWidth = 2 ** shift;
   for (let bucket = 0; bucket < bucketCount; bucket += 1) {
     const end = bucketStart[bucket + 1] ?? 0;

@@ -45,15 +45,21 @@ export function groupValues(keys: Int32Array, values: Float64Array, order: Uint3
 
 /**
  * Group slots for integer keys: slotKeys = the distinct keys ascending, slotOf[i] = the slot of keys[i].
- * minimumKey and maximumKey bound the keys (the caller has usually seen them already).
+ * minimumKey and maximumKey bound the keys (the caller has usually seen them already). `into`, when given, is
+ * where slotOf is written (it may not be keys itself).
  */
-export function slotsOfKeys(keys: Int32Array, minimumKey: number, maximumKey: number): { slotKeys: number[]; slotOf: Int32Array } {
+export function slotsOfKeys(keys: Int32Array, minimumKey: number, maximumKey: number, into?: Int32Array): { slotKeys: number[]; slotOf: Int32Array } {
   // Dense slots when the key range is modest (days over decades are fine); a map otherwise.
   const span = maximumKey - minimumKey + 1;
-  return span <= 4 * keys.length + 1024 ? denseSlots(keys, minimumKey, span) : sparseSlots(keys);
+  return span <= 4 * keys.length + 1024 ? denseSlots(keys, minimumKey, span, into) : sparseSlots(keys, into);
 }
 
-function denseSlots(keys: Int32Array, minimumKey: number, span: number): { slotKeys: number[]; slotOf: Int32Array } {
+/** `into` (optional): the array slotOf is written to, at least as long as keys; a new one otherwise. */
+function slotArray(length: number, into: Int32Array | undefined): Int32Array {
+  return into === undefined ? new Int32Array(length) : into.subarray(0, length);
+}
+
+function denseSlots(keys: Int32Array, minimumKey: number, span: number, into?: Int32Array): { slotKeys: number[]; slotOf: Int32Array } {
   const present = new Uint8Array(span);
   for (let index = 0; index < keys.length; index += 1) present[(keys[index] ?? 0) - minimumKey] = 1;
   const slotOfOffset = new Int32Array(span);
@@ -64,16 +70,16 @@ function denseSlots(keys: Int32Array, minimumKey: number, span: number): { slotK
       slotKeys.push(minimumKey + offset);
     }
   }
-  const slotOf = new Int32Array(keys.length);
+  const slotOf = slotArray(keys.length, into);
   for (let index = 0; index < keys.length; index += 1) slotOf[index] = slotOfOffset[(keys[index] ?? 0) - minimumKey] ?? 0;
   return { slotKeys, slotOf };
 }
 
-function sparseSlots(keys: Int32Array): { slotKeys: number[]; slotOf: Int32Array } {
+function sparseSlots(keys: Int32Array, into?: Int32Array): { slotKeys: number[]; slotOf: Int32Array } {
   const slotKeys = Array.from(new Set(keys)).sort((left, right) => left - right);
   const slotOfKey = new Map<number, number>();
   slotKeys.forEach((key, slot) => slotOfKey.set(key, slot));
-  const slotOf = new Int32Array(keys.length);
+  const slotOf = slotArray(keys.length, into);
   for (let index = 0; index < keys.length; index += 1) slotOf[index] = slotOfKey.get(keys[index] ?? 0) ?? 0;
   return { slotKeys, slotOf };
 }

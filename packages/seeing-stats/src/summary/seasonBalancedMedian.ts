@@ -1,6 +1,5 @@
 import { SeeingInputError } from '../errors.js';
 import { sortPositive } from '../stats/argsortPositive.js';
-import { weightedMedianSorted } from '../stats/weightedMedian.js';
 import { nightDayNumber, solarOffsetMs } from './nightLabel.js';
 import type { SampleColumns } from './summarizeSeeing.js';
 
@@ -58,8 +57,6 @@ export function seasonBalancedMedianSorted(sorted: Float64Array, monthOfSorted: 
     const month = monthOfSorted[position] ?? 0;
     monthSamples[month] = (monthSamples[month] ?? 0) + 1;
   }
-  const weights = new Float64Array(count);
-  for (let position = 0; position < count; position += 1) weights[position] = 1 / (monthSamples[monthOfSorted[position] ?? 0] ?? 1);
   const monthsCovered: SeasonBalancedMedian['monthsCovered'] = [];
   const monthsMissing: string[] = [];
   for (let month = 1; month <= 12; month += 1) {
@@ -68,5 +65,26 @@ export function seasonBalancedMedianSorted(sorted: Float64Array, monthOfSorted: 
     else monthsMissing.push(MONTH_NAMES[month - 1] ?? String(month));
   }
   // Each covered month's weights add up to 1, so the total is the number of covered months.
-  return { medianArcsec: weightedMedianSorted(sorted, weights, monthsCovered.length), monthsCovered, monthsMissing };
+  return { medianArcsec: monthWeightedMedian(sorted, monthOfSorted, monthSamples, monthsCovered.length), monthsCovered, monthsMissing };
+}
+
+/**
+ * weightedMedianSorted(sorted, weights, totalWeight) with weights[p] = 1 / monthSamples[monthOfSorted[p]], each
+ * weight worked out as it is added instead of from an array of them (the same additions in the same order, so
+ * the same result; a million samples need no 8 MB weight array).
+ */
+function monthWeightedMedian(sorted: Float64Array, monthOfSorted: Int32Array, monthSamples: Int32Array, totalWeight: number): number {
+  const count = sorted.length;
+  const half = totalWeight / 2;
+  const tolerance = totalWeight * 1e-12;
+  let running = 0;
+  for (let position = 0; position < count; position += 1) {
+    running += 1 / (monthSamples[monthOfSorted[position] ?? 0] ?? 1);
+    if (running >= half - tolerance) {
+      const value = sorted[position] ?? Number.NaN;
+      if (Math.abs(running - half) <= tolerance && position + 1 < count) return (value + (sorted[position + 1] ?? Number.NaN)) / 2;
+      return value;
+    }
+  }
+  return sorted[count - 1] ?? Number.NaN;
 }

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { hemisphereSeasons, seasonIndexOfMonth } from './hemisphereSeasons.js';
-import { seasonBalancedMedian } from './seasonBalancedMedian.js';
+import { createRandom } from '../stats/random.js';
+import { weightedMedianSorted } from '../stats/weightedMedian.js';
+import { seasonBalancedMedian, seasonBalancedMedianSorted } from './seasonBalancedMedian.js';
 import { summarizeSeeing, type SampleColumns } from './summarizeSeeing.js';
 import { summarizeTurbulenceParameter } from './summarizeTurbulenceParameter.js';
 
@@ -114,5 +116,22 @@ describe('τ0 and θ0 summaries', () => {
     expect(summary?.theta0?.median).toBe(2.1);
     expect(summary?.tau0).toBeNull();
     expect(() => summarizeSeeing({ ...unequalMonths, tau0Ms: new Float64Array(2) })).toThrow(/tau0Ms must have one value per sample/);
+  });
+});
+
+describe('seasonBalancedMedianSorted against weightedMedianSorted', () => {
+  it('gives exactly the weighted median with weight 1 / (samples in the month), ties between two values included', () => {
+    const random = createRandom(11);
+    for (let trial = 0; trial < 200; trial += 1) {
+      const count = 1 + Math.floor(random() * 60);
+      // Few distinct values and months, so the running weight often lands on half exactly.
+      const sorted = Float64Array.from({ length: count }, () => 0.4 + Math.floor(random() * 8) / 10).sort();
+      const months = Int32Array.from({ length: count }, () => 1 + Math.floor(random() * (trial % 2 === 0 ? 2 : 12)));
+      const perMonth = new Int32Array(13);
+      months.forEach((month) => (perMonth[month] = (perMonth[month] ?? 0) + 1));
+      const weights = Float64Array.from(months, (month) => 1 / (perMonth[month] ?? 1));
+      const covered = perMonth.filter((samples) => samples > 0).length;
+      expect(seasonBalancedMedianSorted(sorted, months).medianArcsec).toBe(weightedMedianSorted(sorted, weights, covered));
+    }
   });
 });

@@ -172,9 +172,16 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
   const fit = fitLogNormalToLogs(logSorted);
   const ks = fit.sigma > 0 ? ksDistanceLogNormalOfLogs(logSorted, fit.mu, fit.sigma) : 1 - 1 / count;
 
+  // The logarithms are done with: their 8 bytes a sample hold two 4-byte columns from here on, each written over
+  // one that is no longer read (night keys → night and hour; night slots → night of each sorted position;
+  // month of each sorted position over night and hour), instead of five new arrays.
+  const scratch = logSorted.buffer;
+  const firstColumn = new Int32Array(scratch, logSorted.byteOffset, count);
+  const secondColumn = new Int32Array(scratch, logSorted.byteOffset + 4 * count, count);
+
   // Nights (integer day numbers) are the bootstrap block, give the nightly medians and the month a sample counts in.
-  const { nightKeys, hourOf, firstNight, lastNight } = nightsAndHours(timeMs, offsetMs);
-  const { slotKeys: nightDays, slotOf: nightSlotOf } = slotsOfKeys(nightKeys, firstNight, lastNight);
+  const { nightKeys, firstNight, lastNight } = nightsOf(timeMs, offsetMs, firstColumn);
+  const { slotKeys: nightDays, slotOf: nightSlotOf } = slotsOfKeys(nightKeys, firstNight, lastNight, secondColumn);
   const nightCount = nightDays.length;
   const nightLabels = nightDays.map(dayNumberLabel);
 
@@ -190,14 +197,14 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
   // One pass through the sort order tags each sorted position with its night (the bootstrap needs that) and feeds
   // every value to its night's, month's and hour's percentile capture: values come ascending, so each group's
   // order statistics are found without regrouping or sorting any group.
-  const { nightAndHourOf, nightSizes, hourSizes } = packNightAndHour(nightSlotOf, hourOf, nightCount);
+  const { nightAndHourOf, nightSizes, hourSizes } = packNightAndHour(nightSlotOf, timeMs, offsetMs, nightCount, firstColumn);
   const monthSizes = new Int32Array(monthLabels.length);
   nightSizes.forEach((size, slot) => (monthSizes[monthOfNight[slot] ?? 0] = (monthSizes[monthOfNight[slot] ?? 0] ?? 0) + size));
   const monthFractions = [0.5, 0.1, 0.25, 0.75, 0.9];
   const nightCapture = new RankCapture(nightSizes, [0.5]);
   const monthCapture = new RankCapture(monthSizes, monthFractions);
   const hourCapture = new RankCapture(hourSizes, [0.5]);
-  const nightOfSorted = tagSortedPositions(order, sorted, nightAndHourOf, monthOfNight, nightCapture, monthCapture, hourCapture);
+  const nightOfSorted = tagSortedPositions(order, sorted, nightAndHourOf, monthOfNight, nightCapture, monthCapture, hourCapture, secondColumn);
 
   const nightMedians = nightCapture.percentiles();
   const nightly = nightLabels.map((night, slot) => ({ night, samples: nightSizes[slot] ?? 0, median: nightMedians[slot] ?? Number.NaN }));
@@ -251,7 +258,7 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
     seasonSizes[season] = (seasonSizes[season] ?? 0) + (nightSizes[slot] ?? 0);
   });
   const seasonCapture = new RankCapture(seasonSizes, [0.5, 0.25, 0.75]);
-  const monthOfSorted = tagMonthsAndSeasons(sorted, nightOfSorted, monthOfYearOfNight, seasonOfNight, seasonCapture);
+  const monthOfSorted = tagMonthsAndSeasons(sorted, nightOfSorted, monthOfYearOfNight, seasonOfNight, seasonCapture, firstColumn);
   const seasonPercentiles = seasonCapture.percentiles();
   const seasons: SeasonStatistics[] = seasonList.map((season, index) => {
     const has = (seasonSizes[index] ?? 0) > 0;
@@ -352,8 +359,8 @@ function countBelowByNight(nightOfSorted: Int32Array, below: number, nightCount:
 }
 
 /** The calendar month of each sorted value; feeds each value to its season's percentile capture on the way. */
-function tagMonthsAndSeasons(sorted: Float64Array, nightOfSorted: Int32Array, monthOfNight: Int32Array, seasonOfNight: Int32Array, seasonCapture: RankCapture): Int32Array {
-  const monthOfSorted = new Int32Array(sorted.length);
+function tagMonthsAndSeasons(sorted: Float64Array, nightOfSorted: Int32Array, monthOfNight: Int32Array, seasonOfNight: Int32Array, seasonCapture: RankCapture, into: Int32Array): Int32Array {
+  const monthOfSorted = into;
   for (let position = 0; position < sorted.length; position += 1) {
     const night = nightOfSorted[position] ?? 0;
     monthOfSorted[position] = monthOfNight[night] ?? 1;
@@ -428,32 +435,38 @@ function sumOfSeeing(seeingArcsec: Float64Array): number {
   return sum;
 }
 
-/** Night day number and local solar hour of every sample, and the first and last night. */
-function nightsAndHours(timeMs: Float64Array, offsetMs: number): { nightKeys: Int32Array; hourOf: Int32Array; firstNight: number; lastNight: number } {
+/** Night day number of every sample (written into `into`), and the first and last night. */
+function nightsOf(timeMs: Float64Array, offsetMs: number, into: Int32Array): { nightKeys: Int32Array; firstNight: number; lastNight: number } {
   const count = timeMs.length;
-  const nightKeys = new Int32Array(count);
-  const hourOf = new Int32Array(count);
+  const nightKeys = into;
   let firstNight = Number.POSITIVE_INFINITY;
   let lastNight = Number.NEGATIVE_INFINITY;
   for (let index = 0; index < count; index += 1) {
-    const time = timeMs[index] ?? 0;
-    const night = nightDayNumber(time, offsetMs);
+    const night = nightDayNumber(timeMs[index] ?? 0, offsetMs);
     nightKeys[index] = night;
-    hourOf[index] = localSolarHour(time, offsetMs);
     if (night < firstNight) firstNight = night;
     if (night > lastNight) lastNight = night;
   }
-  return { nightKeys, hourOf, firstNight, lastNight };
+  return { nightKeys, firstNight, lastNight };
 }
 
-/** Night slot and hour in one word per sample (slot · 32 + hour), so the pass through the sort order gathers once; and the sizes of the nights and hours. */
-function packNightAndHour(nightSlotOf: Int32Array, hourOf: Int32Array, nightCount: number): { nightAndHourOf: Int32Array; nightSizes: Int32Array; hourSizes: Int32Array } {
-  const nightAndHourOf = new Int32Array(nightSlotOf.length);
+/**
+ * Night slot and local solar hour in one word per sample (slot · 32 + hour), written into `into`, so the pass through
+ * the sort order gathers once; and the sizes of the nights and hours.
+ */
+function packNightAndHour(
+  nightSlotOf: Int32Array,
+  timeMs: Float64Array,
+  offsetMs: number,
+  nightCount: number,
+  into: Int32Array,
+): { nightAndHourOf: Int32Array; nightSizes: Int32Array; hourSizes: Int32Array } {
+  const nightAndHourOf = into;
   const nightSizes = new Int32Array(nightCount);
   const hourSizes = new Int32Array(24);
   for (let index = 0; index < nightAndHourOf.length; index += 1) {
     const night = nightSlotOf[index] ?? 0;
-    const hour = hourOf[index] ?? 0;
+    const hour = localSolarHour(timeMs[index] ?? 0, offsetMs);
     nightAndHourOf[index] = (night << 5) | hour;
     nightSizes[night] = (nightSizes[night] ?? 0) + 1;
     hourSizes[hour] = (hourSizes[hour] ?? 0) + 1;
@@ -470,9 +483,10 @@ function tagSortedPositions(
   nightCapture: RankCapture,
   monthCapture: RankCapture,
   hourCapture: RankCapture,
+  into: Int32Array,
 ): Int32Array {
   const count = order.length;
-  const nightOfSorted = new Int32Array(count);
+  const nightOfSorted = into;
   for (let position = 0; position < count; position += 1) {
     const nightAndHour = nightAndHourOf[order[position] ?? 0] ?? 0;
     const night = nightAndHour >>> 5;

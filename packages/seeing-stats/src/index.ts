@@ -106,6 +106,7 @@ export {
   type SortedSeeing,
   type SeasonStatistics,
 } from './summary/summarizeSeeing.js';
+export { briefSeeing, type SeeingBrief } from './summary/briefSeeing.js';
 export { seasonBalancedMedian, seasonBalancedMedianSorted, monthOfDayNumber, MONTH_NAMES, type SeasonBalancedMedian } from './summary/seasonBalancedMedian.js';
 export { hemisphereSeasons, seasonIndexOfMonth, SEASON_CODES, type Season, type SeasonCode, type SeasonName } from './summary/hemisphereSeasons.js';
 export { summarizeTurbulenceParameter, type TurbulenceParameterSummary } from './summary/summarizeTurbulenceParameter.js';

@@ -1,4 +1,5 @@
 import {
+  briefSeeing,
   checkLongitudeSign,
   DEFAULT_FILTERS,
   summaryWarnings,
@@ -245,13 +246,7 @@ export function siteBrief(cache: SampleCache, site: SiteRow, campaignIds: readon
 export function computeSiteBrief(cache: SampleCache, site: SiteRow, campaignIds: readonly number[]): SiteSummaryBrief | null {
   const resolved = resolveQuery({});
   const selected = selectSamples(cache, campaignIds, resolved);
-  // The list needs no interval, so the bootstrap is kept tiny; the percentiles are exact either way.
-  const statistics = summarizeSeeingPresorted(
-    { timeMs: selected.timeMs, seeingArcsec: selected.seeingArcsec },
-    selected.presorted,
-    { longitudeDeg: site.longitude, latitudeDeg: site.latitude, bootstrapReplicates: 10 },
-  );
-  return statistics
-    ? { samples: selected.seeingArcsec.length, nights: statistics.nights, median: statistics.seeing.median, p25: statistics.seeing.p25, p75: statistics.seeing.p75 }
-    : null;
+  // Only the figures the list shows (the full summary's own numbers, without its bootstrap, fit and charts).
+  const brief = briefSeeing({ timeMs: selected.timeMs, seeingArcsec: selected.seeingArcsec }, selected.presorted, { longitudeDeg: site.longitude });
+  return brief ? { samples: brief.samples, nights: brief.nights, median: brief.median, p25: brief.p25, p75: brief.p75 } : null;
 }

@@ -3,6 +3,7 @@ import Database from "better-sqlite3";
 import { columnSnapshotDir } from "./column-snapshot.server";
 import { SampleCache } from "./sample-cache.server";
 import type { FromSummaryWorker, SummaryWorkerOptions, ToSummaryWorker } from "./summary-protocol";
+import { warmUpEngine } from "./warm-up.server";
 import { SUMMARY_TASKS, type SummaryTaskInputs, type SummaryTaskKind } from "./tasks.server";
 
 // A summary worker thread: its own read-only SQLite connection and its own per-campaign column cache, so loading
@@ -56,4 +57,6 @@ parentPort?.on("message", (message: ToSummaryWorker) => {
   }
 });
 
+// The engine's code compiled before the first request (nothing stored is read).
+warmUpEngine();
 post({ type: "ready" });

@@ -39,6 +39,16 @@ describe('line ends', () => {
     expect(whole).toEqual(['h1,h2', '1,2', '3,4', '5,6', '', '7,8']);
     for (const piece of [1, 2, 3, 5, 7]) expect(linesOf(text, piece), `pieces of ${piece}`).toEqual(whole);
   });
+  it('gives the same lines in place (lineIn: text, start, end) as strings of their own, whatever the pieces', () => {
+    const text = 'h1,h2\r\n1,2\n3,4\r5,6\r\n\r\n7,8\n' + 'x,y\n'.repeat(20) + 'last';
+    for (const piece of [1, 2, 3, 5, 7, 64, text.length]) {
+      const inPlace: string[] = [];
+      const splitter = new LineSplitter({ line: () => inPlace.push('<line() called>'), tooLong() {}, lineIn: (piece, start, end) => inPlace.push(piece.slice(start, end)) });
+      for (let start = 0; start < text.length; start += piece) splitter.push(text.slice(start, start + piece));
+      splitter.end();
+      expect(inPlace, `pieces of ${piece}`).toEqual(linesOf(text));
+    }
+  });
   it('counts every line, the last one without a line end included', () => {
     expect(splitLines('a\nb\n', { line() {}, tooLong() {} })).toBe(2);
     expect(splitLines('a\nb', { line() {}, tooLong() {} })).toBe(2);

@@ -74,11 +74,28 @@ export class LineSplitter {
     }
     let scanFrom = position;
     if (this.rest.length > 0) {
-      // The kept rest holds no line end: scan only the new piece.
-      scanFrom = this.rest.length;
-      text = this.rest + text.slice(position);
-      position = 0;
-      this.rest = '';
+      // The kept rest holds no line end: scan only the new piece. The line it starts is finished on its own, and
+      // the piece's other lines are cut from the piece itself, which is never copied behind the rest.
+      const firstLf = text.indexOf('\n', position);
+      const firstCr = text.indexOf('\r', position);
+      const end = firstLf < 0 ? firstCr : firstCr < 0 ? firstLf : Math.min(firstLf, firstCr);
+      if (end < 0) {
+        text = this.rest + text.slice(position);
+        scanFrom = text.length;
+        position = 0;
+        this.rest = '';
+      } else {
+        const joined = this.rest + text.slice(position, end);
+        this.rest = '';
+        let next = end + 1;
+        if (end === firstCr) {
+          if (next === text.length) this.pendingCr = true;
+          else if (text.charCodeAt(next) === 10) next += 1;
+        }
+        this.finishLine(joined, 0, joined.length);
+        position = next;
+        scanFrom = next;
+      }
     }
     let lf = text.indexOf('\n', scanFrom);
     let cr = text.indexOf('\r', scanFrom);

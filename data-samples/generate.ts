@@ -162,4 +162,50 @@ async function syntheticLines(options: { seed: number; nights: number; cadenceSe
   writeFileSync(join(here, 'time-dmy-local.csv'), `${localRows.join('\n')}\n`);
   console.log('time-jd.csv 120 rows, time-dmy-local.csv 100 rows');
 }
+// 8. Layouts monitors also write: date and time of day in two columns, columns aligned with runs of blanks, a
+// delimiter the detection gets wrong, and a plain-text preamble above the column names.
+{
+  const random = createRandom(17);
+  const start = Date.parse('2025-06-12T23:00:00Z');
+  const seeing = () => (0.78 * Math.exp(0.3 * (random() + random() - 1))).toFixed(3);
+  const zenith = () => (12 + 28 * random()).toFixed(1);
+  const iso = (index: number) => new Date(start + index * 120_000).toISOString().slice(0, 19);
+
+  // Two columns: Date 2025-06-12 and Time 23:00:00 (UTC), crossing midnight after the 30th row.
+  const twoColumns: string[] = ['Date,Time,Seeing,Zenith'];
+  for (let index = 0; index < 90; index += 1) {
+    const [date = '', time = ''] = iso(index).split('T');
+    twoColumns.push(`${date},${time},${seeing()},${zenith()}`);
+  }
+  twoColumns[19] = (twoColumns[19] ?? '').replace(/,\d\d:\d\d:\d\d,/, ',24:10:00,'); // line 20: hour 24
+  twoColumns[59] = (twoColumns[59] ?? '').replace(/^([^,]*,[^,]*,)[^,]*/, '$1'); // line 60: empty seeing
+  writeFileSync(join(here, 'format-two-columns.csv'), `${twoColumns.join('\n')}\n`);
+
+  // Runs of blanks: columns padded with spaces (a tab here and there), leading blanks on every row.
+  const pad = (text: string, width: number) => text.padEnd(width, ' ');
+  const aligned: string[] = ['# aligned columns, invented data', `  ${pad('time_utc', 22)}${pad('seeing_arcsec', 15)}${pad('airmass', 9)}flux`];
+  for (let index = 0; index < 80; index += 1) {
+    const airmass = (1 / Math.cos((Number(zenith()) * Math.PI) / 180)).toFixed(3);
+    const gap = index % 7 === 3 ? '\t' : '   ';
+    aligned.push(`  ${pad(`${iso(index)}Z`, 22)}${pad(seeing(), 15)}${airmass}${gap}${Math.round(4000 + 3000 * random())}`);
+  }
+  aligned[31] = (aligned[31] ?? '').replace(/\s+\d+$/, ''); // line 32: the flux is missing (3 fields for 4 columns)
+  aligned[56] = (aligned[56] ?? '').replace(/(\S+\s+\S+\s+)\S+/, '$10.950'); // line 57: airmass 0.950 < 1
+  writeFileSync(join(here, 'format-whitespace.txt'), `${aligned.join('\n')}\n`);
+
+  // Semicolons with decimal commas and a remark holding one comma: commas and semicolons tie at 3 a line, so the
+  // detection takes the comma; --delimiter ';' reads it right.
+  const tied: string[] = ['time_utc;seeing_arcsec;zenith_deg;remarks (wind, cloud, dome, moon)'];
+  for (let index = 0; index < 50; index += 1) tied.push(`${iso(index)}Z;${seeing().replace('.', ',')};${zenith().replace('.', ',')};wind ${1 + Math.floor(6 * random())} m/s, clear`);
+  tied[29] = (tied[29] ?? '').replace(/;[^;]*;/, ';-0,400;'); // line 30: negative seeing
+  writeFileSync(join(here, 'format-delimiter.csv'), `${tied.join('\n')}\n`);
+
+  // A preamble of five plain-text lines (no '#'), the column names on line 6.
+  const preamble = ['Seeing monitor export (invented data)', 'Station: Basalt Shelf, mast B', 'Operator: night crew', '', 'Samples follow, one a line.'];
+  const withPreamble: string[] = [...preamble, 'time_utc;seeing_arcsec;zenith_deg'];
+  for (let index = 0; index < 60; index += 1) withPreamble.push(`${iso(index)}Z;${seeing()};${zenith()}`);
+  withPreamble[39] = (withPreamble[39] ?? '').replace(/;[^;]*$/, ';95.0'); // line 40: zenith angle 95°
+  writeFileSync(join(here, 'format-preamble.txt'), `${withPreamble.join('\n')}\n`);
+  console.log('format-two-columns.csv 90 rows, format-whitespace.txt 80 rows, format-delimiter.csv 50 rows, format-preamble.txt 60 rows after 5 preamble lines');
+}
 rmSync(scratch, { recursive: true, force: true });

@@ -86,6 +86,13 @@ describe("the upload wizard's whole-file check", () => {
     await page.waitForTimeout(300);
     await screenshot(page, "upload-check-confirm-phone");
     await page.setViewportSize({ width: 1366, height: 900 });
+    // The wizard sends the confirmation with the file (storeAnyway), and the server keeps it and says so.
+    await upload.click();
+    const note = page.getByTestId("stored-anyway");
+    await note.waitFor({ timeout: 15_000 });
+    expect(await note.textContent()).toMatch(/^Stored as asked \("store it anyway"\), although no row of julian-dates.csv can be used/);
+    await page.getByTestId("accepted-count").waitFor({ timeout: 15_000 });
+    expect(await page.getByTestId("accepted-count").textContent()).toBe("0 accepted");
     expect(browser.problems).toEqual([]);
   });
 

@@ -32,6 +32,10 @@ export function formatReport(report: AnalyzerReport, fileName: string, telescope
   const window = report.plausibility;
   lines.push(`Plausible: seeing ${window.minSeeingArcsec}″–${window.maxSeeingArcsec}″ (zenith, 500 nm), times ${window.earliestTimeUtc.slice(0, 10)} to ${window.latestTimeUtc.slice(0, 10)}`);
   lines.push('');
+  if (report.file.preambleLines > 0) {
+    const last = report.file.preambleLines;
+    lines.push(`Preamble: ${last === 1 ? 'line 1' : `lines 1–${last}`} above the header line ${last + 1} skipped (not rows)`);
+  }
   lines.push(`Rows read ${samples.read}: accepted ${samples.accepted}, rejected ${samples.rejected}`);
   const reasons = Object.entries(samples.rejectedByReason).sort((left, right) => right[1] - left[1]);
   for (const [reason, count] of reasons) lines.push(`  ${reason.padEnd(29)} ${String(count).padStart(8)}`);

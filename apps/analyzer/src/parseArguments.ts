@@ -1,4 +1,4 @@
-import { isLogField, parseUtcOffsetMinutes, RESPONSE_SETS, TIME_FORMATS, type MappingOverrides, type ResponseSet, type TimeFormat } from '@calmcrest/seeing-stats';
+import { isLogField, parseDelimiterChoice, parseUtcOffsetMinutes, RESPONSE_SETS, TIME_FORMATS, type DelimiterChoice, type MappingOverrides, type ResponseSet, type TimeFormat } from '@calmcrest/seeing-stats';
 import type { AnalyzeOptions } from '@calmcrest/seeing-stats/node';
 
 export class UsageError extends Error {
@@ -33,6 +33,9 @@ Columns
   --map field=Header         the file's column "Header" holds field (repeatable; other fields still match by name), e.g. --map zenith_deg=ZD; field= reads no column for field
   --time-format F            how the time column is written: iso (default) | jd (Julian date) | mjd | dmy (31/12/2025 23:15) | mdy (12/31/2025 23:15)
   --utc-offset ±HH:MM        the zone of times written without one (a log kept in local time), e.g. --utc-offset -04:00
+  --date-column Name --time-column Name   the date and the time of day are in two columns, e.g. --date-column Date --time-column Time
+  --delimiter D              , | ';' | tab | space | whitespace (runs of spaces or tabs); detected when not given
+  --header-line N            the column names are on line N (counted from 1); the lines above are a preamble, skipped
 Filters
   --site-lat DEG --site-lon DEG   site position (east positive); turns on the night filter and names nights
                              and seasons by the site (without it nights split at 12:00 UTC: a warning)
@@ -99,6 +102,10 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
   let keepAnisotropic = false;
   let timeFormat: TimeFormat | undefined;
   let utcOffsetMinutes: number | undefined;
+  let delimiter: DelimiterChoice | undefined;
+  let headerLine: number | undefined;
+  let dateColumn: string | undefined;
+  let timeColumn: string | undefined;
   for (let index = 0; index < argv.length; index += 1) {
     const argument = argv[index] ?? '';
     const equals = argument.startsWith('--') ? argument.indexOf('=') : -1;
@@ -139,6 +146,25 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
       } catch (error) {
         throw new UsageError(`--utc-offset: ${error instanceof Error ? error.message : String(error)}.`);
       }
+    } else if (flag === '--date-column' || flag === '--time-column') {
+      const value = takeValue() ?? '';
+      if (value.trim() === '') throw new UsageError(`${flag} needs the name of a column as written in the header line, e.g. ${flag} ${flag === '--date-column' ? 'Date' : 'Time'}.`);
+      if (flag === '--date-column') dateColumn = value;
+      else timeColumn = value;
+    } else if (flag === '--delimiter') {
+      const value = takeValue() ?? '';
+      try {
+        delimiter = parseDelimiterChoice(value);
+      } catch (error) {
+        throw new UsageError(`--delimiter: ${error instanceof Error ? error.message : String(error)}. Quote ';' for the shell: --delimiter ';'.`);
+      }
+    } else if (flag === '--header-line') {
+      const value = takeValue() ?? '';
+      const line = Number(value);
+      if (!/^\d+$/.test(value.trim()) || !(Number.isInteger(line) && line >= 1)) {
+        throw new UsageError(`--header-line needs the number of the line holding the column names, a whole number from 1 (the first line of the file), got "${value}".`);
+      }
+      headerLine = line;
     } else if (flag === '--thresholds') {
       const value = takeValue() ?? '';
       const parsed = value.split(',').map((part) => Number(part));
@@ -163,8 +189,16 @@ export function parseArguments(argv: readonly string[]): AnalyzerArguments {
   const replicates = numbers.get('--replicates');
   if (replicates !== undefined && !(Number.isInteger(replicates) && replicates >= 1)) throw new UsageError(`--replicates must be a whole number ≥ 1, got ${replicates}.`);
 
+  if (dateColumn !== undefined && timeColumn === undefined) {
+    throw new UsageError(`--date-column ${dateColumn} needs --time-column with the column holding the time of day (the two are read together as "date time").`);
+  }
+  if (dateColumn !== undefined) mapping.date_utc = dateColumn;
+  if (timeColumn !== undefined) mapping.time_utc = timeColumn;
+
   const options: AnalyzeOptions = {
     mapping: Object.keys(mapping).length > 0 ? mapping : undefined,
+    ...(delimiter !== undefined ? { delimiter } : {}),
+    ...(headerLine !== undefined ? { headerLine } : {}),
     ...(timeFormat ? { timeFormat } : {}),
     ...(utcOffsetMinutes ? { utcOffsetMinutes } : {}),
     monitor: {

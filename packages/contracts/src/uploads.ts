@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { mappingOverridesSchema, monitorSettingsSchema, type CampaignMonitor, type ColumnMappingInput } from "./campaigns";
-import { TIME_FORMATS, type LogSample } from "@calmcrest/seeing-stats";
+import { DELIMITER_CHOICES, TIME_FORMATS, type LogSample } from "@calmcrest/seeing-stats";
 
 export const UPLOAD_STATUSES = ["queued", "ingesting", "done", "failed", "interrupted"] as const;
 export type UploadStatusName = (typeof UPLOAD_STATUSES)[number];
@@ -89,6 +89,11 @@ export interface UploadStatus extends UploadListItem {
 /** 202 answer of `POST /api/campaigns/:id/uploads` once the raw file is stored. */
 export interface UploadAccepted {
   upload: { id: number; status: UploadStatusName };
+  /**
+   * Set when the file was stored on "store it anyway" (multipart field storeAnyway=true) although no row can be
+   * used: the sentence saying so. null otherwise. Without the field such a file is refused with 422 nothing_usable.
+   */
+  storedAnyway: string | null;
 }
 
 /**
@@ -178,6 +183,8 @@ export interface WholeFileCheck {
   fileName: string;
   sizeBytes: number;
   delimiter: string;
+  /** Lines above the header line named in the read options, skipped as preamble (0 without one). */
+  preambleLines: number;
   headers: string[];
   mapping: ColumnMappingInput;
   rowsRead: number;
@@ -197,7 +204,9 @@ export interface WholeFileCheck {
 
 /**
  * How a file is read beyond its mapping (multipart field `readOptions`, JSON): the time format (`iso` by default;
- * `jd`, `mjd`, `dmy`, `mdy`) and the zone of times written without one, in minutes east of UTC.
+ * `jd`, `mjd`, `dmy`, `mdy`) and the zone of times written without one, in minutes east of UTC; the delimiter
+ * when it should not be detected (`,` `;` `tab` `space` `whitespace`: runs of spaces or tabs); the line holding the
+ * column names when a plain-text preamble stands above it (1-based; the lines above are skipped and counted).
  */
 export const readOptionsSchema = z.object({
   timeFormat: z.enum(TIME_FORMATS, { error: "timeFormat must be iso, jd, mjd, dmy or mdy." }).default("iso"),
@@ -207,6 +216,13 @@ export const readOptionsSchema = z.object({
     .min(-14 * 60, "utcOffsetMinutes must be between -840 and 840 (UTC-14:00 to UTC+14:00).")
     .max(14 * 60, "utcOffsetMinutes must be between -840 and 840 (UTC-14:00 to UTC+14:00).")
     .default(0),
+  delimiter: z.enum(DELIMITER_CHOICES, { error: "delimiter must be \",\", \";\", \"tab\", \"space\" or \"whitespace\" (runs of spaces or tabs); leave it out to have it detected." }).optional(),
+  headerLine: z
+    .number({ error: "headerLine must be the number of the line holding the column names (1 is the first line)." })
+    .int("headerLine must be a whole line number (1 is the first line).")
+    .min(1, "headerLine must be at least 1 (the first line of the file).")
+    .max(10_000, "headerLine must be at most 10000; a preamble is a few lines of text above the column names.")
+    .optional(),
 });
 export type ReadOptions = z.output<typeof readOptionsSchema>;
 export type ReadOptionsInput = z.input<typeof readOptionsSchema>;

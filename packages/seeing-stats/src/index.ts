@@ -91,7 +91,19 @@ export {
   type LineRejectReason,
   type SplitResult,
 } from './log/splitLog.js';
-export { LogTextReader, SNIFF_CHARS, type LogTextHandlers } from './log/readLogText.js';
+export { LogTextReader, SNIFF_CHARS, type LogTextHandlers, type LogLayout } from './log/readLogText.js';
+export {
+  DELIMITER_CHOICES,
+  WHITESPACE_DELIMITER,
+  choiceOfDelimiter,
+  delimiterName,
+  delimiterOfChoice,
+  layoutOf,
+  parseDelimiterChoice,
+  splitWhitespace,
+  type DelimiterChoice,
+  type LayoutChoices,
+} from './log/delimiters.js';
 export { readingWarnings, WARN_UNUSABLE_SHARE, READING_WARNING_CODES, type ReadingWarning, type ReadingWarningCode } from './log/readingWarnings.js';
 
 // Summaries: one site, two sites compared, nights.

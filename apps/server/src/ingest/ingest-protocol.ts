@@ -1,4 +1,4 @@
-import type { ColumnMapping, MonitorSettings, SiteLocation, TimeFormat } from "@calmcrest/seeing-stats";
+import type { ColumnMapping, DelimiterChoice, MonitorSettings, SiteLocation, TimeFormat } from "@calmcrest/seeing-stats";
 import type { SampleMoveJob, SampleMoveOutcome } from "../store/sample-moves";
 
 // Messages between the ingest queue (main thread) and the ingest worker thread.
@@ -16,6 +16,10 @@ export interface IngestJob {
   /** How the file's times are written (null in the row: ISO 8601 UTC). */
   timeFormat: TimeFormat;
   utcOffsetMinutes: number;
+  /** The delimiter the upload named (detected when absent). */
+  delimiter?: DelimiterChoice | undefined;
+  /** The line of the column names the upload named; the lines above are preamble. */
+  headerLine?: number | undefined;
   site: SiteLocation;
   /** Test-only: throw after this many stored samples, to prove a failed ingest leaves nothing behind. */
   failAfterSamples?: number;

@@ -94,6 +94,8 @@ async function readInto(job: IngestJob, sink: RowSink): Promise<ReadResult> {
       site: job.site,
       timeFormat: job.timeFormat,
       utcOffsetMinutes: job.utcOffsetMinutes,
+      delimiter: job.delimiter,
+      headerLine: job.headerLine,
       onProgress: (bytesRead) => {
         const now = Date.now();
         if (now - lastProgressMs < PROGRESS_EVERY_MS) return;

@@ -26,9 +26,18 @@ export async function createSiteAndCampaign(
 }
 
 /** Posts a file (path or bytes) to a campaign; returns the response. */
-export function postUpload(agent: Agent, campaignId: number, file: string | Buffer, fileName = "log.csv", mapping?: Record<string, string | null>) {
+export function postUpload(
+  agent: Agent,
+  campaignId: number,
+  file: string | Buffer,
+  fileName = "log.csv",
+  mapping?: Record<string, string | null>,
+  extra: { readOptions?: object; storeAnyway?: boolean } = {},
+) {
   const request = agent.post(`/api/campaigns/${campaignId}/uploads`).set(SAME_ORIGIN);
   if (mapping) void request.field("mapping", JSON.stringify(mapping));
+  if (extra.readOptions) void request.field("readOptions", JSON.stringify(extra.readOptions));
+  if (extra.storeAnyway !== undefined) void request.field("storeAnyway", String(extra.storeAnyway));
   return typeof file === "string" ? request.attach("file", file) : request.attach("file", file, fileName);
 }
 

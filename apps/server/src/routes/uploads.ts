@@ -23,7 +23,7 @@ import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.serv
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
-import { effectiveCampaign, monitorColumns, monitorOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
+import { effectiveCampaign, monitorColumns, monitorOf, readOptionsOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
 import { acceptUpload, checkHeader } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
 import { checkingStorage, type CheckedFile } from "../uploads/whole-file-check.server";
@@ -84,7 +84,7 @@ function parseMappingField(value: unknown): MappingOverrides | undefined {
   return parseOr400(mappingOverridesSchema, parsed, "The mapping");
 }
 
-/** The multipart `readOptions` field: JSON { timeFormat, utcOffsetMinutes }, or absent (ISO 8601 UTC). */
+/** The multipart `readOptions` field: JSON { timeFormat, utcOffsetMinutes, delimiter, headerLine }, or absent (ISO 8601 UTC, detected). */
 function parseReadOptionsField(value: unknown): ReadOptions | undefined {
   if (value === undefined || value === "") return undefined;
   let parsed: unknown;
@@ -99,6 +99,15 @@ function parseReadOptionsField(value: unknown): ReadOptions | undefined {
     });
   }
   return parseOr400(readOptionsSchema, parsed, "The read options");
+}
+
+/** The multipart `storeAnyway` field: "true" keeps a file none of whose rows can be used; absent or "false" refuses it. */
+function parseStoreAnywayField(value: unknown): boolean {
+  if (value === undefined || value === "" || value === "false") return false;
+  if (value === "true") return true;
+  throw new HttpError(400, "invalid_input", 'storeAnyway must be "true" or "false" (or left out). Send "true" only after the person confirmed keeping a file with no usable row.', {
+    storeAnyway: ['Send "true" or "false".'],
+  });
 }
 
 /** Runs a multer middleware and turns its errors into the API's JSON errors (413 names the limit in MB). */
@@ -165,7 +174,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
         delimiter: preview.delimiter,
         headers: preview.headers,
         // The proposal is always from the headers alone, so the wizard can offer it even when a mapping was sent.
-        proposedMapping: mapping ? previewLog(text, { monitor: monitorOf(campaign), maxRows: 0 }).proposedMapping : preview.proposedMapping,
+        proposedMapping: mapping ? previewLog(text, { monitor: monitorOf(campaign), maxRows: 0, ...readOptions }).proposedMapping : preview.proposedMapping,
         mappingProblems: preview.mappingProblems,
         // The overrides sent, with every other field matched by name: what an upload would read.
         mappingUsed: preview.proposedMapping,
@@ -236,14 +245,16 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     if (!file) throw new HttpError(400, "invalid_input", 'Send the log as the file field "file".', { file: ["No file was sent."] });
     let mapping: MappingOverrides | undefined;
     let readOptions: ReadOptions | undefined;
+    let storeAnyway = false;
     try {
       mapping = parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping);
       readOptions = parseReadOptionsField((req.body as Record<string, unknown> | undefined)?.readOptions);
+      storeAnyway = parseStoreAnywayField((req.body as Record<string, unknown> | undefined)?.storeAnyway);
     } catch (error) {
       await discardTemporary(file);
       throw error;
     }
-    const result = await acceptUpload(context, { campaign, userId: user.id, file, fileName: file.originalname, mapping, readOptions });
+    const result = await acceptUpload(context, { campaign, userId: user.id, file, fileName: file.originalname, mapping, readOptions, storeAnyway });
     if (result.kind === "duplicate") {
       const { existing } = result;
       // Same bytes with another mapping: offer to re-read the stored file with it (for those who may), not a dead end.
@@ -264,7 +275,12 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
       res.status(409).json(duplicate);
       return;
     }
-    const accepted: UploadAccepted = { upload: { id: result.uploadId, status: "queued" } };
+    const accepted: UploadAccepted = {
+      upload: { id: result.uploadId, status: "queued" },
+      storedAnyway: result.nothingUsable
+        ? `Stored as asked ("store it anyway"), although no row of ${file.originalname} can be used: it adds no sample to any statistic. Re-read it with a corrected mapping, or withdraw it.`
+        : null,
+    };
     res.status(202).json(accepted);
   });
 
@@ -331,7 +347,7 @@ export function uploadRoutes(context: AppContext): ApiRouter {
     // The status changes only if it is still failed or interrupted: of two retries at once, the second gets 409.
     await store.uploads.requeue(user.id, row.id);
     ingest.enqueue(row.id);
-    const accepted: UploadAccepted = { upload: { id: row.id, status: "queued" } };
+    const accepted: UploadAccepted = { upload: { id: row.id, status: "queued" }, storedAnyway: null };
     res.status(202).json(accepted);
   });
 
@@ -384,7 +400,7 @@ export function uploadRoutes(context: AppContext): ApiRouter {
     const corrected = input.monitor ? { ...campaign, ...monitorColumns(input.monitor) } : effectiveCampaign(campaign, row);
     let mapping: ColumnMapping;
     try {
-      mapping = await checkHeader(path, monitorOf(corrected), input.mapping ?? (JSON.parse(row.mapping) as ColumnMapping));
+      mapping = await checkHeader(path, monitorOf(corrected), input.mapping ?? (JSON.parse(row.mapping) as ColumnMapping), input.readOptions ?? readOptionsOf(row));
     } catch (error) {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       throw error;

@@ -97,6 +97,7 @@ export async function checkWholeFile(source: NodeJS.ReadableStream, fileName: st
     fileName,
     sizeBytes,
     delimiter: result.delimiter,
+    preambleLines: result.preambleLines,
     headers: result.headers,
     mapping: result.mapping,
     rowsRead: result.rowsRead,

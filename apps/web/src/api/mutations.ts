@@ -104,6 +104,8 @@ export interface SendUploadInput {
   onProgress: (fraction: number) => void;
   signal?: AbortSignal;
   readOptions?: ReadOptionsInput;
+  /** The person confirmed keeping a file whose check found no usable row. */
+  storeAnyway?: boolean;
 }
 
 /**
@@ -114,7 +116,8 @@ export interface SendUploadInput {
 export function useSendUpload() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ campaignId, file, mapping, onProgress, signal, readOptions }: SendUploadInput) => sendUpload(campaignId, file, mapping, onProgress, signal, readOptions),
+    mutationFn: ({ campaignId, file, mapping, onProgress, signal, readOptions, storeAnyway }: SendUploadInput) =>
+      sendUpload(campaignId, file, mapping, onProgress, signal, readOptions, storeAnyway),
     onSuccess: (_outcome, { campaignId }) => queryClient.invalidateQueries({ queryKey: campaignKeys.detail(campaignId) }),
   });
 }

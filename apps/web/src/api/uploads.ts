@@ -54,6 +54,7 @@ function postLogFile(
   onProgress: (fraction: number) => void,
   signal?: AbortSignal,
   readOptions?: ReadOptionsInput,
+  storeAnyway?: boolean,
 ): Promise<{ status: number; body: unknown }> {
   return new Promise((resolve, reject) => {
     const request = new XMLHttpRequest();
@@ -78,6 +79,7 @@ function postLogFile(
     const form = new FormData();
     form.append("mapping", JSON.stringify(exactMapping(mapping)));
     if (readOptions) form.append("readOptions", JSON.stringify(readOptions));
+    if (storeAnyway) form.append("storeAnyway", "true");
     form.append("file", file, file.name);
     request.send(form);
   });
@@ -89,7 +91,10 @@ function answerError(status: number, body: unknown): ApiError {
   return new ApiError(status, error?.code ?? "http_error", error?.message ?? `The server answered ${status}. Try again.`, error?.fields, body);
 }
 
-/** Sends a whole log for storing, with progress. A 409 for a file already in the campaign is an outcome, not an error. */
+/**
+ * Sends a whole log for storing, with progress. A 409 for a file already in the campaign is an outcome, not an error.
+ * `storeAnyway` is the person's confirmation to keep a file none of whose rows can be used (else the server answers 422).
+ */
 export async function sendUpload(
   campaignId: number,
   file: File,
@@ -97,8 +102,9 @@ export async function sendUpload(
   onProgress: (fraction: number) => void,
   signal?: AbortSignal,
   readOptions?: ReadOptionsInput,
+  storeAnyway?: boolean,
 ): Promise<UploadOutcome> {
-  const { status, body } = await postLogFile(`/api/campaigns/${campaignId}/uploads`, "upload", file, mapping, onProgress, signal, readOptions);
+  const { status, body } = await postLogFile(`/api/campaigns/${campaignId}/uploads`, "upload", file, mapping, onProgress, signal, readOptions, storeAnyway);
   if (status === 202) {
     onProgress(1);
     return { kind: "accepted", accepted: body as UploadAccepted };

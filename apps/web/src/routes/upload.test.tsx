@@ -31,6 +31,7 @@ const goodCheck = (): WholeFileCheck => ({
   fileName: "trip.csv",
   sizeBytes: 80,
   delimiter: ";",
+  preambleLines: 0,
   headers: ["Timestamp (UTC)", "FWHM [arcsec]", "Airmass", "Notes"],
   mapping: {},
   rowsRead: 1,

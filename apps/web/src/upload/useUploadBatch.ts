@@ -179,10 +179,12 @@ export function useUploadBatch({ campaign, mapping, readOptions, readOptionsProb
           },
           signal: controller.signal,
           readOptions,
+          // The person ticked "store it anyway" for a file whose check found no usable row.
+          storeAnyway: confirmedNothingUsable(index),
         });
         state[index] =
           outcome.kind === "accepted"
-            ? { state: "stored", uploadId: outcome.accepted.upload.id }
+            ? { state: "stored", uploadId: outcome.accepted.upload.id, storedAnyway: outcome.accepted.storedAnyway ?? null }
             : { state: "duplicate", message: outcome.duplicate.error.message, upload: outcome.duplicate.upload, rereadOffer: outcome.duplicate.rereadOffer };
       } catch (error) {
         if (controller.signal.aborted) {
@@ -198,6 +200,12 @@ export function useUploadBatch({ campaign, mapping, readOptions, readOptionsProb
     }
     transfer.current = null;
   };
+
+  /** True when file `index`'s check found nothing usable and the person confirmed keeping it. */
+  function confirmedNothingUsable(index: number): boolean {
+    const check = checks[index];
+    return check?.state === "done" && confirmationNeeded(check.result) === "nothing_usable" && confirmed[index] === true;
+  }
 
   const cancel = useCallback(() => transfer.current?.abort(), []);
   const onFinished = useCallback(() => setFinishedCount((count) => count + 1), []);

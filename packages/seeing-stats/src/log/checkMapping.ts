@@ -26,6 +26,9 @@ export function checkMapping(mapping: ColumnMapping, headers: readonly string[])
   if (mapping.time_utc === undefined) {
     problems.push(`No column holds time_utc (${LOG_FIELD_INFO.time_utc.label}); map the column with the sample times to it.`);
   }
+  if (mapping.date_utc !== undefined && mapping.time_utc === undefined) {
+    problems.push(`date_utc is mapped to "${mapping.date_utc}" but no column holds the time of day; map it to time_utc.`);
+  }
   const hasLongArcsec = mapping.var_long_arcsec2 !== undefined;
   const hasTransArcsec = mapping.var_trans_arcsec2 !== undefined;
   const hasLongPixel = mapping.var_long_px2 !== undefined;

@@ -297,6 +297,13 @@ export function createRowReader(options: {
       hint: `${problems.slice(1).join(' ')} Map columns with --map field=Header (fields: README, "Log format").`.trim(),
     });
   }
+  const dateIndex = columnIndex(headers, mapping, 'date_utc');
+  if (dateIndex >= 0 && (timeFormat === 'jd' || timeFormat === 'mjd')) {
+    throw new LogFormatError(`The date column "${mapping.date_utc ?? ''}" cannot be combined with ${timeFormat === 'jd' ? 'Julian dates' : 'modified Julian dates'}: such a number holds the date already.`, {
+      line: 1,
+      hint: 'Leave date_utc unmapped (analyzer: drop --date-column), or choose the time format the two columns are written in (iso, dmy or mdy).',
+    });
+  }
   const measure = chooseMeasure(mapping, monitor);
   const decimalComma = options.delimiter !== undefined && options.delimiter !== ',';
   const timeIndex = columnIndex(headers, mapping, 'time_utc');
@@ -342,7 +349,8 @@ export function createRowReader(options: {
   const measureName = measure === 'seeing' ? 'seeing_arcsec' : measure === 'r0' ? 'r0_cm' : measure === 'variance_px2' ? 'var_…_px2' : 'var_…_arcsec2';
 
   return (fields) => {
-    const timeText = fields[timeIndex];
+    // Date and time of day in two columns are read as one stamp, "date time".
+    const timeText = dateIndex < 0 ? fields[timeIndex] : joinDateTime(fields[dateIndex], fields[timeIndex]);
     const timeMs = timeText === undefined ? Number.NaN : parseTimeAs(timeText, timeFormat, utcOffsetMinutes);
     if (Number.isNaN(timeMs)) {
       const shown = timeText === undefined || timeText.trim() === '' ? 'an empty time' : `"${timeText.slice(0, 40)}"`;
@@ -483,6 +491,12 @@ export function createRowReader(options: {
       },
     };
   };
+}
+
+/** "date time" from two columns; undefined (an unreadable time) when either is missing. */
+function joinDateTime(date: string | undefined, time: string | undefined): string | undefined {
+  if (date === undefined || time === undefined) return undefined;
+  return `${date.trim()} ${time.trim()}`;
 }
 
 function missingOrNonFinite(field: string): RowResult {

@@ -1,11 +1,15 @@
+import { splitWhitespace, WHITESPACE_DELIMITER } from './delimiters.js';
+
 const CANDIDATES = [',', ';', '\t'] as const;
-export type LogDelimiter = (typeof CANDIDATES)[number];
+export type LogDelimiter = (typeof CANDIDATES)[number] | typeof WHITESPACE_DELIMITER;
 
 /**
  * Guesses the delimiter from the first lines of a file: the candidate (comma, semicolon, tab) that appears
  * the same non-zero number of times on every non-comment line, the most frequent if several do; otherwise the
  * most frequent overall; comma when none appears. A consistent count beats a decimal comma in a semicolon file.
- * Example: detectDelimiter('a;b\n1,5;2,5') → ';'.
+ * When no candidate is consistent but every line splits into the same number (at least 2) of fields at runs of
+ * spaces and tabs, the file is whitespace-separated (WHITESPACE_DELIMITER: columns aligned for the eye).
+ * Example: detectDelimiter('a;b\n1,5;2,5') → ';'; detectDelimiter('date  time   seeing\n2025-03-01 23:15:00  0.8') → 'whitespace'.
  */
 export function detectDelimiter(firstLines: string): LogDelimiter {
   const lines = firstLines
@@ -31,7 +35,11 @@ export function detectDelimiter(firstLines: string): LogDelimiter {
       fallbackTotal = total;
     }
   }
-  return bestConsistentCount > 0 ? best : fallback;
+  if (bestConsistentCount > 0) return best;
+  const widths = lines.map((line) => splitWhitespace(line).length);
+  const firstWidth = widths[0] ?? 0;
+  if (firstWidth >= 2 && widths.every((width) => width === firstWidth)) return WHITESPACE_DELIMITER;
+  return fallback;
 }
 
 function countOutsideQuotes(line: string, delimiter: string): number {

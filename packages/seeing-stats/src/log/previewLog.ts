@@ -5,10 +5,13 @@ import { createRowReader, type LogSample, type MonitorSettings, type Plausibilit
 import type { ColumnMapping, MappingOverrides } from './logFields.js';
 import { proposeMapping } from './proposeMapping.js';
 import { LogTextReader } from './readLogText.js';
+import { layoutOf, type DelimiterChoice } from './delimiters.js';
 import type { SiteLocation } from './sunAltitude.js';
 
 export interface LogPreview {
   delimiter: string;
+  /** Lines above the header line given in the options, skipped as preamble. */
+  preambleLines: number;
   headers: string[];
   proposedMapping: ColumnMapping;
   mappingProblems: string[];
@@ -44,6 +47,10 @@ export function previewLog(
     /** How the time column is written (createRowReader); ISO 8601 by default. */
     timeFormat?: TimeFormat;
     utcOffsetMinutes?: number;
+    /** The delimiter a person chose (detected when absent). */
+    delimiter?: DelimiterChoice | undefined;
+    /** 1-based line of the column names; the lines above it are preamble. */
+    headerLine?: number | undefined;
   },
 ): LogPreview {
   const maxRows = options.maxRows ?? 20;
@@ -104,7 +111,7 @@ export function previewLog(
     badLine(line, reason, message) {
       add({ line, values: {}, sample: null, problem: `${reason.replaceAll('_', ' ')}: ${message}` });
     },
-  });
+  }, layoutOf(options));
   try {
     textReader.push(text);
     textReader.end();
@@ -114,5 +121,5 @@ export function previewLog(
   if (textReader.headers === null) {
     throw new LogFormatError('The file has no header line.', { line: null, hint: 'Start the log with a line of column names such as time_utc,seeing_arcsec,zenith_deg.' });
   }
-  return { delimiter: textReader.delimiter, headers, proposedMapping, mappingProblems, rows };
+  return { delimiter: textReader.delimiter, preambleLines: textReader.preambleLines, headers, proposedMapping, mappingProblems, rows };
 }

@@ -2,6 +2,7 @@ import { LOG_FIELDS, type ColumnMapping, type LogField, type MappingOverrides } 
 
 /** Header spellings seen in monitor exports, compared after lower-casing and dropping everything but letters and digits. */
 const SYNONYMS: Record<LogField, readonly string[]> = {
+  date_utc: ['date', 'day', 'obsdate', 'dateobs', 'utdate', 'dayutc', 'calendardate'],
   time_utc: ['time', 'timeutc', 'timestamp', 'timestamputc', 'datetime', 'datetimeutc', 'dateutc', 'utc', 'ut', 'isotime'],
   var_long_arcsec2: ['varlong', 'varl', 'longitudinalvariance', 'longitudinalvariancearcsec2', 'varlongitudinal'],
   var_trans_arcsec2: ['vartrans', 'vart', 'transversevariance', 'transversevariancearcsec2', 'vartransverse'],
@@ -69,6 +70,11 @@ export function proposeMapping(headers: readonly string[], overrides: MappingOve
       mapping[field] = header;
       used.add(header);
     }
+  }
+  // A lone "Date" column holds the whole time stamp: it is the time column, not half of a pair.
+  if (mapping.date_utc !== undefined && mapping.time_utc === undefined && !decided.has('date_utc') && !decided.has('time_utc')) {
+    mapping.time_utc = mapping.date_utc;
+    delete mapping.date_utc;
   }
   return mapping;
 }

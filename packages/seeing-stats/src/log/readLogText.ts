@@ -1,5 +1,6 @@
 import { LogFormatError } from '../errors.js';
 import { detectDelimiter } from './detectDelimiter.js';
+import { WHITESPACE_DELIMITER } from './delimiters.js';
 import { isCommentOrBlankLine, LineSplitter, MAX_LINE_CHARS, readHeaderLine, rejectNonText, splitFields, type LineRejectReason } from './splitLog.js';
 
 /** Enough text to see the header and a few rows before choosing the delimiter, in characters. */
@@ -21,11 +22,23 @@ export interface LogTextHandlers {
   rowIn?(text: string, start: number, end: number, line: number): boolean;
 }
 
+/** How a person says the text is laid out, when the reader should not guess. */
+export interface LogLayout {
+  /** The delimiter string (delimiterOfChoice); detected from the first lines when absent. */
+  delimiter?: string | undefined;
+  /**
+   * 1-based line that names the columns: every line before it is preamble (counted in preambleLines, never a
+   * row), whatever it holds. Absent: the first line that is neither blank nor a '#' comment.
+   */
+  headerLine?: number | undefined;
+}
+
 /**
  * Turns the text of a log, fed in pieces, into a header and rows: waits for the first SNIFF_CHARS to refuse
  * binary or UTF-16 files and detect the delimiter, then cuts lines (LineSplitter) and fields (splitFields).
  * Comments and blank lines are skipped; every other line after the header is exactly one row or one bad line,
- * so the rows read equal the data lines of the file. A line longer than MAX_LINE_CHARS is a bad line
+ * so the rows read equal the data lines of the file. A LogLayout fixes the delimiter and/or the header line; the
+ * lines above a named header line are preamble (preambleLines), so lines = preamble + header + data + comments. A line longer than MAX_LINE_CHARS is a bad line
  * (line_too_long) wherever it stands; a header line that long, or one with a quote problem or a repeated
  * name, throws LogFormatError.
  */
@@ -40,8 +53,13 @@ export class LogTextReader {
   private previousPieceQuoted = true;
   /** Data lines seen after the header (rows and bad lines), plus over-long lines before it. */
   rowsRead = 0;
+  /** Lines before the header line a person named (LogLayout.headerLine), skipped unread. */
+  preambleLines = 0;
 
-  constructor(private readonly handlers: LogTextHandlers) {}
+  constructor(
+    private readonly handlers: LogTextHandlers,
+    private readonly layout: LogLayout = {},
+  ) {}
 
   get headers(): string[] | null {
     return this.headerNames;
@@ -74,13 +92,21 @@ export class LogTextReader {
     if (this.splitter === null) this.start();
     this.quotesNear = true;
     this.splitter?.end();
+    const headerLine = this.layout.headerLine;
+    if (headerLine !== undefined && this.headerNames === null) {
+      const lines = this.splitter?.lines ?? 0;
+      throw new LogFormatError(`The header line was set to line ${headerLine}, but the file has only ${lines} ${lines === 1 ? 'line' : 'lines'}.`, {
+        line: null,
+        hint: 'Give the number of the line that names the columns (count from 1 at the top of the file), or leave it empty to take the first line that is not a # comment.',
+      });
+    }
   }
 
   private start(): void {
     const sample = this.sniffed;
     this.sniffed = '';
     rejectNonText(sample);
-    this.delimiterUsed = detectDelimiter(sample.slice(0, SNIFF_CHARS));
+    this.delimiterUsed = this.layout.delimiter ?? detectDelimiter(withoutPreamble(sample, this.layout.headerLine).slice(0, SNIFF_CHARS));
     this.splitter = new LineSplitter({
       line: (text, line) => this.line(text, line),
       tooLong: (line, lengthChars, head) => this.tooLong(line, lengthChars, head),
@@ -104,7 +130,19 @@ export class LogTextReader {
   }
 
   private line(text: string, line: number): void {
-    if (isCommentOrBlankLine(text)) return;
+    const headerLine = this.layout.headerLine;
+    if (headerLine !== undefined && this.headerNames === null) {
+      if (line < headerLine) {
+        this.preambleLines += 1;
+        return;
+      }
+      if (isCommentOrBlankLine(text)) {
+        throw new LogFormatError(`Line ${line}, set as the header line, is ${text.trim() === '' ? 'blank' : 'a # comment'}: it does not name the columns.`, {
+          line,
+          hint: `Give the number of the line that holds the column names (the first lines of the file are shown beside the mapping), or leave the header line empty to take the first line that is not a # comment.`,
+        });
+      }
+    } else if (isCommentOrBlankLine(text)) return;
     const delimiter = this.delimiterUsed;
     if (this.headerNames === null) {
       const headers = readHeaderLine(text, delimiter, line);
@@ -117,7 +155,7 @@ export class LogTextReader {
     }
     this.rowsRead += 1;
     let fields: string[];
-    if (this.quotesNear) {
+    if (this.quotesNear || delimiter === WHITESPACE_DELIMITER) {
       const split = splitFields(text, delimiter);
       if (!split.ok) {
         this.handlers.badLine(line, split.reason, split.message, text);
@@ -141,6 +179,10 @@ export class LogTextReader {
   }
 
   private tooLong(line: number, lengthChars: number, head: string): void {
+    if (this.layout.headerLine !== undefined && line < this.layout.headerLine) {
+      this.preambleLines += 1;
+      return;
+    }
     if (this.headerNames === null && !isCommentOrBlankLine(head)) {
       throw new LogFormatError(`Line ${line} (the header line) is ${lengthChars} characters long, more than the ${MAX_LINE_CHARS} a line may have.`, {
         line,
@@ -157,4 +199,18 @@ function extraFieldsBlank(fields: readonly string[], from: number): boolean {
     if ((fields[index] ?? '').trim() !== '') return false;
   }
   return true;
+}
+
+/** The text from the header line on, so the delimiter is guessed from the columns and not from a preamble. */
+function withoutPreamble(sample: string, headerLine: number | undefined): string {
+  if (headerLine === undefined || headerLine <= 1) return sample;
+  let position = 0;
+  for (let line = 1; line < headerLine; line += 1) {
+    const lf = sample.indexOf('\n', position);
+    const cr = sample.indexOf('\r', position);
+    const end = lf < 0 ? cr : cr < 0 ? lf : Math.min(lf, cr);
+    if (end < 0) return '';
+    position = end + (sample.charCodeAt(end) === 13 && sample.charCodeAt(end + 1) === 10 ? 2 : 1);
+  }
+  return sample.slice(position);
 }

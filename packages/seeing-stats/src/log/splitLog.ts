@@ -1,4 +1,5 @@
 import { LogFormatError } from '../errors.js';
+import { splitWhitespace, WHITESPACE_DELIMITER } from './delimiters.js';
 
 // The one way Calmcrest cuts a log into lines and a line into fields (browser-safe; streamLog and previewLog
 // both use it). A record never spans lines: a line is judged on its own, so one bad line costs one row.
@@ -178,10 +179,13 @@ export type SplitResult = { ok: true; fields: string[] } | { ok: false; reason: 
  * Splits one line into fields at the delimiter. A field may be quoted with `"` (a doubled `""` inside stands for
  * one quote; blanks around the quoted part are allowed); a quoted field must close on its own line, and a quote
  * may not stand inside an unquoted field or follow a closing quote with other text. Such a line gives
- * unterminated_quote or stray_quote, naming the column. A line without quotes is split in one call
+ * unterminated_quote or stray_quote, naming the column. With WHITESPACE_DELIMITER the line is cut at runs of spaces
+ * and tabs (splitWhitespace), quotes taken as they stand. A line without quotes is split in one call
  * (mayHoldQuotes false: the caller knows the text around it holds no quote, so the line is not even searched).
  */
 export function splitFields(text: string, delimiter: string, mayHoldQuotes = true): SplitResult {
+  // Columns aligned with runs of blanks carry no quoting: a quote there is part of the value.
+  if (delimiter === WHITESPACE_DELIMITER) return { ok: true, fields: splitWhitespace(text) };
   if (!mayHoldQuotes || text.indexOf('"') < 0) return { ok: true, fields: text.split(delimiter) };
   const fields: string[] = [];
   const length = text.length;

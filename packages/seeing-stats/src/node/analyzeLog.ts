@@ -34,8 +34,9 @@ import { normalizeLongitudeDeg } from '../summary/nightLabel.js';
 import { summaryWarnings, type SummaryContext } from '../summary/summaryWarnings.js';
 import { GrowableColumns } from './growableColumns.js';
 import { streamLog } from './streamLog.js';
+import type { LayoutChoices } from '../log/delimiters.js';
 
-export interface AnalyzeOptions {
+export interface AnalyzeOptions extends LayoutChoices {
   /** How the time column is written (iso, jd, mjd, dmy, mdy); ISO 8601 by default. */
   timeFormat?: TimeFormat;
   /** The zone of times that carry none, minutes east of UTC. */
@@ -83,7 +84,8 @@ export interface AnalyzerReport extends Omit<SeeingSummary, 'warnings'> {
    * summary's own (summaryWarnings); each { code, message }.
    */
   warnings: (ReadingWarning | SummaryWarning)[];
-  file: { headers: string[]; delimiter: string; mapping: ColumnMapping; rowsRead: number; linesTotal: number };
+  /** preambleLines: lines above the header line given (--header-line), skipped unread; 0 without it. */
+  file: { headers: string[]; delimiter: string; mapping: ColumnMapping; rowsRead: number; linesTotal: number; preambleLines: number };
 }
 
 const MAX_LISTED_REJECTIONS = 100;
@@ -135,6 +137,8 @@ export async function analyzeLog(input: NodeJS.ReadableStream | string, givenOpt
   const readOptions = {
     ...(options.timeFormat ? { timeFormat: options.timeFormat } : {}),
     ...(options.utcOffsetMinutes ? { utcOffsetMinutes: options.utcOffsetMinutes } : {}),
+    ...(options.delimiter !== undefined ? { delimiter: options.delimiter } : {}),
+    ...(options.headerLine !== undefined ? { headerLine: options.headerLine } : {}),
   };
   const file = await streamLog(stream, { mapping: options.mapping, monitor: options.monitor, site: options.site, plausibility, transientSamples: true, onProgress: reserveFromSize, ...readOptions }, {
     onSample(sample, line) {

@@ -8,9 +8,10 @@ import { proposeMapping } from '../log/proposeMapping.js';
 import { blankSample, createFastRowReader, type FastRowReader } from '../log/fastRowReader.js';
 import { LogTextReader } from '../log/readLogText.js';
 import { listHeaders } from '../log/splitLog.js';
+import { delimiterName, layoutOf, WHITESPACE_DELIMITER, type LayoutChoices } from '../log/delimiters.js';
 import type { SiteLocation } from '../log/sunAltitude.js';
 
-export interface StreamLogOptions {
+export interface StreamLogOptions extends LayoutChoices {
   /** Fields whose header a person named (or null: not in the file); the rest are matched by name (proposeMapping). */
   mapping?: MappingOverrides;
   monitor: MonitorSettings;
@@ -48,6 +49,8 @@ export interface StreamLogResult {
   rowsRead: number;
   /** Every line of the file, comments, blank lines and the header included. */
   linesTotal: number;
+  /** Lines above the header line a person named (headerLine), skipped as preamble; 0 without headerLine. */
+  preambleLines: number;
 }
 
 /**
@@ -71,12 +74,13 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
 
   const reader = new LogTextReader({
     header(headers, delimiter, line) {
+      joiner = delimiter === WHITESPACE_DELIMITER ? ' ' : delimiter;
       mapping = proposeMapping(headers, options.mapping);
       const problems = checkMapping(mapping, headers);
       if (problems.length > 0) {
         throw new LogFormatError(`Line ${line} (the header line) does not give the columns Calmcrest needs: ${problems[0] ?? ''}`, {
           line,
-          hint: `${problems.slice(1).join(' ')} Headers found: ${listHeaders(headers)}. Rename the columns to the native names (README, "Log format") or map them with --map field=Header.`.trim(),
+          hint: `${problems.slice(1).join(' ')} Headers found: ${listHeaders(headers)}. Rename the columns to the native names (README, "Log format") or map them with --map field=Header. The columns were split at ${delimiterName(delimiter)}${options.delimiter === undefined ? ' (detected)' : ''}: if the names above are cut at the wrong character, give the delimiter (--delimiter). If the column names stand on a later line below a text preamble, give that line (--header-line N).`.trim(),
         });
       }
       const readerOptions = {
@@ -97,7 +101,7 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
     row(fields, line, text) {
       if (readRow === null) return;
       const result = readRow(fields, line);
-      if (result.ok) handlers.onSample(result.sample, line, fields, reader.delimiter);
+      if (result.ok) handlers.onSample(result.sample, line, fields, joiner);
       else handlers.onReject(line, result.reason, result.message, text);
     },
     rowIn(text, start, end, line) {
@@ -112,7 +116,9 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
     badLine(line, reason, message, text) {
       handlers.onReject(line, reason, message, text);
     },
-  });
+  }, layoutOf(options));
+  // Fields of runs-of-blanks files are given back joined by one space.
+  let joiner = ',';
 
   // An all-ASCII piece reads the same in UTF-8 and Latin-1, and Latin-1 copies the bytes straight into a string
   // (several times faster); only while the decoder holds no unfinished character from the piece before, and never
@@ -143,5 +149,5 @@ export async function streamLog(input: NodeJS.ReadableStream, options: StreamLog
       hint: 'Export the log again; a Calmcrest log starts with a line of column names such as time_utc,seeing_arcsec,zenith_deg (README, "Log format").',
     });
   }
-  return { headers, delimiter: reader.delimiter, mapping, rowsRead: reader.rowsRead, linesTotal: reader.lines };
+  return { headers, delimiter: reader.delimiter, mapping, rowsRead: reader.rowsRead, linesTotal: reader.lines, preambleLines: reader.preambleLines };
 }

@@ -12,7 +12,8 @@ import { Reason } from "../reason";
 export type FileSend =
   | { state: "waiting" }
   | { state: "sending"; fraction: number }
-  | { state: "stored"; uploadId: number }
+  /** `storedAnyway`: the server's sentence when it kept a file with no usable row on the person's "store it anyway". */
+  | { state: "stored"; uploadId: number; storedAnyway?: string | null }
   | { state: "duplicate"; message: string; upload: UploadListItem; rereadOffer: UploadDuplicateBody["rereadOffer"] }
   | { state: "refused"; message: string }
   /** Stopped by the person during the transfer; `sentInFull` when every byte had already left. */
@@ -154,6 +155,11 @@ export function FileProgress({
       {send.state === "stored" ? (
         <>
           <Bar label="Sending to the server" fraction={1} />
+          {send.storedAnyway ? (
+            <p role="note" className="rounded-md bg-warn-pale px-3 py-2 text-sm text-warn" data-testid="stored-anyway">
+              {send.storedAnyway}
+            </p>
+          ) : null}
           <Ingest uploadId={send.uploadId} onFinished={onFinished} check={check} />
         </>
       ) : null}

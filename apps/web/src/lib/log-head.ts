@@ -1,8 +1,10 @@
-import { LogFormatError, previewLog, type ColumnMapping, type LogField, type LogPreview, type MonitorSettings } from "@calmcrest/seeing-stats";
+import { LogFormatError, previewLog, type ColumnMapping, type LayoutChoices, type LogField, type LogPreview, type MonitorSettings } from "@calmcrest/seeing-stats";
 
 /** The first part of a log file as the browser reads it, before anything is sent. */
 export interface LogHead {
   delimiter: string;
+  /** Lines above the header line named in the layout, skipped as preamble. */
+  preambleLines: number;
   headers: string[];
   /** First data rows, header -> text. */
   rows: Record<string, string>[];
@@ -19,16 +21,16 @@ const HEAD_MONITOR: MonitorSettings = { wavelengthNm: 500, response: "z-tilt" };
  * Reads the header line and first rows of a log's opening text through the engine's previewLog, the one reading
  * path of preview, ingest, analyzer and wizard (line ends per line, strict quotes, repeated headers and UTF-16
  * refused), skipping '#' comments, blank lines and lines that cannot be split, and proposes a mapping from the
- * header names.
+ * header names. `layout` is the person's delimiter and header line, when the file should not be guessed.
  */
-export function readLogHead(text: string, maxRows = 8): LogHead {
+export function readLogHead(text: string, maxRows = 8, layout: LayoutChoices = {}): LogHead {
   // The slice may end mid-line; drop the partial last line so it is not shown as a broken row.
   const lastEnd = Math.max(text.lastIndexOf("\n"), text.lastIndexOf("\r"));
   const complete = lastEnd < 0 || lastEnd === text.length - 1 ? text : text.slice(0, lastEnd + 1);
   let preview: LogPreview;
   try {
     // Lines that cannot be split are listed by previewLog too; read enough to show maxRows good ones.
-    preview = previewLog(complete, { monitor: HEAD_MONITOR, maxRows: maxRows * 4 });
+    preview = previewLog(complete, { monitor: HEAD_MONITOR, maxRows: maxRows * 4, delimiter: layout.delimiter, headerLine: layout.headerLine });
   } catch (error) {
     if (error instanceof LogFormatError) {
       if (error.line === null && /no header line/.test(error.message)) {
@@ -42,7 +44,7 @@ export function readLogHead(text: string, maxRows = 8): LogHead {
     .filter((row) => Object.keys(row.values).length > 0)
     .slice(0, maxRows)
     .map((row) => Object.fromEntries(Object.entries(row.values).map(([header, value]) => [header, value.trim()])));
-  return { delimiter: preview.delimiter, headers: preview.headers, rows, proposedMapping: preview.proposedMapping };
+  return { delimiter: preview.delimiter, preambleLines: preview.preambleLines, headers: preview.headers, rows, proposedMapping: preview.proposedMapping };
 }
 
 export type VarianceUnit = "arcsec2" | "px2";

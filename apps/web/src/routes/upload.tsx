@@ -5,7 +5,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { Link, useSearchParams } from "react-router-dom";
 import { z } from "zod";
 import { columnMappingSchema, type CampaignDetail, type ReadOptions } from "@calmcrest/contracts";
-import { parseUtcOffsetMinutes, TIME_FORMATS, type ColumnMapping, type TimeFormat } from "@calmcrest/seeing-stats";
+import { delimiterName, parseUtcOffsetMinutes, TIME_FORMATS, type ColumnMapping, type DelimiterChoice, type TimeFormat } from "@calmcrest/seeing-stats";
 import { campaignQuery } from "../api/campaigns";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
 import { Notice, Page } from "../components/page";
@@ -50,6 +50,15 @@ const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
   mdy: "month first (03/01/2025 23:15)",
 };
 
+/** The delimiters a person can name, in words. */
+const DELIMITER_WORDS: [DelimiterChoice, string][] = [
+  [",", "comma ,"],
+  [";", "semicolon ;"],
+  ["tab", "tab"],
+  ["space", "single space (two spaces make an empty column)"],
+  ["whitespace", "runs of spaces or tabs (aligned columns)"],
+];
+
 /** The sentence a screen reader hears once the batch is through. */
 function announce(sends: FileSend[], finishedCount: number): string {
   const stored = sends.filter((send) => send.state === "stored").length;
@@ -86,8 +95,27 @@ export function UploadPage() {
       return { minutes: 0, problem: error instanceof Error ? `The time zone: ${error.message}.` : "The time zone cannot be read." };
     }
   }, [utcOffsetText]);
-  const readOptions: ReadOptions = useMemo(() => ({ timeFormat, utcOffsetMinutes: offset.minutes }), [timeFormat, offset.minutes]);
-  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: offset.problem });
+  /** Where the columns are: the delimiter ("" detects it) and the line of the column names ("" the first that is not a comment). */
+  const [delimiterChoice, setDelimiterChoice] = useState<DelimiterChoice | "">("");
+  const [headerLineText, setHeaderLineText] = useState("");
+  const headerLine = useMemo(() => {
+    const text = headerLineText.trim();
+    if (text === "") return { line: undefined, problem: null };
+    const line = Number(text);
+    return /^\d+$/.test(text) && line >= 1 && line <= 10_000
+      ? { line, problem: null }
+      : { line: undefined, problem: "The line of the column names: write a whole line number from 1 (the first line of the file), or leave it empty." };
+  }, [headerLineText]);
+  const readOptions: ReadOptions = useMemo(
+    () => ({
+      timeFormat,
+      utcOffsetMinutes: offset.minutes,
+      ...(delimiterChoice !== "" ? { delimiter: delimiterChoice } : {}),
+      ...(headerLine.line !== undefined ? { headerLine: headerLine.line } : {}),
+    }),
+    [timeFormat, offset.minutes, delimiterChoice, headerLine.line],
+  );
+  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: offset.problem ?? headerLine.problem });
   const { files, head, headText, sends, running } = batch;
   const resultsHeading = useRef<HTMLHeadingElement>(null);
   const [mappingSource, setMappingSource] = useState<"saved" | "proposed" | null>(null);
@@ -108,6 +136,7 @@ export function UploadPage() {
   }, [head, savedMapping, setValue]);
 
   const pixelScaleArcsec = selectedCampaign?.monitor.pixelScaleArcsec ?? null;
+  const rawLines = useMemo(() => headText.split(/\r\n|\n|\r/).slice(0, 15), [headText]);
   const monitorWarning = useMemo(() => (selectedCampaign ? monitorDisagreements(statedMonitor(leadingComments(headText)), selectedCampaign.monitor) : []), [headText, selectedCampaign]);
 
   const onUpload = handleSubmit(async (values) => {
@@ -186,7 +215,7 @@ export function UploadPage() {
             onDrop={onDrop}
             className={`flex flex-col items-center justify-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${dragging ? "border-accent bg-accent-pale" : "border-line bg-paper"}`}
           >
-            <p>Drop one or more log files here (CSV, semicolon or tab separated), or</p>
+            <p>Drop one or more log files here (comma, semicolon, tab or space separated), or</p>
             <button type="button" disabled={running} onClick={() => fileInput.current?.click()} className="rounded-md border border-accent px-4 py-1.5 font-semibold text-accent hover:bg-accent-pale">
               Choose files
             </button>
@@ -223,6 +252,50 @@ export function UploadPage() {
               ))}
             </ul>
           ) : null}
+          {files.length > 0 ? (
+            <fieldset className="mt-4 flex min-w-0 flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">
+              <legend className="px-1 font-semibold">Where the columns are</legend>
+              <label className="block min-w-0 max-w-full">
+                <span className="block font-semibold">Columns separated by</span>
+                <select
+                  value={delimiterChoice}
+                  disabled={running}
+                  onChange={(event) => setDelimiterChoice(event.target.value as DelimiterChoice | "")}
+                  className="mt-1 w-full max-w-full rounded-md border border-line bg-panel px-2 py-1"
+                >
+                  <option value="">{head && delimiterChoice === "" ? `Detect (found: ${delimiterName(head.delimiter)})` : "Detect"}</option>
+                  {DELIMITER_WORDS.map(([value, words]) => (
+                    <option key={value} value={value}>
+                      {words}
+                    </option>
+                  ))}
+                </select>
+              </label>
+              <label className="block">
+                <span className="block font-semibold">
+                  Column names on line <span className="font-normal text-ink-soft">(empty: the first line that is not a # comment)</span>
+                </span>
+                <input
+                  value={headerLineText}
+                  disabled={running}
+                  inputMode="numeric"
+                  onChange={(event) => setHeaderLineText(event.target.value)}
+                  placeholder="1"
+                  className="mt-1 w-24 rounded-md border border-line bg-panel px-2 py-1"
+                  aria-invalid={headerLine.problem ? true : undefined}
+                />
+              </label>
+              {headerLine.problem ? (
+                <p role="alert" className="w-full text-bad">
+                  {headerLine.problem}
+                </p>
+              ) : head && head.preambleLines > 0 ? (
+                <p className="w-full text-ink-soft" data-testid="preamble-note">
+                  {head.preambleLines === 1 ? "Line 1 stands" : `Lines 1–${head.preambleLines} stand`} above the column names: skipped as a preamble, never read as rows.
+                </p>
+              ) : null}
+            </fieldset>
+          ) : null}
           {batch.headError ? (
             <p role="alert" className="mt-3 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
               {batch.headError}
@@ -240,7 +313,7 @@ export function UploadPage() {
             <p className="mb-3 text-sm text-ink-soft">
               {mappingSource === "saved"
                 ? "The mapping saved for this campaign fits these files and is filled in. Check it and go on."
-                : `Proposed from the column names of ${files[0]?.name ?? "the file"} (delimiter “${head.delimiter === "\t" ? "tab" : head.delimiter}”). Correct anything that is wrong.`}
+                : `Proposed from the column names of ${files[0]?.name ?? "the file"} (columns separated by ${delimiterName(head.delimiter)}). Correct anything that is wrong.`}
             </p>
             {monitorWarning.length > 0 ? (
               <p role="alert" className="mb-3 rounded-md border border-warn/40 bg-warn-pale px-3 py-2 text-sm text-warn" data-testid="comment-monitor-warning">
@@ -260,9 +333,15 @@ export function UploadPage() {
               </div>
               <figure className="min-w-0">
                 <figcaption className="mb-1 text-sm font-semibold">First lines of {files[0]?.name ?? "the file"}, as written</figcaption>
-                <pre className="max-h-96 overflow-auto rounded-md border border-line bg-paper p-2 font-mono text-xs" data-testid="raw-lines">
-                  {headText.split(/\r\n|\n|\r/).slice(0, 15).join("\n")}
-                </pre>
+                {/* Line numbers beside the text, for "Column names on line"; the text itself stays as written. */}
+                <div className="flex max-h-96 overflow-auto rounded-md border border-line bg-paper p-2 font-mono text-xs">
+                  <pre aria-hidden="true" className="select-none border-r border-line pr-2 text-right text-ink-soft">
+                    {rawLines.map((_, index) => index + 1).join("\n")}
+                  </pre>
+                  <pre className="pl-2" data-testid="raw-lines">
+                    {rawLines.join("\n")}
+                  </pre>
+                </div>
               </figure>
             </div>
             <fieldset className="mt-4 flex min-w-0 flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">

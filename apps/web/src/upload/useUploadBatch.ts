@@ -69,6 +69,8 @@ export function useUploadBatch({ campaign, mapping, readOptions, readOptionsProb
   const removeFile = useCallback((file: File) => void chooseFiles(files.filter((other) => other !== file)), [chooseFiles, files]);
 
   // The heads depend on the read options (delimiter, header line), so they are read again when those change.
+  const { delimiter, headerLine } = readOptions;
+  const layout = useMemo(() => ({ delimiter, headerLine }), [delimiter, headerLine]);
   const { head, headError, headerMismatch } = useMemo((): { head: LogHead | null; headError: string | null; headerMismatch: string[] } => {
     if (chosen.readError) return { head: null, headError: chosen.readError, headerMismatch: [] };
     const firstText = chosen.texts[0];
@@ -76,7 +78,7 @@ export function useUploadBatch({ campaign, mapping, readOptions, readOptionsProb
     if (firstText === undefined || !first) return { head: null, headError: null, headerMismatch: [] };
     let firstHead: LogHead;
     try {
-      firstHead = readLogHead(firstText);
+      firstHead = readLogHead(firstText, undefined, layout);
     } catch (error) {
       return { head: null, headError: `${first.name}: ${error instanceof Error ? error.message : "the file could not be read."}`, headerMismatch: [] };
     }
@@ -85,13 +87,13 @@ export function useUploadBatch({ campaign, mapping, readOptions, readOptionsProb
     const mismatch = chosen.files.filter((_, index) => {
       if (index === 0) return false;
       try {
-        return readLogHead(chosen.texts[index] ?? "").headers.join("\u0000") !== key;
+        return readLogHead(chosen.texts[index] ?? "", undefined, layout).headers.join("\u0000") !== key;
       } catch {
         return true;
       }
     });
     return { head: firstHead, headError: null, headerMismatch: mismatch.map((file) => file.name) };
-  }, [chosen]);
+  }, [chosen, layout]);
   const headText = chosen.texts[0] ?? "";
 
   const pixelScaleArcsec = campaign?.monitor.pixelScaleArcsec ?? null;

@@ -4,7 +4,7 @@ import { unitsOfMapping, withUnits, type PointingKind, type VarianceUnit } from 
 const OPTIONAL_GROUP = "Optional columns";
 
 const GROUPS: { title: string; help: string; fields: (units: { variance: VarianceUnit; pointing: PointingKind }) => LogField[] }[] = [
-  { title: "Time", help: "Needed: when each sample was taken (UTC).", fields: () => ["time_utc"] },
+  { title: "Time", help: "Needed: when each sample was taken (UTC). A log with the date and the time of day in two columns maps both.", fields: () => ["time_utc", "date_utc"] },
   {
     title: "Seeing measure",
     help: "Needed: both image-motion variances, or the seeing the monitor computed, or r0. Monitors that alternate two exposure times may add both variances at twice the exposure time, to extrapolate the seeing to zero exposure.",

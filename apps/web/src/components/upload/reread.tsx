@@ -219,7 +219,8 @@ function NumberField({ label, unit, value, onChange }: { label: string; unit: st
 export function RereadPanel({ upload, campaign, onClose }: { upload: UploadListItem; campaign: CampaignDetail; onClose: () => void }) {
   const head = useQuery({
     queryKey: uploadKeys.rawHead(upload.id),
-    queryFn: async () => readLogHead(await rawFileHead(upload.id, HEAD_BYTES)),
+    // The stored read options (delimiter, header line) say where the columns are.
+    queryFn: async () => readLogHead(await rawFileHead(upload.id, HEAD_BYTES), undefined, upload.readOptions),
     staleTime: Number.POSITIVE_INFINITY,
   });
   const start = upload.monitorOverride ?? campaign.monitor;

@@ -79,6 +79,8 @@ export function createFastRowReader(options: RowReaderOptions): FastRowReader | 
   }
   const { headers, mapping, monitor, site } = options;
   if ((options.timeFormat ?? 'iso') !== 'iso') return null;
+  // Date and time of day in two columns are joined by createRowReader.
+  if (options.mapping.date_utc !== undefined) return null;
   const delimiter = options.delimiter ?? ',';
   if (!PLAIN_DELIMITERS.has(delimiter)) return null;
   const utcOffsetMs = (options.utcOffsetMinutes ?? 0) * 60_000; // as parseTimeAs: utcOffsetMinutes * 60_000

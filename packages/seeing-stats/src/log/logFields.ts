@@ -58,7 +58,7 @@ export type FieldRequirement = 'always' | 'one-measure' | 'one-pointing' | 'opti
 export const LOG_FIELD_INFO: Record<LogField, { label: string; unit: string; required: FieldRequirement }> = {
   time_utc: { label: 'Time of the sample (ISO 8601, UTC)', unit: 'UTC', required: 'always' },
   // Monitors that write the date and the time of day in two columns: the date is put in front of the time.
-  date_utc: { label: 'Date of the sample, when the time column holds only the time of day', unit: 'date', required: 'optional' },
+  date_utc: { label: 'Date of the sample, when the time of day is in its own column', unit: 'date', required: 'optional' },
   var_long_arcsec2: { label: 'Longitudinal differential image-motion variance', unit: 'arcsec²', required: 'one-measure' },
   var_trans_arcsec2: { label: 'Transverse differential image-motion variance', unit: 'arcsec²', required: 'one-measure' },
   var_long_px2: { label: 'Longitudinal differential image-motion variance', unit: 'pixel²', required: 'one-measure' },

@@ -44,6 +44,13 @@ export async function benchLog(rows: number): Promise<string> {
   return path;
 }
 
+/** CPU time a process has used so far (user + system, all its threads), in seconds (/proc; Linux only). */
+export function cpuSeconds(pid: number): number {
+  const fields = readFileSync(`/proc/${pid}/stat`, "utf8").replace(/^.*\) /s, "").split(" ");
+  // utime and stime are fields 14 and 15 of /proc/PID/stat (11 and 12 after the command name), in clock ticks (100 a second on Linux).
+  return (Number(fields[11]) + Number(fields[12])) / 100;
+}
+
 /** Peak resident memory of a process in MB (VmHWM from /proc; Linux only). */
 export function peakRssMb(pid: number): number {
   const status = readFileSync(`/proc/${pid}/status`, "utf8");
@@ -95,7 +102,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
   // One node process (tsx as a loader, not its CLI wrapper), so its /proc status is the server's own memory.
-  const server = spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+  const server = spawn(process.execPath, [...(process.env.BENCH_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROF}`] : []), "--import", "tsx", "src/main.ts"], {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],
@@ -109,6 +116,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
     const form = new FormData();
     form.append("file", await openAsBlob(logPath), "bench.csv");
     const startedMs = performance.now();
+    const cpuBeforeS = cpuSeconds(server.pid ?? 0);
     const posted = await fetch(`${base}/api/campaigns/${campaign.id}/uploads`, { method: "POST", headers, body: form });
     if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
     const { upload } = (await posted.json()) as { upload: { id: number } };
@@ -119,6 +127,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
       await new Promise((resolve) => setTimeout(resolve, 20));
     }
     const ingestSeconds = (performance.now() - startedMs) / 1000;
+    const ingestCpuS = cpuSeconds(server.pid ?? 0) - cpuBeforeS;
     if (status.status !== "done") throw new Error(`ingest ended ${status.status}: ${status.error ?? ""}`);
     const peakMb = peakRssMb(server.pid ?? 0);
 
@@ -138,6 +147,8 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
       ingestSamplesStored: status.samples.accepted,
       ingestFileMb: Math.round((statSync(logPath).size / 1024 / 1024) * 10) / 10,
       ingestRequestToDoneS: Math.round(ingestSeconds * 100) / 100,
+      // The server's CPU time over the same span (all threads): steadier than the wall time on a shared machine.
+      ingestServerCpuS: Math.round(ingestCpuS * 100) / 100,
       ingestServerPeakRssMb: Math.round(peakMb),
       siteSummaryColdMs: Math.round(coldMs),
       siteSummaryWarmMedianMs: Math.round(median(warm)),

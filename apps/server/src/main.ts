@@ -8,6 +8,8 @@ try {
   // The summary workers load their code before the server listens, not inside the first summary or comparison someone asks for.
   await context.summaries.start();
   const server = await listen(context);
+  // The ingest worker takes about a second to load: start it now rather than when the first file arrives.
+  context.ingest.warmUp();
   if (!env.listensOnLoopback && !env.publicOrigin) {
     console.warn(
       `Calmcrest: HOST=${env.HOST} is reachable from other machines, but CALMCREST_PUBLIC_URL is not set, so only pages opened at http://localhost:${env.PORT} may sign in or change anything. Set CALMCREST_PUBLIC_URL to the address people open Calmcrest at.`,

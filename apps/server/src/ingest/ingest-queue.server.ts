@@ -123,6 +123,11 @@ export class IngestQueue implements SampleMover {
     }
   }
 
+  /** Starts the worker thread ahead of the first ingest (the server does at start-up; test servers start it on demand). */
+  warmUp(): void {
+    if (!this.stopped) this.ensureWorker();
+  }
+
   private ensureWorker(): Worker {
     if (this.worker) return this.worker;
     const worker = new Worker(new URL("./ingest-worker.mjs", import.meta.url));

@@ -53,4 +53,19 @@ describe("an ingest reads its file into a staging file first", () => {
     expect(done.rejectedRows).toEqual([expect.objectContaining({ line: 51, reason: "duplicate_time" })]);
     expect(await countRows(context, "sample", { upload_id: uploadId })).toBe(99);
   });
+
+  it("catches a time repeated anywhere in the file, in or out of time order, and stores every other row once", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const startMs = Date.parse("2025-03-03T01:00:00Z");
+    const at = (minute: number) => `${new Date(startMs + minute * 60_000).toISOString()},0.8,10`;
+    // 100 rows in time order (several batches of staged rows), then: a repeat of minute 5, a new time before all
+    // of them, a repeat of that new time, a repeat of the last row, and ten more rows in order.
+    const minutes = [...Array.from({ length: 100 }, (_, index) => index + 10), 15, 2, 2, 109, ...Array.from({ length: 10 }, (_, index) => index + 200)];
+    const file = Buffer.from(["time_utc,seeing_arcsec,zenith_deg", ...minutes.map(at), ""].join("\n"));
+    const done = await waitForUpload(lead, (await postUpload(lead, campaign.id, file, "repeats.csv")).body.upload.id);
+    expect(done.samples).toMatchObject({ read: 114, accepted: 111, rejected: 3, rejectedByReason: { duplicate_time: 3 } });
+    // Line numbers count the header as line 1: the 101st data row is line 102.
+    expect(done.rejectedRows.map((row) => row.line)).toEqual([102, 104, 105]);
+    expect(await countRows(context, "sample", { upload_id: done.id })).toBe(111);
+  });
 });

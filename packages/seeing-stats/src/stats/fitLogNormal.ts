@@ -49,3 +49,23 @@ export function fitLogNormalToLogs(logValues: Float64Array): LogNormalFit {
   const sigma = Math.sqrt(sumSquaredDeviation / count);
   return { mu, sigma, median: Math.exp(mu) };
 }
+
+/**
+ * fitLogNormalToLogs(naturalLogs(values)) without the array of logarithms: each ln x is worked out where it is
+ * used (twice a value), with the same additions in the same order, so the same fit. For values already checked to
+ * be positive and finite (a summary's sorted seeing), where a million samples would need 8 MB of logarithms.
+ */
+export function fitLogNormalToPositive(values: Float64Array): LogNormalFit {
+  const count = values.length;
+  if (count === 0) throw new SeeingInputError('fitLogNormal needs at least one value, got none');
+  let sumLog = 0;
+  for (let index = 0; index < count; index += 1) sumLog += Math.log(values[index] ?? Number.NaN);
+  const mu = sumLog / count;
+  let sumSquaredDeviation = 0;
+  for (let index = 0; index < count; index += 1) {
+    const deviation = Math.log(values[index] ?? Number.NaN) - mu;
+    sumSquaredDeviation += deviation * deviation;
+  }
+  const sigma = Math.sqrt(sumSquaredDeviation / count);
+  return { mu, sigma, median: Math.exp(mu) };
+}

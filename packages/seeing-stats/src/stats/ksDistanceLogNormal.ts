@@ -29,10 +29,21 @@ export function ksDistanceLogNormal(sorted: ArrayLike<number>, mu: number, sigma
  * Every value that can matter is still evaluated with the same expression, so the maximum is the same number.
  */
 export function ksDistanceLogNormalOfLogs(sortedLogs: Float64Array, mu: number, sigma: number): number {
-  const count = sortedLogs.length;
+  return ksDistanceOf(sortedLogs.length, (index) => sortedLogs[index] ?? Number.NaN, mu, sigma);
+}
+
+/**
+ * ksDistanceLogNormalOfLogs(naturalLogs(sorted), mu, sigma) without the array of logarithms: ln x is worked out for
+ * the few values the search evaluates. The same number. For sorted values already checked to be positive.
+ */
+export function ksDistanceLogNormalOfSortedPositive(sorted: Float64Array, mu: number, sigma: number): number {
+  return ksDistanceOf(sorted.length, (index) => Math.log(sorted[index] ?? Number.NaN), mu, sigma);
+}
+
+function ksDistanceOf(count: number, logAt: (index: number) => number, mu: number, sigma: number): number {
   if (count === 0) throw new SeeingInputError('ksDistanceLogNormal needs at least one value, got none');
   if (!(sigma > 0)) throw new SeeingInputError(`sigma must be a positive number (of ln units), got ${String(sigma)}`);
-  const model = (index: number): number => normalCdf(((sortedLogs[index] ?? Number.NaN) - mu) / sigma);
+  const model = (index: number): number => normalCdf((logAt(index) - mu) / sigma);
   // Plain comparisons throughout (no Math.max), so NaN and signed zeros fare exactly as in a one-by-one loop.
   let distance = 0;
   const consider = (index: number, modelValue: number): void => {

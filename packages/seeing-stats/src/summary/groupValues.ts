@@ -46,7 +46,7 @@ export function groupValues(keys: Int32Array, values: Float64Array, order: Uint3
 /**
  * Group slots for integer keys: slotKeys = the distinct keys ascending, slotOf[i] = the slot of keys[i].
  * minimumKey and maximumKey bound the keys (the caller has usually seen them already). `into`, when given, is
- * where slotOf is written (it may not be keys itself).
+ * where slotOf is written; it may be keys itself (each key is read before its slot is written over it).
  */
 export function slotsOfKeys(keys: Int32Array, minimumKey: number, maximumKey: number, into?: Int32Array): { slotKeys: number[]; slotOf: Int32Array } {
   // Dense slots when the key range is modest (days over decades are fine); a map otherwise.

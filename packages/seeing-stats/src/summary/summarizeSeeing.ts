@@ -4,8 +4,8 @@ import { bootstrapGroupFraction } from '../stats/bootstrapGroupFraction.js';
 import { bootstrapPooledMedianSorted } from '../stats/bootstrapPooledMedian.js';
 import { nightIntervalStatus, type NightIntervalStatus } from '../stats/nightIntervalStatus.js';
 import { sortPositive } from '../stats/argsortPositive.js';
-import { fitLogNormalToLogs, naturalLogs } from '../stats/fitLogNormal.js';
-import { ksDistanceLogNormalOfLogs } from '../stats/ksDistanceLogNormal.js';
+import { fitLogNormalToPositive } from '../stats/fitLogNormal.js';
+import { ksDistanceLogNormalOfSortedPositive } from '../stats/ksDistanceLogNormal.js';
 import { normalCdf } from '../stats/normalCdf.js';
 import { percentileSorted } from '../stats/percentile.js';
 import { RankCapture } from './groupPercentiles.js';
@@ -167,21 +167,20 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
   if (presorted !== null) requireStableSort(seeingArcsec, presorted);
   const { order, sorted } = presorted ?? sortPositive(seeingArcsec);
   const quantile = (fraction: number): number => percentileSorted(sorted, fraction);
-  // Each logarithm once, for the fit and the KS distance alike.
-  const logSorted = naturalLogs(sorted);
-  const fit = fitLogNormalToLogs(logSorted);
-  const ks = fit.sigma > 0 ? ksDistanceLogNormalOfLogs(logSorted, fit.mu, fit.sigma) : 1 - 1 / count;
+  // The logarithms where they are used (the fit's two passes, the few values the KS search looks at): a little more
+  // work than one array of them, and 8 bytes a sample less memory.
+  const fit = fitLogNormalToPositive(sorted);
+  const ks = fit.sigma > 0 ? ksDistanceLogNormalOfSortedPositive(sorted, fit.mu, fit.sigma) : 1 - 1 / count;
 
-  // The logarithms are done with: their 8 bytes a sample hold two 4-byte columns from here on, each written over
-  // one that is no longer read (night keys → night and hour; night slots → night of each sorted position;
-  // month of each sorted position over night and hour), instead of five new arrays.
-  const scratch = logSorted.buffer;
-  const firstColumn = new Int32Array(scratch, logSorted.byteOffset, count);
-  const secondColumn = new Int32Array(scratch, logSorted.byteOffset + 4 * count, count);
+  // One 4-byte column a sample holds, in turn, each night's key, its slot, its slot and hour, and the month of each
+  // sorted position, each written over the one before where that is no longer read; the night of each sorted
+  // position goes over the sort order (read at the same position just before), when the order is this function's
+  // own. Instead of five new arrays.
+  const column = new Int32Array(count);
 
   // Nights (integer day numbers) are the bootstrap block, give the nightly medians and the month a sample counts in.
-  const { nightKeys, firstNight, lastNight } = nightsOf(timeMs, offsetMs, firstColumn);
-  const { slotKeys: nightDays, slotOf: nightSlotOf } = slotsOfKeys(nightKeys, firstNight, lastNight, secondColumn);
+  const { nightKeys, firstNight, lastNight } = nightsOf(timeMs, offsetMs, column);
+  const { slotKeys: nightDays, slotOf: nightSlotOf } = slotsOfKeys(nightKeys, firstNight, lastNight, column);
   const nightCount = nightDays.length;
   const nightLabels = nightDays.map(dayNumberLabel);
 
@@ -197,14 +196,23 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
   // One pass through the sort order tags each sorted position with its night (the bootstrap needs that) and feeds
   // every value to its night's, month's and hour's percentile capture: values come ascending, so each group's
   // order statistics are found without regrouping or sorting any group.
-  const { nightAndHourOf, nightSizes, hourSizes } = packNightAndHour(nightSlotOf, timeMs, offsetMs, nightCount, firstColumn);
+  const { nightAndHourOf, nightSizes, hourSizes } = packNightAndHour(nightSlotOf, timeMs, offsetMs, nightCount, column);
   const monthSizes = new Int32Array(monthLabels.length);
   nightSizes.forEach((size, slot) => (monthSizes[monthOfNight[slot] ?? 0] = (monthSizes[monthOfNight[slot] ?? 0] ?? 0) + size));
   const monthFractions = [0.5, 0.1, 0.25, 0.75, 0.9];
   const nightCapture = new RankCapture(nightSizes, [0.5]);
   const monthCapture = new RankCapture(monthSizes, monthFractions);
   const hourCapture = new RankCapture(hourSizes, [0.5]);
-  const nightOfSorted = tagSortedPositions(order, sorted, nightAndHourOf, monthOfNight, nightCapture, monthCapture, hourCapture, secondColumn);
+  const nightOfSorted = tagSortedPositions(
+    order,
+    sorted,
+    nightAndHourOf,
+    monthOfNight,
+    nightCapture,
+    monthCapture,
+    hourCapture,
+    presorted === null ? new Int32Array(order.buffer, order.byteOffset, count) : new Int32Array(count),
+  );
 
   const nightMedians = nightCapture.percentiles();
   const nightly = nightLabels.map((night, slot) => ({ night, samples: nightSizes[slot] ?? 0, median: nightMedians[slot] ?? Number.NaN }));
@@ -258,7 +266,7 @@ function summarize(columns: SampleColumns, options: SummaryOptions, presorted: S
     seasonSizes[season] = (seasonSizes[season] ?? 0) + (nightSizes[slot] ?? 0);
   });
   const seasonCapture = new RankCapture(seasonSizes, [0.5, 0.25, 0.75]);
-  const monthOfSorted = tagMonthsAndSeasons(sorted, nightOfSorted, monthOfYearOfNight, seasonOfNight, seasonCapture, firstColumn);
+  const monthOfSorted = tagMonthsAndSeasons(sorted, nightOfSorted, monthOfYearOfNight, seasonOfNight, seasonCapture, column);
   const seasonPercentiles = seasonCapture.percentiles();
   const seasons: SeasonStatistics[] = seasonList.map((season, index) => {
     const has = (seasonSizes[index] ?? 0) > 0;

@@ -9,5 +9,6 @@ export default defineConfig({
     // The dev server forwards API calls to the Express server started by `npm run dev`.
     proxy: { "/api": { target: "http://localhost:4173", changeOrigin: false } },
   },
-  build: { chunkSizeWarningLimit: 2000 },
+  // The manifest lets `bench/web.ts` add up what each page loads (its entry chunk and their static imports).
+  build: { chunkSizeWarningLimit: 2000, manifest: true },
 });

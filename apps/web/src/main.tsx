@@ -4,7 +4,6 @@ import { QueryClientProvider } from "@tanstack/react-query";
 import { RouterProvider } from "react-router-dom";
 import "@fontsource/ibm-plex-sans/400.css";
 import "@fontsource/ibm-plex-sans/600.css";
-import "leaflet/dist/leaflet.css";
 import "./styles.css";
 import { createQueryClient } from "./query-client";
 import { createRouter } from "./router";

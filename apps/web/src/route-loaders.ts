@@ -1,6 +1,7 @@
 import type { QueryClient } from "@tanstack/react-query";
 import type { LoaderFunctionArgs } from "react-router-dom";
 import { campaignQuery, campaignSummaryQuery } from "./api/campaigns";
+import { prefetchChartSamples } from "./api/samples";
 import { siteQuery, siteSummaryQuery } from "./api/sites";
 import { filtersFromParams } from "./lib/filter-params";
 import { roleLoader } from "./route-guards";
@@ -20,10 +21,13 @@ export function siteLoader(queryClient: QueryClient) {
   return async (args: LoaderFunctionArgs) => {
     await guard(args);
     const siteId = idParam(args.params.siteId);
-    const { filters } = filtersFromParams(new URL(args.request.url).searchParams);
+    const params = new URL(args.request.url).searchParams;
+    const { filters } = filtersFromParams(params);
+    // Start the summary and the charts' samples beside the site itself, but hold the page only for the site: the
+    // figures and charts show their own loading states. (A site one may not see answers 404 to all of them alike.)
+    const summary = queryClient.fetchQuery(siteSummaryQuery(siteId, filters));
+    prefetchChartSamples(queryClient, { kind: "site", id: siteId }, filters, summary, params.get("night"));
     await queryClient.ensureQueryData(siteQuery(siteId));
-    // Start the summary now but do not hold the page for it: the figures show their own loading state.
-    void queryClient.prefetchQuery(siteSummaryQuery(siteId, filters));
     return null;
   };
 }
@@ -33,8 +37,11 @@ export function campaignLoader(queryClient: QueryClient) {
   return async (args: LoaderFunctionArgs) => {
     await guard(args);
     const campaignId = idParam(args.params.campaignId);
+    const params = new URL(args.request.url).searchParams;
+    const { filters } = filtersFromParams(params);
+    const summary = queryClient.fetchQuery(campaignSummaryQuery(campaignId, filters));
+    prefetchChartSamples(queryClient, { kind: "campaign", id: campaignId }, filters, summary, params.get("night"));
     await queryClient.ensureQueryData(campaignQuery(campaignId));
-    void queryClient.prefetchQuery(campaignSummaryQuery(campaignId, filtersFromParams(new URL(args.request.url).searchParams).filters));
     return null;
   };
 }

@@ -13,6 +13,7 @@ import { preferencesQuery, reportCommentsQuery, reportQuery, reportsQuery } from
 import { idParam } from "./route-loaders";
 import { auditFiltersFrom, auditQuery } from "./api/audit";
 import { campaignLoader, siteLoader } from "./route-loaders";
+import { loadCompareCharts, loadSeeingCharts, loadSiteMap } from "./components/on-demand";
 
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
 const REPORT_ROLES = ["admin", "lead", "committee"] as const;
@@ -28,11 +29,29 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
         return null;
       },
-      // Page code is split per screen (the map and chart libraries are large); loaders stay in the main bundle.
-      lazy: async () => ({ Component: (await import("./routes/sites")).SitesPage }),
+      // Page code is split per screen; loaders stay in the main bundle. The map's and charts' code (the large
+      // libraries) is fetched beside the page's code, not after it has rendered, yet is no part of the first load.
+      lazy: async () => {
+        void loadSiteMap();
+        return { Component: (await import("./routes/sites")).SitesPage };
+      },
     },
-    { path: "sites/:siteId", loader: siteLoader(queryClient), lazy: async () => ({ Component: (await import("./routes/sites.$siteId")).SitePage }) },
-    { path: "campaigns/:campaignId", loader: campaignLoader(queryClient), lazy: async () => ({ Component: (await import("./routes/campaigns.$campaignId")).CampaignPage }) },
+    {
+      path: "sites/:siteId",
+      loader: siteLoader(queryClient),
+      lazy: async () => {
+        void loadSeeingCharts();
+        return { Component: (await import("./routes/sites.$siteId")).SitePage };
+      },
+    },
+    {
+      path: "campaigns/:campaignId",
+      loader: campaignLoader(queryClient),
+      lazy: async () => {
+        void loadSeeingCharts();
+        return { Component: (await import("./routes/campaigns.$campaignId")).CampaignPage };
+      },
+    },
     {
       path: "compare",
       loader: async (args) => {
@@ -40,7 +59,11 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
         return null;
       },
-      lazy: async () => ({ Component: (await import("./routes/compare")).ComparePage }),
+      lazy: async () => {
+        void loadSiteMap();
+        void loadCompareCharts();
+        return { Component: (await import("./routes/compare")).ComparePage };
+      },
     },
     {
       path: "upload",
@@ -91,7 +114,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         if (detail.version) void queryClient.prefetchQuery(reportCommentsQuery(reportId));
         return null;
       },
-      lazy: async () => ({ Component: (await import("./routes/reports.$reportId")).ReportPage }),
+      lazy: async () => {
+        void loadCompareCharts();
+        return { Component: (await import("./routes/reports.$reportId")).ReportPage };
+      },
     },
     {
       path: "account",

@@ -1,13 +1,11 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import { useSearchParams } from "react-router-dom";
 import type { SeeingStatistics, SummaryQuery } from "@calmcrest/contracts";
-import { samplesQuery, type Scope } from "../api/samples";
+import { axisSamplesQuery, nightSamplesQuery, nightShown, type Scope } from "../api/samples";
 import { ApiError } from "../api/client";
 import { CumulativeChart, HourlyChart, MonthlyBoxChart, SeeingHistogram } from "./charts/summary-charts";
 import { LongTransScatter, NightSeriesChart, type AxisSeeing } from "./charts/sample-charts";
 import { ChartFrame } from "./charts/chart-frame";
-
-const SCATTER_POINTS = 1500;
 
 function median(values: number[]): number | null {
   if (values.length === 0) return null;
@@ -28,9 +26,8 @@ function SampleProblem({ title, error }: { title: string; error: unknown }) {
 
 function NightChart({ scope, filters, nights }: { scope: Scope; filters: SummaryQuery; nights: SeeingStatistics["nightly"] }) {
   const [searchParams, setSearchParams] = useSearchParams();
-  const requested = searchParams.get("night");
-  const night = requested && nights.some((entry) => entry.night === requested) ? requested : nights[nights.length - 1]?.night;
-  const series = useQuery({ ...samplesQuery(scope, filters, { night, maxPoints: 5000 }), enabled: Boolean(night), placeholderData: keepPreviousData });
+  const night = nightShown(nights, searchParams.get("night"));
+  const series = useQuery({ ...nightSamplesQuery(scope, filters, night), enabled: Boolean(night), placeholderData: keepPreviousData });
   if (!night) return null;
   const picker = (
     <label className="flex items-center gap-2 text-sm">
@@ -57,7 +54,7 @@ function NightChart({ scope, filters, nights }: { scope: Scope; filters: Summary
 }
 
 function AxisChart({ scope, filters }: { scope: Scope; filters: SummaryQuery }) {
-  const series = useQuery({ ...samplesQuery(scope, filters, { maxPoints: SCATTER_POINTS }), placeholderData: keepPreviousData });
+  const series = useQuery({ ...axisSamplesQuery(scope, filters), placeholderData: keepPreviousData });
   if (series.isError) return <SampleProblem title="Longitudinal against transverse seeing" error={series.error} />;
   const points: AxisSeeing[] = [];
   for (const sample of series.data?.samples ?? []) {

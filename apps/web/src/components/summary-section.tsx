@@ -3,7 +3,7 @@ import type { SummaryQuery, SummaryResponse } from "@calmcrest/contracts";
 import type { Scope } from "../api/samples";
 import { ApiError } from "../api/client";
 import { Notice } from "./page";
-import { SeeingCharts } from "./seeing-charts";
+import { OnDemandSeeingCharts } from "./on-demand";
 import { BalancedFigures, GroupFigures, SeasonsTable, TurbulenceFigures } from "./summary-details";
 import { SummaryFigures } from "./summary-figures";
 
@@ -55,7 +55,7 @@ export function SummarySection({
           <BalancedFigures summary={data} />
           <SeasonsTable summary={data} />
           <TurbulenceFigures summary={data} />
-          <SeeingCharts scope={scope} filters={filters} summary={data} />
+          <OnDemandSeeingCharts scope={scope} filters={filters} summary={data} />
         </>
       )}
     </div>

@@ -8,8 +8,8 @@ import { configQuery } from "../api/sites";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
 import { FilterPanel, useFilterParams } from "../components/filter-panel";
 import { Notice, Page } from "../components/page";
-import { SiteMap } from "../components/site-map";
-import { MonthlyMediansChart, OverlaidCdfChart, SeriesLegend } from "../components/compare/compare-charts";
+import { OnDemandMonthlyMediansChart, OnDemandOverlaidCdfChart, OnDemandSiteMap } from "../components/on-demand";
+import { SeriesLegend } from "../components/compare/series-style";
 import { ComparePicker } from "../components/compare/compare-picker";
 import { PairsSection, SeasonBlock } from "../components/compare/compare-sections";
 import { ComparisonTable } from "../components/compare/compare-table";
@@ -94,8 +94,8 @@ function Results({ comparison, stale }: { comparison: ComparisonResponse; stale:
         </h2>
         <SeriesLegend rows={comparison.rows} />
         <div className="grid gap-4 lg:grid-cols-2">
-          <OverlaidCdfChart rows={comparison.rows} />
-          <MonthlyMediansChart rows={comparison.rows} />
+          <OnDemandOverlaidCdfChart rows={comparison.rows} />
+          <OnDemandMonthlyMediansChart rows={comparison.rows} />
         </div>
       </section>
 
@@ -103,7 +103,7 @@ function Results({ comparison, stale }: { comparison: ComparisonResponse; stale:
         <h2 id="map-heading" className="text-lg font-semibold">
           Where they are
         </h2>
-        <SiteMap
+        <OnDemandSiteMap
           sites={markers}
           tiles={config.mapTiles}
           labelled

@@ -7,7 +7,8 @@ import { meQuery } from "../api/auth";
 import { configQuery, sitesQuery } from "../api/sites";
 import { DataTable } from "../components/data-table";
 import { Notice, Page } from "../components/page";
-import { SeeingLegend, SiteMap, type MapTiles } from "../components/site-map";
+import { OnDemandSiteMap } from "../components/on-demand";
+import { SeeingLegend, type MapTiles } from "../components/seeing-legend";
 import { formatArcsec, formatNumber } from "../lib/format";
 import { seeingColour } from "../lib/colour-scale";
 import { NewSiteForm } from "../components/new-site-forms";
@@ -85,7 +86,7 @@ export function SitesPage() {
             <h2 id="map-heading" className="sr-only">
               Map of sites
             </h2>
-            <SiteMap sites={sites} tiles={tiles} highlightedSiteId={hoveredSiteId} onHover={setHoveredSiteId} onOpen={openSite} />
+            <OnDemandSiteMap sites={sites} tiles={tiles} highlightedSiteId={hoveredSiteId} onHover={setHoveredSiteId} onOpen={openSite} />
             <SeeingLegend />
             <p className="text-sm text-ink-soft">
               {withData} of {sites.length} sites have seeing data. {tiles ? "Map tiles from the configured tile server." : "Country outlines: Natural Earth, 1:110 million (shipped with Calmcrest, no network needed)."}

@@ -26,3 +26,41 @@ export const CHART_COLOURS = {
 
 export const AXIS_TICK = { fill: CHART_COLOURS.inkSoft, fontSize: 12 } as const;
 export const AXIS_LABEL_STYLE = { fill: CHART_COLOURS.ink, fontSize: 12 } as const;
+
+/** The margin every chart draws inside (room under the x axis for its label). */
+export const CHART_MARGIN = { top: 8, right: 16, bottom: 28, left: 8 } as const;
+
+const oneDecimal = (value: number) => value.toFixed(1);
+
+/** A y axis of seeing in arcsec from zero, named by `label` (`dy` centres the turned label along the axis). */
+export function seeingYAxis(label: string, options: { width?: number; dy?: number } = {}) {
+  return {
+    tick: AXIS_TICK,
+    width: options.width ?? 56,
+    domain: [0, "auto"],
+    tickFormatter: oneDecimal,
+    label: { value: label, angle: -90, position: "insideLeft", offset: 4, dy: options.dy ?? 50, style: AXIS_LABEL_STYLE },
+  } as const;
+}
+
+/** A y axis of a share from 0 to 1 shown in per cent, for cumulative distributions. */
+export function shareYAxis(label: string, options: { width?: number; dy?: number } = {}) {
+  return {
+    domain: [0, 1],
+    tick: AXIS_TICK,
+    width: options.width ?? 56,
+    tickFormatter: (value: number) => `${Math.round(value * 100)}`,
+    label: { value: label, angle: -90, position: "insideLeft", offset: 4, dy: options.dy ?? 70, style: AXIS_LABEL_STYLE },
+  } as const;
+}
+
+/** The x axis of seeing at zenith and 500 nm of a cumulative distribution (the points' `seeingArcsec`). */
+export function zenithSeeingXAxis(label = "Seeing at zenith, 500 nm (arcsec)") {
+  return {
+    dataKey: "seeingArcsec",
+    type: "number",
+    tick: AXIS_TICK,
+    tickFormatter: oneDecimal,
+    label: { value: label, position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE },
+  } as const;
+}

@@ -1,6 +1,6 @@
 import { Brush, CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Scatter, ScatterChart, Tooltip, XAxis, YAxis, ZAxis } from "recharts";
 import { formatArcsec } from "../../lib/format";
-import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, ChartFrame } from "./chart-frame";
+import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, CHART_MARGIN as margin, ChartFrame, seeingYAxis } from "./chart-frame";
 
 export interface TimedSeeing {
   timeMs: number;
@@ -12,7 +12,6 @@ export interface AxisSeeing {
   seeingTransArcsec: number;
 }
 
-const margin = { top: 8, right: 16, bottom: 28, left: 8 };
 const clock = (timeMs: number) => new Date(timeMs).toISOString().slice(11, 16);
 
 /** Seeing through one night, with a range slider under the chart to zoom into part of it. */
@@ -31,13 +30,7 @@ export function NightSeriesChart({ night, samples, picker }: { night: string; sa
           <LineChart data={sorted} margin={{ ...margin, bottom: 8 }}>
             <CartesianGrid stroke={CHART_COLOURS.grid} />
             <XAxis dataKey="timeMs" type="category" tick={AXIS_TICK} tickFormatter={clock} minTickGap={28} height={44} label={{ value: "Time (UTC)", position: "insideBottom", offset: 6, style: AXIS_LABEL_STYLE }} />
-            <YAxis
-              tick={AXIS_TICK}
-              width={56}
-              domain={[0, "auto"]}
-              tickFormatter={(value: number) => value.toFixed(1)}
-              label={{ value: "Seeing (arcsec)", angle: -90, position: "insideLeft", offset: 4, dy: 50, style: AXIS_LABEL_STYLE }}
-            />
+            <YAxis {...seeingYAxis("Seeing (arcsec)")} />
             <Tooltip
               formatter={(value) => [typeof value === "number" ? formatArcsec(value) : String(value), "Seeing"]}
               labelFormatter={(value) => (typeof value === "number" ? `${clock(value)} UTC` : String(value))}
@@ -50,6 +43,12 @@ export function NightSeriesChart({ night, samples, picker }: { night: string; sa
     </ChartFrame>
   );
 }
+
+/**
+ * A sample of the cloud as a plain circle: a thousand of recharts' own symbols (a path computed for each) made this
+ * the slowest chart of the site page to draw.
+ */
+const dot = (props: { cx?: number; cy?: number }) => <circle cx={props.cx} cy={props.cy} r={1.8} />;
 
 /**
  * Longitudinal against transverse seeing. A healthy monitor puts the cloud on the diagonal (the atmosphere has no
@@ -97,7 +96,7 @@ export function LongTransScatter({ samples, shownCount, totalCount, ratio }: { s
             <ZAxis range={[10, 10]} />
             <ReferenceLine segment={[{ x: 0, y: 0 }, { x: limit, y: limit }]} stroke={CHART_COLOURS.model} strokeDasharray="6 4" strokeWidth={1.5} />
             <Tooltip formatter={(value) => (typeof value === "number" ? formatArcsec(value) : String(value))} />
-            <Scatter data={samples} fill={CHART_COLOURS.data} fillOpacity={0.45} isAnimationActive={false} />
+            <Scatter data={samples} fill={CHART_COLOURS.data} fillOpacity={0.45} isAnimationActive={false} shape={dot} />
           </ScatterChart>
         </ResponsiveContainer>
       )}

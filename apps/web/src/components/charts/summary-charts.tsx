@@ -14,10 +14,9 @@ import {
 } from "recharts";
 import type { SeeingStatistics } from "@calmcrest/contracts";
 import { formatArcsec, formatNumber, formatPercent } from "../../lib/format";
-import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, ChartFrame } from "./chart-frame";
+import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, CHART_MARGIN as margin, ChartFrame, seeingYAxis, shareYAxis, zenithSeeingXAxis } from "./chart-frame";
 import { boxGeometry, type BoxQuantiles } from "./box-geometry";
 
-const margin = { top: 8, right: 16, bottom: 28, left: 8 };
 
 /** Histogram of seeing on log-spaced bins, with the fitted log-normal density drawn over it. */
 export function SeeingHistogram({ summary }: { summary: SeeingStatistics }) {
@@ -82,21 +81,8 @@ export function CumulativeChart({ summary }: { summary: SeeingStatistics }) {
       <ResponsiveContainer width="100%" height="100%">
         <LineChart data={summary.cdf} margin={margin}>
           <CartesianGrid stroke={CHART_COLOURS.grid} />
-          <XAxis
-            dataKey="seeingArcsec"
-            type="number"
-            domain={["dataMin", "dataMax"]}
-            tick={AXIS_TICK}
-            tickFormatter={(value: number) => value.toFixed(1)}
-            label={{ value: "Seeing at zenith, 500 nm (arcsec)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }}
-          />
-          <YAxis
-            domain={[0, 1]}
-            tick={AXIS_TICK}
-            width={56}
-            tickFormatter={(value: number) => `${Math.round(value * 100)}`}
-            label={{ value: "Samples at or below (%)", angle: -90, position: "insideLeft", offset: 4, dy: 70, style: AXIS_LABEL_STYLE }}
-          />
+          <XAxis {...zenithSeeingXAxis()} domain={["dataMin", "dataMax"]} />
+          <YAxis {...shareYAxis("Samples at or below (%)")} />
           <ReferenceLine x={0.8} stroke={CHART_COLOURS.inkSoft} strokeDasharray="5 4" />
           <Tooltip
             formatter={(value) => [typeof value === "number" ? formatPercent(value, 1) : String(value), "At or below"]}
@@ -148,13 +134,7 @@ export function MonthlyBoxChart({ summary }: { summary: SeeingStatistics }) {
         <BarChart data={data} margin={margin}>
           <CartesianGrid stroke={CHART_COLOURS.grid} vertical={false} />
           <XAxis dataKey="month" tick={AXIS_TICK} label={{ value: "Month (UTC)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }} />
-          <YAxis
-            tick={AXIS_TICK}
-            width={56}
-            domain={[0, "auto"]}
-            tickFormatter={(value: number) => value.toFixed(1)}
-            label={{ value: "Seeing (arcsec)", angle: -90, position: "insideLeft", offset: 4, dy: 50, style: AXIS_LABEL_STYLE }}
-          />
+          <YAxis {...seeingYAxis("Seeing (arcsec)")} />
           <Tooltip
             cursor={{ fill: "#dcefee" }}
             content={({ active, payload }) => {
@@ -195,13 +175,7 @@ export function HourlyChart({ summary }: { summary: SeeingStatistics }) {
         <BarChart data={data} margin={margin}>
           <CartesianGrid stroke={CHART_COLOURS.grid} vertical={false} />
           <XAxis dataKey="label" tick={AXIS_TICK} label={{ value: "Hour (local solar time)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }} />
-          <YAxis
-            tick={AXIS_TICK}
-            width={56}
-            domain={[0, "auto"]}
-            tickFormatter={(value: number) => value.toFixed(1)}
-            label={{ value: "Median seeing (arcsec)", angle: -90, position: "insideLeft", offset: 4, dy: 70, style: AXIS_LABEL_STYLE }}
-          />
+          <YAxis {...seeingYAxis("Median seeing (arcsec)", { dy: 70 })} />
           <Tooltip
             formatter={(value) => [typeof value === "number" ? formatArcsec(value) : String(value), "Median"]}
             labelFormatter={(label, payload) => {

@@ -1,25 +1,9 @@
 import { Bar, BarChart, CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { ComparisonPair, ComparisonRow } from "@calmcrest/contracts";
 import { formatArcsec, formatPercent } from "../../lib/format";
-import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, ChartFrame } from "../charts/chart-frame";
-import { LegendSwatch, MarkerShape, styleOf } from "./series-style";
+import { AXIS_LABEL_STYLE, AXIS_TICK, CHART_COLOURS, CHART_MARGIN as margin, ChartFrame, seeingYAxis, shareYAxis, zenithSeeingXAxis } from "../charts/chart-frame";
+import { MarkerShape, styleOf } from "./series-style";
 
-const margin = { top: 8, right: 16, bottom: 28, left: 8 };
-
-/** The legend of the compared sites: line, marker and name, in the table's order. */
-export function SeriesLegend({ rows }: { rows: ComparisonRow[] }) {
-  return (
-    <ul className="flex flex-wrap gap-x-5 gap-y-1 text-sm" aria-label="Line styles of the compared sites">
-      {rows.map((row, index) => (
-        <li key={row.key} className="flex items-center gap-1.5">
-          <LegendSwatch style={styleOf(index)} />
-          <span>{row.label}</span>
-          <span className="sr-only">({styleOf(index).words})</span>
-        </li>
-      ))}
-    </ul>
-  );
-}
 
 /** Draws a site's marker on every tenth point only, so the dash pattern stays readable between them. */
 const sparseDot =
@@ -51,23 +35,8 @@ export function OverlaidCdfChart({ rows }: { rows: ComparisonRow[] }) {
       <ResponsiveContainer width="100%" height="100%">
         <LineChart margin={margin}>
           <CartesianGrid stroke={CHART_COLOURS.grid} />
-          <XAxis
-            dataKey="seeingArcsec"
-            type="number"
-            domain={[0, upperArcsec]}
-            ticks={ticks}
-            allowDataOverflow
-            tick={AXIS_TICK}
-            tickFormatter={(value: number) => value.toFixed(1)}
-            label={{ value: "Seeing at zenith, 500 nm (arcsec)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }}
-          />
-          <YAxis
-            domain={[0, 1]}
-            tick={AXIS_TICK}
-            width={48}
-            tickFormatter={(value: number) => `${Math.round(value * 100)}`}
-            label={{ value: "At or below (%)", angle: -90, position: "insideLeft", offset: 4, dy: 50, style: AXIS_LABEL_STYLE }}
-          />
+          <XAxis {...zenithSeeingXAxis()} domain={[0, upperArcsec]} ticks={ticks} allowDataOverflow />
+          <YAxis {...shareYAxis("At or below (%)", { width: 48, dy: 50 })} />
           <ReferenceLine x={0.8} stroke={CHART_COLOURS.inkSoft} strokeDasharray="5 4" />
           <Tooltip formatter={(value, name) => [typeof value === "number" ? formatPercent(value, 1) : String(value), name]} labelFormatter={(value) => (typeof value === "number" ? formatArcsec(value) : String(value))} />
           {withData.map(({ row, index }) => (
@@ -108,13 +77,7 @@ export function MonthlyMediansChart({ rows }: { rows: ComparisonRow[] }) {
         <LineChart data={data} margin={margin}>
           <CartesianGrid stroke={CHART_COLOURS.grid} vertical={false} />
           <XAxis dataKey="month" tick={AXIS_TICK} interval="preserveStartEnd" minTickGap={12} label={{ value: "Month (UTC)", position: "insideBottom", offset: -16, style: AXIS_LABEL_STYLE }} />
-          <YAxis
-            tick={AXIS_TICK}
-            width={48}
-            domain={[0, "auto"]}
-            tickFormatter={(value: number) => value.toFixed(1)}
-            label={{ value: "Median (arcsec)", angle: -90, position: "insideLeft", offset: 4, dy: 50, style: AXIS_LABEL_STYLE }}
-          />
+          <YAxis {...seeingYAxis("Median (arcsec)", { width: 48 })} />
           <Tooltip formatter={(value, name) => [typeof value === "number" ? formatArcsec(value) : "–", name]} />
           {rows.map((row, index) => (
             <Line

@@ -1,6 +1,6 @@
 import type { ComparisonPair, ComparisonResponse } from "@calmcrest/contracts";
 import { formatArcsec, formatNumber } from "../../lib/format";
-import { DifferenceHistogram } from "./compare-charts";
+import { OnDemandDifferenceHistogram } from "../on-demand";
 
 const signed = (valueArcsec: number | null | undefined) =>
   valueArcsec === null || valueArcsec === undefined ? "–" : `${valueArcsec > 0 ? "+" : valueArcsec < 0 ? "−" : ""}${Math.abs(valueArcsec).toFixed(2)}″`;
@@ -115,7 +115,7 @@ function PairCard({ comparison, pair }: { comparison: ComparisonResponse; pair: 
           ))}
         </ul>
       ) : null}
-      {paired && paired.commonNights > 0 ? <DifferenceHistogram pair={pair} nameA={nameA} nameB={nameB} /> : null}
+      {paired && paired.commonNights > 0 ? <OnDemandDifferenceHistogram pair={pair} nameA={nameA} nameB={nameB} /> : null}
     </article>
   );
 }

@@ -1,3 +1,5 @@
+import type { ComparisonRow } from "@calmcrest/contracts";
+
 /**
  * How each compared site is drawn: a colour from a palette that stays distinct for the common forms of colour
  * blindness (the Okabe–Ito set), and, so the lines never depend on colour alone, a dash pattern and a marker shape.
@@ -53,5 +55,20 @@ export function LegendSwatch({ style }: { style: SeriesStyle }) {
       <line x1="2" x2="38" y1="7" y2="7" stroke={style.colour} strokeWidth="2.5" strokeDasharray={style.dash || undefined} />
       <MarkerShape style={style} x={20} y={7} size={4} />
     </svg>
+  );
+}
+
+/** The legend of the compared sites: line, marker and name, in the table's order. */
+export function SeriesLegend({ rows }: { rows: ComparisonRow[] }) {
+  return (
+    <ul className="flex flex-wrap gap-x-5 gap-y-1 text-sm" aria-label="Line styles of the compared sites">
+      {rows.map((row, index) => (
+        <li key={row.key} className="flex items-center gap-1.5">
+          <LegendSwatch style={styleOf(index)} />
+          <span>{row.label}</span>
+          <span className="sr-only">({styleOf(index).words})</span>
+        </li>
+      ))}
+    </ul>
   );
 }

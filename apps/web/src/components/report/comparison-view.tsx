@@ -1,6 +1,7 @@
 import type { ComparisonResponse, ComparisonRow } from "@calmcrest/contracts";
 import { formatArcsec, formatNumber, formatPercent } from "../../lib/format";
-import { MonthlyMediansChart, OverlaidCdfChart, SeriesLegend } from "../compare/compare-charts";
+import { SeriesLegend } from "../compare/series-style";
+import { OnDemandMonthlyMediansChart, OnDemandOverlaidCdfChart } from "../on-demand";
 
 // The frozen comparison of a report version: one table row per site (or campaign), the paired verdicts in words,
 // and the Compare page's two overlaid charts (same line styles as there), all drawn from the stored numbers only
@@ -141,8 +142,8 @@ export function ComparisonView({ comparison }: { comparison: ComparisonResponse 
       <div className="report-charts space-y-3">
         <SeriesLegend rows={comparison.rows} />
         <div className="grid gap-4 lg:grid-cols-2">
-          <OverlaidCdfChart rows={comparison.rows} />
-          <MonthlyMediansChart rows={comparison.rows} />
+          <OnDemandOverlaidCdfChart rows={comparison.rows} />
+          <OnDemandMonthlyMediansChart rows={comparison.rows} />
         </div>
       </div>
       <div className="rounded-lg border border-line bg-panel p-4">

@@ -62,7 +62,7 @@ function startServer(dataDir: string, port: number): ChildProcess {
   });
 }
 
-async function stopServer(server: ChildProcess): Promise<void> {
+export async function stopServer(server: ChildProcess): Promise<void> {
   // Already gone (exited, or ended by a signal): nothing to wait for.
   if (server.exitCode !== null || server.signalCode !== null) return;
   const exited = new Promise((resolve) => server.once("exit", resolve));

@@ -17,6 +17,7 @@ const BENCHMARKS: Record<string, () => Promise<BenchmarkModule>> = {
   survey: () => import('./survey.ts'),
   peer: () => import('./peer.ts'),
   intervalCoverage: () => import('./intervalCoverage.ts'),
+  web: () => import('./web.ts'),
 };
 
 function parseFlags(argv: readonly string[]): { rows: number; runs: number; out: string; only: string[] } {

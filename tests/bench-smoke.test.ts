@@ -40,6 +40,13 @@ describe('bench smoke run', () => {
     expect(survey.mapSitesWithSummary).toBe(10);
     expect(Number(survey.databaseBytesPerSample)).toBeGreaterThan(20);
     expect(Number(survey.serverRssAfterMapAndPagesMb)).toBeGreaterThan(50);
+    // the web bench measured the built app's first-load JavaScript and a cold site page with all six charts drawn
+    const web = results.benchmarks.web ?? {};
+    expect(Number(web.signInInitialGzipKb)).toBeGreaterThan(20);
+    expect(Number(web.sitesInitialGzipKb)).toBeGreaterThan(Number(web.signInInitialGzipKb));
+    expect(Number(web.chartsOnDemandGzipKb)).toBeGreaterThan(20);
+    expect(web.charts).toBe(6);
+    expect(Number(web.medianInteractiveMs)).toBeGreaterThan(Number(web.medianChartsDrawnMs));
     for (const [name, figures] of Object.entries(results.benchmarks)) expect(Object.keys(figures).length, name).toBeGreaterThan(0);
   }, 180_000);
 });

@@ -99,7 +99,8 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
   // One node process (tsx as a loader, not its CLI wrapper), so its /proc status is the server's own memory.
-  const server = spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+  // BENCH_PROF=<dir>: the server writes a CPU profile of each of its threads there (node --cpu-prof) when it stops.
+  const server = spawn(process.execPath, [...(process.env.BENCH_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROF}`] : []), "--import", "tsx", "src/main.ts"], {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

@@ -117,11 +117,15 @@ export async function campaignStats(knex: Knex, campaignIds: readonly number[]):
     }
   }
   for (const id of campaignIds) {
-    // MIN/MAX on the (campaign_id, time_ms) primary key are index look-ups, not scans.
-    const range = await knex("sample").where({ campaign_id: id }).first<{ first: number | null; last: number | null }>(
-      knex.raw("MIN(time_ms) AS first"),
-      knex.raw("MAX(time_ms) AS last"),
-    );
+    // One MIN and one MAX on the (campaign_id, time_ms) primary key, each in its own subquery, are two index
+    // look-ups. Both in one SELECT would scan every sample of the campaign (SQLite's min/max optimisation
+    // applies only to a query with a single aggregate): 0.2 s for a million, on the event loop.
+    const range = await knex
+      .select<{ first: number | null; last: number | null }>(
+        knex("sample").where({ campaign_id: id }).min("time_ms").as("first"),
+        knex("sample").where({ campaign_id: id }).max("time_ms").as("last"),
+      )
+      .first();
     const entry = stats.get(id);
     if (entry && range) {
       entry.firstSampleAt = range.first === null ? null : new Date(range.first).toISOString();

@@ -107,4 +107,33 @@ describe("the upload wizard with the layouts monitors write", () => {
     expect(await page.getByRole("button", { name: "Upload", exact: true }).isDisabled()).toBe(true);
     expect(browser.problems).toEqual([]);
   });
+
+  it("offers the wavelength for a seeing log and scales its preview to 500 nm, and for a variance log only the variance unit", async () => {
+    const { page } = browser;
+    await page.goto(`${server.url}/upload?campaign=${await newCampaign("Wavelength")}`);
+    await page.locator("input[type=file]").setInputFiles(join(repoRoot, "data-samples/wizard-fwhm-airmass.csv"));
+    const firstSeeing = () => page.getByRole("table", { name: "First rows as the server reads them" }).getByRole("row").nth(1).getByRole("cell").nth(2).textContent();
+    // Line 2 of the file: FWHM 0.801″ at airmass 1.333, reduced to zenith by (cos z)^(3/5) = (1/X)^(3/5) (seeing-physics.md).
+    const atZenith = 0.801 * (1 / 1.333) ** 0.6;
+    await expect.poll(firstSeeing, { timeout: 20_000 }).toBe(`${atZenith.toFixed(2)}″`);
+    expect(await page.getByRole("radiogroup", { name: "Variance unit" }).count()).toBe(0);
+    await page.getByLabel(/Measurement wavelength of this file/).fill("650");
+    // Seeing ∝ λ^(-1/5): measured at 650 nm it is (650/500)^(1/5) times larger at 500 nm.
+    await expect.poll(firstSeeing, { timeout: 20_000 }).toBe(`${(atZenith * (650 / 500) ** 0.2).toFixed(2)}″`);
+    await screenshot(page, "upload-format-wavelength-desktop");
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.waitForTimeout(300);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    await screenshot(page, "upload-format-wavelength-phone");
+    await page.setViewportSize({ width: 1366, height: 900 });
+    await page.getByLabel(/Measurement wavelength of this file/).fill("9");
+    await page.getByText("The wavelength: write it in nanometres between 300 and 2500 (e.g. 550), or leave it empty for the campaign's.").waitFor();
+    expect(await page.getByRole("button", { name: "Upload", exact: true }).isDisabled()).toBe(true);
+
+    await page.locator("input[type=file]").setInputFiles(join(repoRoot, "data-samples/native-arcsec2.csv"));
+    await page.getByRole("radiogroup", { name: "Variance unit" }).waitFor();
+    expect(await page.getByLabel(/Measurement wavelength of this file/).count()).toBe(0);
+    await page.getByText(/Not needed: seeing from image-motion variances does not depend on it/).waitFor();
+    expect(browser.problems).toEqual([]);
+  });
 });

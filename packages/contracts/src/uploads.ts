@@ -206,7 +206,8 @@ export interface WholeFileCheck {
  * How a file is read beyond its mapping (multipart field `readOptions`, JSON): the time format (`iso` by default;
  * `jd`, `mjd`, `dmy`, `mdy`) and the zone of times written without one, in minutes east of UTC; the delimiter
  * when it should not be detected (`,` `;` `tab` `space` `whitespace`: runs of spaces or tabs); the line holding the
- * column names when a plain-text preamble stands above it (1-based; the lines above are skipped and counted).
+ * column names when a plain-text preamble stands above it (1-based; the lines above are skipped and counted); the
+ * wavelength the file's seeing or r0 was measured at when it is not the campaign monitor's.
  */
 export const readOptionsSchema = z.object({
   timeFormat: z.enum(TIME_FORMATS, { error: "timeFormat must be iso, jd, mjd, dmy or mdy." }).default("iso"),
@@ -222,6 +223,15 @@ export const readOptionsSchema = z.object({
     .int("headerLine must be a whole line number (1 is the first line).")
     .min(1, "headerLine must be at least 1 (the first line of the file).")
     .max(10_000, "headerLine must be at most 10000; a preamble is a few lines of text above the column names.")
+    .optional(),
+  /**
+   * The wavelength this file's seeing or r0 was measured at, when it differs from the campaign's monitor (the
+   * engine scales seeing to 500 nm by λ^(1/5)); variance logs do not depend on it. Absent: the campaign's.
+   */
+  wavelengthNm: z
+    .number({ error: "wavelengthNm must be the wavelength the file's seeing or r0 was measured at, in nanometres (e.g. 550)." })
+    .min(300, "wavelengthNm must be between 300 and 2500 nm (a seeing monitor measures in visible or near-infrared light).")
+    .max(2500, "wavelengthNm must be between 300 and 2500 nm (a seeing monitor measures in visible or near-infrared light).")
     .optional(),
 });
 export type ReadOptions = z.output<typeof readOptionsSchema>;

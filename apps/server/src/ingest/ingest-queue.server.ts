@@ -2,7 +2,7 @@ import { join } from "node:path";
 import { Worker } from "node:worker_threads";
 import type { RequestHandler } from "express";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
-import { effectiveCampaign, monitorOf, readOptionsOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
+import { effectiveCampaign, monitorForFile, monitorOf, readOptionsOf, siteLocationOf, type Store, type WriteGate } from "../store/index";
 import type { SampleMover } from "../store/core";
 import type { SampleMoveJob, SampleMoveOutcome } from "../store/sample-moves";
 import { rawFilePath, tmpDir } from "../uploads/raw-files.server";
@@ -234,7 +234,8 @@ export class IngestQueue implements SampleMover {
       sizeBytes: upload.size_bytes,
       mapping: JSON.parse(upload.mapping) as ColumnMapping,
       // A re-read may carry corrected monitor settings; otherwise the campaign's.
-      monitor: monitorOf(effectiveCampaign(campaign, upload)),
+      // The file's own wavelength (read options), when it was given, in place of the monitor's.
+      monitor: monitorForFile(monitorOf(effectiveCampaign(campaign, upload)), readOptionsOf(upload)),
       ...readOptionsOf(upload),
       site: siteLocationOf(site),
     };

@@ -1,8 +1,9 @@
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import type { UploadAccepted, UploadStatus, WholeFileCheck } from "@calmcrest/contracts";
+import { analyzeLog } from "@calmcrest/seeing-stats/node";
+import type { SummaryResponse, UploadAccepted, UploadPreview, UploadStatus, WholeFileCheck } from "@calmcrest/contracts";
 import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
-import { createSiteAndCampaign, DATA_SAMPLES, postUpload, waitForUpload } from "./test-helpers";
+import { createSiteAndCampaign, DATA_SAMPLES, postUpload, SAMPLES_SITE, waitForUpload } from "./test-helpers";
 
 const { app } = await createTestServer();
 const lead = await signedInAgent(app, "lead");
@@ -102,5 +103,46 @@ describe("a file with no usable row", () => {
     const answer = await request.attach("file", Buffer.from(jdLog), "jd.csv");
     expect(answer.status).toBe(400);
     expect(answer.body.error.message).toMatch(/storeAnyway must be "true" or "false"/);
+  });
+});
+
+describe("a file measured at another wavelength than the campaign's monitor", () => {
+  const seeingLog = join(DATA_SAMPLES, "wizard-fwhm-airmass.csv");
+
+  it("is scaled to 500 nm from the wavelength in its read options, in the preview and in the stored statistics", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const preview = async (readOptions: object) =>
+      (
+        await lead
+          .post(`/api/campaigns/${campaign.id}/uploads/preview`)
+          .set(SAME_ORIGIN)
+          .field("readOptions", JSON.stringify(readOptions))
+          .attach("file", Buffer.from("Timestamp (UTC);FWHM [arcsec];Airmass\n2025-05-02 00:30:00;0,80;1,000\n"), "one.csv")
+      ).body as UploadPreview;
+    const at500 = (await preview({})).rows[0]?.sample?.seeingArcsec ?? Number.NaN;
+    const at650 = (await preview({ wavelengthNm: 650 })).rows[0]?.sample?.seeingArcsec ?? Number.NaN;
+    // Seeing ∝ λ^(-1/5) (Kolmogorov turbulence; shared/domain/seeing-physics.md): 0.80″ at 650 nm is 0.80 (650/500)^(1/5) ″ at 500 nm.
+    expect(at500).toBeCloseTo(0.8, 12);
+    expect(at650).toBeCloseTo(0.8 * (650 / 500) ** 0.2, 12);
+
+    const posted = await postUpload(lead, campaign.id, seeingLog, "wizard-fwhm-airmass.csv", undefined, { readOptions: { wavelengthNm: 650 } });
+    const upload = await waitForUpload(lead, (posted.body as UploadAccepted).upload.id);
+    expect(upload.readOptions.wavelengthNm).toBe(650);
+    const summary = (await lead.get(`/api/campaigns/${campaign.id}/summary`)).body as SummaryResponse;
+    const report = await analyzeLog(seeingLog, {
+      monitor: { wavelengthNm: 650, response: "z-tilt" },
+      site: { latitudeDeg: SAMPLES_SITE.latitude, longitudeDeg: SAMPLES_SITE.longitude, elevationM: SAMPLES_SITE.elevationM },
+      summary: { longitudeDeg: SAMPLES_SITE.longitude },
+    });
+    if (summary.empty) throw new Error("expected statistics");
+    // The same figures as the analyzer given --wavelength-nm 650.
+    expect(summary.seeing).toEqual(report.seeing);
+  });
+
+  it("answers 400 for a wavelength outside 300–2500 nm, saying the range", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const posted = await postUpload(lead, campaign.id, seeingLog, "wizard-fwhm-airmass.csv", undefined, { readOptions: { wavelengthNm: 50 } });
+    expect(posted.status).toBe(400);
+    expect(posted.body.error.message).toMatch(/wavelengthNm must be between 300 and 2500 nm/);
   });
 });

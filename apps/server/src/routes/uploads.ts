@@ -23,7 +23,7 @@ import { FIELD_ROLES, routeId, type CampaignAction } from "../access/access.serv
 import { HttpError, notFound, parseOr400 } from "../http/errors";
 import { ApiRouter } from "../http/route-table";
 import { currentUser } from "../http/session";
-import { effectiveCampaign, monitorColumns, monitorOf, readOptionsOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
+import { effectiveCampaign, monitorColumns, monitorForFile, monitorOf, readOptionsOf, siteLocationOf, uploadListItem, type CampaignRow } from "../store/index";
 import { acceptUpload, checkHeader } from "../uploads/accept-upload.server";
 import { discardTemporary, hashingDiskStorage, rawFilePath, type HashedFile } from "../uploads/raw-files.server";
 import { checkingStorage, type CheckedFile } from "../uploads/whole-file-check.server";
@@ -164,7 +164,7 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
     const site = await store.campaigns.siteOf(campaign);
     try {
       const preview = previewLog(text, {
-        monitor: monitorOf(campaign),
+        monitor: monitorForFile(monitorOf(campaign), readOptions),
         site: siteLocationOf(site),
         maxRows: 20,
         ...(mapping ? { mapping } : {}),
@@ -195,10 +195,11 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
         const locals = req.res?.locals;
         if (!locals?.siteLocation) throw notFound("That campaign");
         const campaign = accessedCampaign(locals);
+        const readOptions = parseReadOptionsField((req.body as Record<string, unknown> | undefined)?.readOptions);
         return {
           mapping: parseMappingField((req.body as Record<string, unknown> | undefined)?.mapping),
-          readOptions: parseReadOptionsField((req.body as Record<string, unknown> | undefined)?.readOptions),
-          monitor: monitorOf(campaign),
+          readOptions,
+          monitor: monitorForFile(monitorOf(campaign), readOptions),
           site: locals.siteLocation,
           storedTimes: () => locals.storedTimes ?? new Float64Array(0),
         };
@@ -285,6 +286,13 @@ export function campaignUploadRoutes(context: AppContext): ApiRouter {
   });
 
   return routes;
+}
+
+/** Read options without the file's own wavelength, when corrected monitor settings replace it. */
+function withoutWavelength(options: ReadOptions, drop: boolean): ReadOptions {
+  if (!drop || options.wavelengthNm === undefined) return options;
+  const { wavelengthNm: _dropped, ...rest } = options;
+  return rest;
 }
 
 /** Two mappings name the same header for the same fields (order does not matter). */
@@ -398,14 +406,16 @@ export function uploadRoutes(context: AppContext): ApiRouter {
     });
     const campaign = await store.campaigns.forUser(user, row.campaign_id, "upload");
     const corrected = input.monitor ? { ...campaign, ...monitorColumns(input.monitor) } : effectiveCampaign(campaign, row);
+    // The stored read options unless new ones are sent; corrected monitor settings bring their own wavelength.
+    const rereadOptions = input.readOptions ?? withoutWavelength(readOptionsOf(row), input.monitor !== undefined);
     let mapping: ColumnMapping;
     try {
-      mapping = await checkHeader(path, monitorOf(corrected), input.mapping ?? (JSON.parse(row.mapping) as ColumnMapping), input.readOptions ?? readOptionsOf(row));
+      mapping = await checkHeader(path, monitorForFile(monitorOf(corrected), rereadOptions), input.mapping ?? (JSON.parse(row.mapping) as ColumnMapping), rereadOptions);
     } catch (error) {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       throw error;
     }
-    const newId = await store.uploads.reread(user, row, { mapping, monitor: input.monitor, reason: input.reason, readOptions: input.readOptions });
+    const newId = await store.uploads.reread(user, row, { mapping, monitor: input.monitor, reason: input.reason, readOptions: input.readOptions ?? (input.monitor ? rereadOptions : undefined) });
     ingest.enqueue(newId);
     const accepted: RereadAccepted = { upload: { id: newId, status: "queued" }, replaces: row.id };
     res.status(202).json(accepted);

@@ -49,7 +49,7 @@ export type { AuditEntry, Change, ChangeListener, WriteScope, WriteOptions } fro
 export { WriteGate } from "./write-gate";
 export { monitorOf, monitorColumns, campaignMonitor, campaignListItem, type CampaignRow } from "./campaigns";
 export { siteLocationOf, siteListItem, siteRef, type SiteRow } from "./sites";
-export { uploadListItem, uploadCounts, effectiveCampaign, readOptionsOf, type UploadRow, type MonitorOverride, type IngestRejections, type RecordResult } from "./uploads";
+export { uploadListItem, uploadCounts, effectiveCampaign, monitorForFile, readOptionsOf, type UploadRow, type MonitorOverride, type IngestRejections, type RecordResult } from "./uploads";
 export { exclusionView, type ExclusionRow } from "./exclusions";
 export { visibleCampaignIds } from "./memberships";
 export type { UserRow } from "./users";

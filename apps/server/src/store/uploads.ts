@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import type { User } from "lucia";
-import { readingWarnings, type ColumnMapping } from "@calmcrest/seeing-stats";
+import { readingWarnings, type ColumnMapping, type MonitorSettings } from "@calmcrest/seeing-stats";
 import type { ColumnMappingInput, ReadOptions, RejectReasonName, SampleCounts, UploadListItem, UploadStatus, UploadStatusName } from "@calmcrest/contracts";
 import type { z } from "zod";
 import type { monitorSettingsSchema } from "@calmcrest/contracts";
@@ -63,6 +63,11 @@ export function uploadRows(knex: Knex) {
       "withdrawer.name as withdrawer_name",
       knex.raw("(SELECT MAX(later.id) FROM upload AS later WHERE later.replaces_upload_id = upload.id) AS replaced_by_upload_id"),
     );
+}
+
+/** The monitor a file is read with: its read options' wavelength, when given, in place of the monitor's. */
+export function monitorForFile(monitor: MonitorSettings, readOptions: Pick<ReadOptions, "wavelengthNm"> | undefined): MonitorSettings {
+  return readOptions?.wavelengthNm === undefined ? monitor : { ...monitor, wavelengthNm: readOptions.wavelengthNm };
 }
 
 /** The campaign's monitor with a re-read's corrections applied (what the ingest computes with). */

@@ -4,7 +4,7 @@ import { streamLog } from "@calmcrest/seeing-stats/node";
 import type { ReadOptions } from "@calmcrest/contracts";
 import type { AppContext } from "../context";
 import { HttpError } from "../http/errors";
-import { monitorOf, type CampaignRow, type RecordResult } from "../store/index";
+import { monitorForFile, monitorOf, type CampaignRow, type RecordResult } from "../store/index";
 import { discardTemporary, storeRawFile, type HashedFile } from "./raw-files.server";
 
 /** Thrown by the header check's handlers to stop reading once the header and mapping are known to work. */
@@ -138,13 +138,13 @@ export async function acceptUpload(
     let mapping: ColumnMapping;
     try {
       // Store the mapping actually used: the overrides sent, every other field matched by name.
-      mapping = await checkHeader(file.path, monitorOf(campaign), input.mapping, input.readOptions);
+      mapping = await checkHeader(file.path, monitorForFile(monitorOf(campaign), input.readOptions), input.mapping, input.readOptions);
     } catch (error) {
       if (error instanceof LogFormatError) throw new HttpError(400, "unreadable_log", describeLogFormatError(error).text);
       throw error;
     }
     // A file that cannot give a single sample is refused unless the sender said to keep it anyway.
-    const usable = await findUsableRow(file.path, monitorOf(campaign), mapping, input.readOptions);
+    const usable = await findUsableRow(file.path, monitorForFile(monitorOf(campaign), input.readOptions), mapping, input.readOptions);
     const nothingUsable = !usable.found;
     if (!usable.found && input.storeAnyway !== true) throw nothingUsableError(input.fileName, usable.rowsRead, usable.rejectedByReason);
 

@@ -10,7 +10,7 @@ import { campaignQuery } from "../api/campaigns";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
 import { Notice, Page } from "../components/page";
 import { FileProgress, type FileSend } from "../components/upload/file-progress";
-import { MappingEditor } from "../components/upload/mapping-editor";
+import { MappingEditor, measureOfMapping } from "../components/upload/mapping-editor";
 import { PreviewTable } from "../components/upload/preview-table";
 import { WholeFileCheckView } from "../components/upload/whole-file-check";
 import { leadingComments, monitorDisagreements, statedMonitor } from "../lib/comment-monitor";
@@ -106,16 +106,28 @@ export function UploadPage() {
       ? { line, problem: null }
       : { line: undefined, problem: "The line of the column names: write a whole line number from 1 (the first line of the file), or leave it empty." };
   }, [headerLineText]);
+  /** The wavelength this file's seeing or r0 was measured at ("": the campaign's); variances do not need it. */
+  const [wavelengthText, setWavelengthText] = useState("");
+  const measure = measureOfMapping(mapping);
+  const wavelength = useMemo(() => {
+    const text = wavelengthText.trim().replace(",", ".");
+    if (text === "" || measure === "variances" || measure === null) return { nm: undefined, problem: null };
+    const nm = Number(text);
+    return Number.isFinite(nm) && nm >= 300 && nm <= 2500
+      ? { nm, problem: null }
+      : { nm: undefined, problem: "The wavelength: write it in nanometres between 300 and 2500 (e.g. 550), or leave it empty for the campaign's." };
+  }, [wavelengthText, measure]);
   const readOptions: ReadOptions = useMemo(
     () => ({
       timeFormat,
       utcOffsetMinutes: offset.minutes,
       ...(delimiterChoice !== "" ? { delimiter: delimiterChoice } : {}),
       ...(headerLine.line !== undefined ? { headerLine: headerLine.line } : {}),
+      ...(wavelength.nm !== undefined && wavelength.nm !== campaign.data?.monitor.wavelengthNm ? { wavelengthNm: wavelength.nm } : {}),
     }),
-    [timeFormat, offset.minutes, delimiterChoice, headerLine.line],
+    [timeFormat, offset.minutes, delimiterChoice, headerLine.line, wavelength.nm, campaign.data?.monitor.wavelengthNm],
   );
-  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: offset.problem ?? headerLine.problem });
+  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: offset.problem ?? headerLine.problem ?? wavelength.problem });
   const { files, head, headText, sends, running } = batch;
   const resultsHeading = useRef<HTMLHeadingElement>(null);
   const [mappingSource, setMappingSource] = useState<"saved" | "proposed" | null>(null);
@@ -329,6 +341,7 @@ export function UploadPage() {
                   onChange={(next) => setValue("mapping", next, { shouldDirty: true })}
                   pixelScaleArcsec={pixelScaleArcsec}
                   wavelengthNm={selectedCampaign.monitor.wavelengthNm}
+                  wavelength={{ text: wavelengthText, onChange: setWavelengthText, problem: wavelength.problem }}
                 />
               </div>
               <figure className="min-w-0">

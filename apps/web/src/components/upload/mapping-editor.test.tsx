@@ -13,8 +13,9 @@ const interlacedHead = readLogHead(
 );
 
 let latest: ColumnMapping = {};
-function Harness({ initial, pixelScaleArcsec = null, source = head }: { initial: ColumnMapping; pixelScaleArcsec?: number | null; source?: typeof head }) {
+function Harness({ initial, pixelScaleArcsec = null, source = head, editableWavelength = false }: { initial: ColumnMapping; pixelScaleArcsec?: number | null; source?: typeof head; editableWavelength?: boolean }) {
   const [mapping, setMapping] = useState(initial);
+  const [wavelengthText, setWavelengthText] = useState("");
   latest = mapping;
   return (
     <MappingEditor
@@ -27,6 +28,7 @@ function Harness({ initial, pixelScaleArcsec = null, source = head }: { initial:
       }}
       pixelScaleArcsec={pixelScaleArcsec}
       wavelengthNm={550}
+      wavelength={editableWavelength ? { text: wavelengthText, onChange: setWavelengthText, problem: null } : undefined}
     />
   );
 }
@@ -91,5 +93,21 @@ describe("the unit after a field's label", () => {
     expect(unitNote("Time of the sample (ISO 8601, UTC)", "UTC", false)).toBe("");
     expect(unitNote("Star flux", "counts", false)).toBe("(counts)");
     expect(unitNote("Longitudinal variance at twice the exposure time", "arcsec²", true)).toBe("(arcsec², optional)");
+  });
+
+  it("shows only the units the file's measure needs: no variance unit for a seeing column, the wavelength editable for it", () => {
+    render(<Harness initial={head.proposedMapping} editableWavelength />);
+    expect(screen.queryByRole("radiogroup", { name: "Variance unit" })).toBeNull();
+    expect(screen.getByRole("radiogroup", { name: "Pointing" })).toBeTruthy();
+    const wavelength = screen.getByLabelText(/Measurement wavelength of this file/) as HTMLInputElement;
+    expect(wavelength.placeholder).toBe("550");
+    expect(screen.getByText(/Empty: the campaign's 550 nm. The seeing is scaled to 500 nm/)).toBeTruthy();
+  });
+
+  it("shows the variance unit and no wavelength field for variances, which do not depend on the wavelength", () => {
+    render(<Harness initial={interlacedHead.proposedMapping} source={interlacedHead} pixelScaleArcsec={0.5} editableWavelength />);
+    expect(screen.getByRole("radiogroup", { name: "Variance unit" })).toBeTruthy();
+    expect(screen.queryByLabelText(/Measurement wavelength of this file/)).toBeNull();
+    expect(screen.getByText(/Not needed: seeing from image-motion variances does not depend on it/)).toBeTruthy();
   });
 });

@@ -17,6 +17,21 @@ const GROUPS: { title: string; help: string; fields: (units: { variance: Varianc
   { title: OPTIONAL_GROUP, help: "Kept with each sample when present.", fields: () => ["flux", "scint_index", "tau0_ms", "theta0_arcsec", "wind_ms", "rh_pct"] },
 ];
 
+/** The measure a mapping reads the seeing from, as the engine chooses it (variances first), or null when none is mapped yet. */
+export function measureOfMapping(mapping: ColumnMapping): "variances" | "seeing" | "r0" | null {
+  if (mapping.var_long_arcsec2 || mapping.var_trans_arcsec2 || mapping.var_long_px2 || mapping.var_trans_px2) return "variances";
+  if (mapping.seeing_arcsec) return "seeing";
+  if (mapping.r0_cm) return "r0";
+  return null;
+}
+
+/** The file's own measurement wavelength as the person types it (the wizard page holds it). */
+export interface WavelengthField {
+  text: string;
+  onChange: (text: string) => void;
+  problem: string | null;
+}
+
 /**
  * Which column of the file holds which Calmcrest field, and in which units. Changes are reported whole, and the
  * problems (from the engine's checkMapping, the same rules the server applies) are listed under the table.
@@ -28,6 +43,7 @@ export function MappingEditor({
   onChange,
   pixelScaleArcsec,
   wavelengthNm,
+  wavelength,
 }: {
   headers: string[];
   rows: Record<string, string>[];
@@ -35,9 +51,13 @@ export function MappingEditor({
   onChange: (mapping: ColumnMapping) => void;
   /** From the campaign's monitor; pixel² variances need it. */
   pixelScaleArcsec: number | null;
+  /** The campaign monitor's wavelength. */
   wavelengthNm: number;
+  /** When given, the wavelength is editable for a seeing or r0 file (variances do not depend on it). */
+  wavelength?: WavelengthField | undefined;
 }) {
   const units = unitsOfMapping(mapping);
+  const measure = measureOfMapping(mapping);
   const problems = checkMapping(mapping, headers);
   if (units.variance === "px2" && pixelScaleArcsec === null && (mapping.var_long_px2 || mapping.var_trans_px2)) {
     problems.push("Variances in pixel² need the monitor's pixel scale, and this campaign has none. Ask the survey lead to enter it on the campaign, or map variances in arcsec².");
@@ -61,6 +81,8 @@ export function MappingEditor({
     <div className="space-y-5">
       <fieldset className="grid gap-4 rounded-lg border border-line bg-paper p-3 md:grid-cols-3">
         <legend className="px-1 text-sm font-semibold">Units in this file</legend>
+        {/* Only what the file's measure needs: the variance unit for variances, the wavelength for seeing or r0. */}
+        {measure === null || measure === "variances" ? (
         <div role="radiogroup" aria-label="Variance unit" className="space-y-1 text-sm">
           <p className="font-semibold">Image-motion variances in</p>
           {(
@@ -75,6 +97,7 @@ export function MappingEditor({
             </label>
           ))}
         </div>
+        ) : null}
         <div role="radiogroup" aria-label="Pointing" className="space-y-1 text-sm">
           <p className="font-semibold">Star position given as</p>
           {(
@@ -89,11 +112,38 @@ export function MappingEditor({
             </label>
           ))}
         </div>
-        <div className="text-sm">
-          <p className="font-semibold">Measurement wavelength</p>
-          <p className="tabular-nums">{wavelengthNm} nm</p>
-          <p className="text-ink-soft">From the campaign's monitor settings; every figure is scaled to 500 nm and zenith.</p>
-        </div>
+        {measure === "variances" ? (
+          <div className="text-sm">
+            <p className="font-semibold">Measurement wavelength</p>
+            <p className="text-ink-soft">Not needed: seeing from image-motion variances does not depend on it. Every figure is given at 500 nm and zenith.</p>
+          </div>
+        ) : wavelength && measure !== null ? (
+          <label className="block text-sm">
+            <span className="block font-semibold">Measurement wavelength of this file (nm)</span>
+            <input
+              value={wavelength.text}
+              onChange={(event) => wavelength.onChange(event.target.value)}
+              inputMode="decimal"
+              placeholder={String(wavelengthNm)}
+              aria-invalid={wavelength.problem ? true : undefined}
+              className="mt-1 w-28 rounded-md border border-line bg-panel px-2 py-1 tabular-nums"
+            />
+            <span className="mt-1 block text-ink-soft">
+              Empty: the campaign's {wavelengthNm} nm. The {measure === "r0" ? "r0" : "seeing"} is scaled to 500 nm ({measure === "r0" ? "r0 ∝ λ^6/5" : "seeing ∝ λ^−1/5"}) and to zenith.
+            </span>
+            {wavelength.problem ? (
+              <span role="alert" className="mt-1 block text-bad">
+                {wavelength.problem}
+              </span>
+            ) : null}
+          </label>
+        ) : (
+          <div className="text-sm">
+            <p className="font-semibold">Measurement wavelength</p>
+            <p className="tabular-nums">{wavelengthNm} nm</p>
+            <p className="text-ink-soft">From the campaign's monitor settings; every figure is scaled to 500 nm and zenith.</p>
+          </div>
+        )}
       </fieldset>
 
       {/* A narrow screen scrolls the table inside its box, never the page. */}

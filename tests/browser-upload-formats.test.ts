@@ -95,6 +95,7 @@ describe("the upload wizard with the layouts monitors write", () => {
     await expect.poll(() => page.getByLabel(/Time of the sample/).inputValue()).toBe("time_utc");
     await expect.poll(() => checkSummary(page), { timeout: 20_000 }).toBe("All 60 rows checked: 59 usable, 1 with a problem. Nothing has been stored yet.");
     await uploadAndCount(page, "preamble", 59, 1);
+    expect(await page.getByTestId("result-preamble").textContent()).toBe("Lines 1–5 above the column names on line 6: skipped as a preamble, not rows.");
     expect(browser.problems).toEqual([]);
   });
 

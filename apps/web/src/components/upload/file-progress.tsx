@@ -51,6 +51,11 @@ function Counts({ upload, check }: { upload: UploadListItem; check?: WholeFileCh
         {" · "}
         {formatNumber(upload.samples.read)} rows read
       </p>
+      {upload.readOptions.headerLine !== undefined && upload.readOptions.headerLine > 1 ? (
+        <p className="text-ink-soft" data-testid="result-preamble">
+          {upload.readOptions.headerLine === 2 ? "Line 1" : `Lines 1–${upload.readOptions.headerLine - 1}`} above the column names on line {upload.readOptions.headerLine}: skipped as a preamble, not rows.
+        </p>
+      ) : null}
       {check && check.usable === upload.samples.accepted ? <p className="text-ink-soft" data-testid="result-set-aside">{setAsideSentence(check, `the ${formatNumber(upload.samples.accepted)} accepted`)}</p> : null}
       {upload.warnings.map((warning) => (
         <p key={warning.code} role="note" className="rounded bg-warn-pale px-2 py-1 text-warn">

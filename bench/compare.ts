@@ -46,7 +46,7 @@ async function ridgeLog(ridge: (typeof RIDGES)[number], rows: number): Promise<s
 }
 
 /** CPU time (user + system, all threads) the process has used so far, in ms, from /proc (clock ticks of 10 ms). */
-function processCpuMs(pid: number): number {
+export function processCpuMs(pid: number): number {
   const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
   const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
   // After the command name: state is field 3, utime field 14 and stime field 15 (1-based, proc(5)).

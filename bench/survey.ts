@@ -6,12 +6,12 @@
 // resident memory after all of that. Also the disk the samples take. Run through bench/run.ts
 // (`npm run bench -- --only survey`), or alone: node_modules/.bin/tsx bench/survey.ts [rows].
 import { spawn, type ChildProcess } from "node:child_process";
-import { mkdtempSync, openAsBlob, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, openAsBlob, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { loadavg, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { median } from "./childProcess.ts";
-import { waitForSnapshots } from "./compare.ts";
+import { processCpuMs, waitForSnapshots } from "./compare.ts";
 import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
@@ -95,19 +95,34 @@ async function timedGet(base: string, path: string, headers: Record<string, stri
   return { ms: performance.now() - begin, body };
 }
 
-export async function run({ rows }: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
-  const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-survey-"));
+/**
+ * With `keepDataDir` (CALMCREST_BENCH_SURVEY_DATA_DIR) the loaded data directory is kept there and reused by the
+ * next run with the same rows (what was loaded is kept in bench-survey.json beside the database).
+ */
+export async function run({ rows, keepDataDir = process.env.CALMCREST_BENCH_SURVEY_DATA_DIR }: { rows: number; runs?: number; keepDataDir?: string }): Promise<Record<string, number | string>> {
+  const dataDir = keepDataDir ?? mkdtempSync(join(tmpdir(), "calmcrest-bench-survey-"));
+  const loadedFile = join(dataDir, "bench-survey.json");
   try {
-    const loadPort = await freePort();
-    const loader = startServer(dataDir, loadPort);
-    let loaded: Awaited<ReturnType<typeof loadSites>>;
-    try {
-      await waitForHealth(`http://127.0.0.1:${loadPort}`, loader, 60_000);
-      loaded = await loadSites(`http://127.0.0.1:${loadPort}`, rows);
-      await waitForSnapshots(dataDir, loaded.campaignIds, 300_000);
-    } finally {
-      await stopServer(loader);
+    let loaded: (Awaited<ReturnType<typeof loadSites>> & { rows?: number }) | null = null;
+    if (keepDataDir !== undefined && existsSync(loadedFile)) {
+      const kept = JSON.parse(readFileSync(loadedFile, "utf8")) as Awaited<ReturnType<typeof loadSites>> & { rows?: number };
+      if (kept.rows === rows) loaded = kept;
+      else rmSync(dataDir, { recursive: true, force: true });
     }
+    if (loaded === null) {
+      mkdirSync(dataDir, { recursive: true });
+      const loadPort = await freePort();
+      const loader = startServer(dataDir, loadPort);
+      try {
+        await waitForHealth(`http://127.0.0.1:${loadPort}`, loader, 60_000);
+        loaded = { ...(await loadSites(`http://127.0.0.1:${loadPort}`, rows)), rows };
+        await waitForSnapshots(dataDir, loaded.campaignIds, 300_000);
+      } finally {
+        await stopServer(loader);
+      }
+      if (keepDataDir !== undefined) writeFileSync(loadedFile, JSON.stringify(loaded));
+    }
+    const sites = loaded;
     const databaseBytes = bytesOf(dataDir, "calmcrest.sqlite");
     const snapshotBytes = bytesOf(join(dataDir, "cache", "columns"), "campaign-");
 
@@ -120,48 +135,59 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
       await waitForHealth(base, server, 60_000);
       const readyMs = performance.now() - spawnedMs;
       const { headers } = await signInAsLead(base, PASSWORD);
+      const pid = server.pid ?? 0;
+      const cpuBeforeMap = processCpuMs(pid);
       const map = await timedGet(base, "/api/sites", headers);
+      const mapCpuMs = processCpuMs(pid) - cpuBeforeMap;
       const mapSinceSpawnMs = performance.now() - spawnedMs;
       const listed = map.body as { id: number; summary: { samples: number } | null }[];
-      const withSummary = listed.filter((site) => loaded.siteIds.includes(site.id) && site.summary !== null).length;
+      const withSummary = listed.filter((site) => sites.siteIds.includes(site.id) && site.summary !== null).length;
       const mapWarm = await timedGet(base, "/api/sites", headers);
       // Every site page as the web app opens it: the site, its summary, its sample series.
       const firstSummaryMs: number[] = [];
       const firstSeriesMs: number[] = [];
-      for (const siteId of loaded.siteIds) {
+      const firstSummaryCpuMs: number[] = [];
+      for (const siteId of sites.siteIds) {
         await timedGet(base, `/api/sites/${siteId}`, headers);
+        const cpuBefore = processCpuMs(pid);
         firstSummaryMs.push((await timedGet(base, `/api/sites/${siteId}/summary`, headers)).ms);
+        firstSummaryCpuMs.push(processCpuMs(pid) - cpuBefore);
         firstSeriesMs.push((await timedGet(base, `/api/sites/${siteId}/samples`, headers)).ms);
       }
       const rssAfterPagesMb = rssMb(server.pid ?? 0);
       const warmSummaryMs: number[] = [];
-      for (let round = 0; round < 3; round += 1) for (const siteId of loaded.siteIds) warmSummaryMs.push((await timedGet(base, `/api/sites/${siteId}/summary`, headers)).ms);
-      const four = loaded.siteIds.slice(0, 4).join(",");
+      for (let round = 0; round < 3; round += 1) for (const siteId of sites.siteIds) warmSummaryMs.push((await timedGet(base, `/api/sites/${siteId}/summary`, headers)).ms);
+      const four = sites.siteIds.slice(0, 4).join(",");
+      const cpuBeforeComparison = processCpuMs(pid);
       const comparisonFirst = await timedGet(base, `/api/comparisons?sites=${four}`, headers);
+      const comparisonCpuMs = processCpuMs(pid) - cpuBeforeComparison;
       const comparisonWarm: number[] = [];
       for (let index = 0; index < 5; index += 1) comparisonWarm.push((await timedGet(base, `/api/comparisons?sites=${four}`, headers)).ms);
       const rssEndMb = rssMb(server.pid ?? 0);
-      const storedSamples = loaded.stored;
+      const storedSamples = sites.stored;
       return {
         sites: SITES,
         storedSamplesPerSite: Math.round(storedSamples / SITES),
         storedSamplesTotal: storedSamples,
-        ingestMedianS: Math.round(median(loaded.ingestS) * 100) / 100,
+        ingestMedianS: Math.round(median(sites.ingestS) * 100) / 100,
         databaseMb: Math.round(databaseBytes / 2 ** 20),
         databaseBytesPerSample: Math.round(databaseBytes / storedSamples),
         snapshotsMb: Math.round(snapshotBytes / 2 ** 20),
         snapshotBytesPerSample: Math.round(snapshotBytes / storedSamples),
         restartToHealthyMs: Math.round(readyMs),
         mapFirstAnswerMs: Math.round(map.ms),
+        mapFirstAnswerServerCpuMs: mapCpuMs,
         mapFirstAnswerSinceSpawnMs: Math.round(mapSinceSpawnMs),
         mapSitesWithSummary: withSummary,
         mapWarmMs: Math.round(mapWarm.ms),
         siteSummaryFirstMaxMs: Math.round(Math.max(...firstSummaryMs)),
         siteSummaryFirstMedianMs: Math.round(median(firstSummaryMs)),
+        siteSummaryFirstServerCpuMedianMs: median(firstSummaryCpuMs),
         siteSeriesFirstMaxMs: Math.round(Math.max(...firstSeriesMs)),
         siteSummaryWarmMaxMs: Math.round(Math.max(...warmSummaryMs)),
         siteSummaryWarmMedianMs: Math.round(median(warmSummaryMs)),
         comparison4FirstMs: Math.round(comparisonFirst.ms),
+        comparison4FirstServerCpuMs: comparisonCpuMs,
         comparison4WarmMedianMs: Math.round(median(comparisonWarm)),
         serverRssAfterMapAndPagesMb: Math.round(rssAfterPagesMb),
         serverRssEndMb: Math.round(rssEndMb),
@@ -173,7 +199,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
       await stopServer(server);
     }
   } finally {
-    rmSync(dataDir, { recursive: true, force: true });
+    if (keepDataDir === undefined) rmSync(dataDir, { recursive: true, force: true });
   }
 }
 

@@ -1,5 +1,6 @@
 import { createHash } from "node:crypto";
 import { availableParallelism } from "node:os";
+import { setFlagsFromString } from "node:v8";
 import { Worker } from "node:worker_threads";
 import type Database from "better-sqlite3";
 import type { Response } from "express";
@@ -87,6 +88,9 @@ class SummaryWorker {
 
   private ensure(): Worker {
     if (this.worker) return this.worker;
+    // The worker frees the garbage of a large task at once (summary-worker.ts): V8 flags are per process and read
+    // when an isolate starts, so this gives the worker threads started from now on a gc() function.
+    setFlagsFromString("--expose-gc");
     const worker = new Worker(new URL("./summary-worker.mjs", import.meta.url), { workerData: this.options });
     this.ready = new Promise((resolve) => {
       this.markReady = resolve;

@@ -17,6 +17,18 @@ connection.pragma("busy_timeout = 5000");
 // Column snapshots beside the database (data/cache/columns): a restarted worker reads them instead of the rows.
 const cache = new SampleCache(connection, { maxBytes: options.columnCacheMaxBytes, snapshotDir: columnSnapshotDir(options.dbFile) });
 
+/**
+ * A task over a million samples leaves tens of megabytes of typed arrays behind (selections, sorts, bootstrap
+ * work); V8 counts them as external memory and may hold them for a long while before a collection, so a busy
+ * server's resident memory stays hundreds of megabytes above what it keeps. After a task long enough to have made
+ * such garbage, a full collection gives it back at once (the summary service exposes gc to its workers).
+ */
+const collect = (globalThis as { gc?: () => void }).gc;
+function collectGarbageAfter(taskMs: number): void {
+  if (collect !== undefined && taskMs >= COLLECT_AFTER_TASK_MS) collect();
+}
+const COLLECT_AFTER_TASK_MS = 50;
+
 function post(message: FromSummaryWorker): void {
   parentPort?.postMessage(message);
 }
@@ -52,6 +64,7 @@ parentPort?.on("message", (message: ToSummaryWorker) => {
     const { body, versions } = runTask(message.kind, message.input);
     const result: FromSummaryWorker = { type: "result", id: message.id, body, versions, computeMs: performance.now() - startedMs, columnBytes: cache.bytesHeld };
     parentPort?.postMessage(result, [body.buffer as ArrayBuffer]);
+    collectGarbageAfter(performance.now() - startedMs);
   } catch (error) {
     post({ type: "error", id: message.id, message: error instanceof Error ? error.message : String(error) });
   }

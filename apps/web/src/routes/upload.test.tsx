@@ -128,7 +128,7 @@ describe("upload wizard", () => {
     await waitFor(() => expect((screen.getByLabelText("Campaign the logs belong to") as HTMLSelectElement).value).toBe("7"));
     await screen.findByText(/60 mm subapertures/);
     fireEvent.change(screen.getByLabelText("Log files"), { target: { files: [foreignLog()] } });
-    await waitFor(() => expect((screen.getByLabelText(/Time of the sample/) as HTMLSelectElement).value).toBe("Timestamp (UTC)"));
+    await waitFor(() => expect((screen.getByLabelText(/Time of the sample/) as HTMLSelectElement).value).toBe("Timestamp (UTC)"), { timeout: 8000 });
     expect(screen.getByText(/Proposed from the column names of trip.csv/)).toBeTruthy();
     await waitFor(() => expect((screen.getByRole("button", { name: "Upload" }) as HTMLButtonElement).disabled).toBe(false), { timeout: 4000 });
     expect(screen.getByTestId("check-summary").textContent).toBe("All 1 rows checked: 1 usable, 0 with a problem. Nothing has been stored yet.");

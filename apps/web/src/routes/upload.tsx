@@ -4,18 +4,20 @@ import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { Link, useSearchParams } from "react-router-dom";
 import { z } from "zod";
-import { columnMappingSchema, type CampaignDetail, type ReadOptions } from "@calmcrest/contracts";
-import { delimiterName, parseUtcOffsetMinutes, TIME_FORMATS, type ColumnMapping, type DelimiterChoice, type TimeFormat } from "@calmcrest/seeing-stats";
+import { columnMappingSchema, type CampaignDetail } from "@calmcrest/contracts";
+import { delimiterName, type ColumnMapping } from "@calmcrest/seeing-stats";
 import { campaignQuery } from "../api/campaigns";
 import { useVisibleCampaigns } from "../api/visible-campaigns";
 import { Notice, Page } from "../components/page";
 import { FileProgress, type FileSend } from "../components/upload/file-progress";
-import { MappingEditor, measureOfMapping } from "../components/upload/mapping-editor";
+import { MappingEditor } from "../components/upload/mapping-editor";
+import { LayoutFields, TimeFields } from "../components/upload/read-options-fields";
 import { PreviewTable } from "../components/upload/preview-table";
 import { WholeFileCheckView } from "../components/upload/whole-file-check";
 import { leadingComments, monitorDisagreements, statedMonitor } from "../lib/comment-monitor";
 import { mappingFitsHeaders } from "../lib/log-head";
 import { formatBytes, formatNumber } from "../lib/format";
+import { useReadOptions } from "../upload/useReadOptions";
 import { useUploadBatch } from "../upload/useUploadBatch";
 
 /** The wizard's form: the campaign, the mapping (the shared schema the server also checks) and whether to keep it. */
@@ -40,24 +42,6 @@ function Step({ number, title, children, done }: { number: number; title: string
   );
 }
 
-
-/** The time formats in words, for the wizard's choice. */
-const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
-  iso: "ISO 8601 dates and times (2025-03-01 23:15:00)",
-  jd: "Julian dates (2460736.46875)",
-  mjd: "modified Julian dates (60735.96875)",
-  dmy: "day first (01/03/2025 23:15)",
-  mdy: "month first (03/01/2025 23:15)",
-};
-
-/** The delimiters a person can name, in words. */
-const DELIMITER_WORDS: [DelimiterChoice, string][] = [
-  [",", "comma ,"],
-  [";", "semicolon ;"],
-  ["tab", "tab"],
-  ["space", "single space (two spaces make an empty column)"],
-  ["whitespace", "runs of spaces or tabs (aligned columns)"],
-];
 
 /** The sentence a screen reader hears once the batch is through. */
 function announce(sends: FileSend[], finishedCount: number): string {
@@ -84,50 +68,10 @@ export function UploadPage() {
   const campaign = useQuery({ ...campaignQuery(campaignId ?? 0), enabled: campaignId !== null });
 
   const selectedCampaign: CampaignDetail | undefined = campaign.data;
-  /** How the file's times are written, and the zone of times written without one. */
-  const [timeFormat, setTimeFormat] = useState<TimeFormat>("iso");
-  const [utcOffsetText, setUtcOffsetText] = useState("");
-  const offset = useMemo(() => {
-    if (utcOffsetText.trim() === "") return { minutes: 0, problem: null };
-    try {
-      return { minutes: parseUtcOffsetMinutes(utcOffsetText), problem: null };
-    } catch (error) {
-      return { minutes: 0, problem: error instanceof Error ? `The time zone: ${error.message}.` : "The time zone cannot be read." };
-    }
-  }, [utcOffsetText]);
-  /** Where the columns are: the delimiter ("" detects it) and the line of the column names ("" the first that is not a comment). */
-  const [delimiterChoice, setDelimiterChoice] = useState<DelimiterChoice | "">("");
-  const [headerLineText, setHeaderLineText] = useState("");
-  const headerLine = useMemo(() => {
-    const text = headerLineText.trim();
-    if (text === "") return { line: undefined, problem: null };
-    const line = Number(text);
-    return /^\d+$/.test(text) && line >= 1 && line <= 10_000
-      ? { line, problem: null }
-      : { line: undefined, problem: "The line of the column names: write a whole line number from 1 (the first line of the file), or leave it empty." };
-  }, [headerLineText]);
-  /** The wavelength this file's seeing or r0 was measured at ("": the campaign's); variances do not need it. */
-  const [wavelengthText, setWavelengthText] = useState("");
-  const measure = measureOfMapping(mapping);
-  const wavelength = useMemo(() => {
-    const text = wavelengthText.trim().replace(",", ".");
-    if (text === "" || measure === "variances" || measure === null) return { nm: undefined, problem: null };
-    const nm = Number(text);
-    return Number.isFinite(nm) && nm >= 300 && nm <= 2500
-      ? { nm, problem: null }
-      : { nm: undefined, problem: "The wavelength: write it in nanometres between 300 and 2500 (e.g. 550), or leave it empty for the campaign's." };
-  }, [wavelengthText, measure]);
-  const readOptions: ReadOptions = useMemo(
-    () => ({
-      timeFormat,
-      utcOffsetMinutes: offset.minutes,
-      ...(delimiterChoice !== "" ? { delimiter: delimiterChoice } : {}),
-      ...(headerLine.line !== undefined ? { headerLine: headerLine.line } : {}),
-      ...(wavelength.nm !== undefined && wavelength.nm !== campaign.data?.monitor.wavelengthNm ? { wavelengthNm: wavelength.nm } : {}),
-    }),
-    [timeFormat, offset.minutes, delimiterChoice, headerLine.line, wavelength.nm, campaign.data?.monitor.wavelengthNm],
-  );
-  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: offset.problem ?? headerLine.problem ?? wavelength.problem });
+  /** How the files are read beyond the mapping: time format and zone, delimiter, header line, wavelength. */
+  const options = useReadOptions(mapping, selectedCampaign?.monitor.wavelengthNm);
+  const { readOptions } = options;
+  const batch = useUploadBatch({ campaign: selectedCampaign, mapping, readOptions, readOptionsProblem: options.problem });
   const { files, head, headText, sends, running } = batch;
   const resultsHeading = useRef<HTMLHeadingElement>(null);
   const [mappingSource, setMappingSource] = useState<"saved" | "proposed" | null>(null);
@@ -265,48 +209,7 @@ export function UploadPage() {
             </ul>
           ) : null}
           {files.length > 0 ? (
-            <fieldset className="mt-4 flex min-w-0 flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">
-              <legend className="px-1 font-semibold">Where the columns are</legend>
-              <label className="block min-w-0 max-w-full">
-                <span className="block font-semibold">Columns separated by</span>
-                <select
-                  value={delimiterChoice}
-                  disabled={running}
-                  onChange={(event) => setDelimiterChoice(event.target.value as DelimiterChoice | "")}
-                  className="mt-1 w-full max-w-full rounded-md border border-line bg-panel px-2 py-1"
-                >
-                  <option value="">{head && delimiterChoice === "" ? `Detect (found: ${delimiterName(head.delimiter)})` : "Detect"}</option>
-                  {DELIMITER_WORDS.map(([value, words]) => (
-                    <option key={value} value={value}>
-                      {words}
-                    </option>
-                  ))}
-                </select>
-              </label>
-              <label className="block">
-                <span className="block font-semibold">
-                  Column names on line <span className="font-normal text-ink-soft">(empty: the first line that is not a # comment)</span>
-                </span>
-                <input
-                  value={headerLineText}
-                  disabled={running}
-                  inputMode="numeric"
-                  onChange={(event) => setHeaderLineText(event.target.value)}
-                  placeholder="1"
-                  className="mt-1 w-24 rounded-md border border-line bg-panel px-2 py-1"
-                  aria-invalid={headerLine.problem ? true : undefined}
-                />
-              </label>
-              {headerLine.problem ? (
-                <p role="alert" className="w-full text-bad">
-                  {headerLine.problem}
-                </p>
-              ) : head && head.preambleLines > 0 ? (
-                <p className="w-full text-ink-soft" data-testid="preamble-note">
-                  {head.preambleLines === 1 ? "Line 1 stands" : `Lines 1–${head.preambleLines} stand`} above the column names: skipped as a preamble, never read as rows.
-                </p>
-              ) : null}
-            </fieldset>
+            <LayoutFields options={options} head={head} disabled={running} />
           ) : null}
           {batch.headError ? (
             <p role="alert" className="mt-3 rounded-md bg-bad-pale px-3 py-2 text-sm text-bad">
@@ -341,7 +244,7 @@ export function UploadPage() {
                   onChange={(next) => setValue("mapping", next, { shouldDirty: true })}
                   pixelScaleArcsec={pixelScaleArcsec}
                   wavelengthNm={selectedCampaign.monitor.wavelengthNm}
-                  wavelength={{ text: wavelengthText, onChange: setWavelengthText, problem: wavelength.problem }}
+                  wavelength={options.wavelength}
                 />
               </div>
               <figure className="min-w-0">
@@ -357,30 +260,7 @@ export function UploadPage() {
                 </div>
               </figure>
             </div>
-            <fieldset className="mt-4 flex min-w-0 flex-wrap items-end gap-4 rounded-lg border border-line bg-paper p-3 text-sm">
-              <legend className="px-1 font-semibold">How the times are written</legend>
-              <label className="block min-w-0 max-w-full">
-                <span className="block font-semibold">Time column holds</span>
-                <select value={timeFormat} onChange={(event) => setTimeFormat(event.target.value as TimeFormat)} className="mt-1 w-full max-w-full rounded-md border border-line bg-panel px-2 py-1">
-                  {TIME_FORMATS.map((format) => (
-                    <option key={format} value={format}>
-                      {TIME_FORMAT_WORDS[format]}
-                    </option>
-                  ))}
-                </select>
-              </label>
-              <label className="block">
-                <span className="block font-semibold">
-                  Time zone of times written without one <span className="font-normal text-ink-soft">(±HH:MM; empty: UTC)</span>
-                </span>
-                <input value={utcOffsetText} onChange={(event) => setUtcOffsetText(event.target.value)} placeholder="+00:00" className="mt-1 w-28 rounded-md border border-line bg-panel px-2 py-1" aria-invalid={offset.problem ? true : undefined} />
-              </label>
-              {offset.problem ? (
-                <p role="alert" className="w-full text-bad">
-                  {offset.problem}
-                </p>
-              ) : null}
-            </fieldset>
+            <TimeFields options={options} />
             <label className="mt-4 flex items-center gap-2 text-sm">
               <input type="checkbox" {...register("keepMapping")} />
               Save this mapping for the campaign, so the next trip's logs need one click

@@ -3,7 +3,7 @@ import { join } from "node:path";
 import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
 import { createSiteAndCampaign, postUpload, waitForUpload } from "../routes/test-helpers";
-import { countRows, createTestServer, signedInAgent } from "../test-support";
+import { countRows, createTestServer, signedInAgent, tableRows } from "../test-support";
 
 const { app, context, dataDir } = await createTestServer();
 const lead = await signedInAgent(app, "lead");
@@ -67,5 +67,22 @@ describe("an ingest reads its file into a staging file first", () => {
     // Line numbers count the header as line 1: the 101st data row is line 102.
     expect(done.rejectedRows.map((row) => row.line)).toEqual([102, 104, 105]);
     expect(await countRows(context, "sample", { upload_id: done.id })).toBe(111);
+  });
+
+  it("stores the values of the optional columns a file has, in and out of time order, and leaves the others empty", async () => {
+    const { campaign } = await createSiteAndCampaign(lead);
+    const startMs = Date.parse("2025-03-04T01:00:00Z");
+    // 40 rows in time order (one full batch of staged rows and a partial one), then one earlier row.
+    const minutes = [...Array.from({ length: 40 }, (_, index) => index + 10), 3];
+    const lines = minutes.map((minute) => `${new Date(startMs + minute * 60_000).toISOString()},0.8,10,${minute / 10},${50 + minute}`);
+    const file = Buffer.from(["time_utc,seeing_arcsec,zenith_deg,wind_ms,rh_pct", ...lines, ""].join("\n"));
+    const done = await waitForUpload(lead, (await postUpload(lead, campaign.id, file, "weather.csv")).body.upload.id);
+    expect(done.samples).toMatchObject({ read: 41, accepted: 41 });
+    const stored = await tableRows(context, "sample", { upload_id: done.id });
+    expect(stored).toHaveLength(41);
+    for (const row of stored) {
+      const minute = (Number(row.time_ms) - startMs) / 60_000;
+      expect(row).toMatchObject({ wind_ms: minute / 10, rh_pct: 50 + minute, flux: null, tau0_ms: null, scint_index: null, theta0_arcsec: null });
+    }
   });
 });

@@ -68,6 +68,18 @@ const SAMPLE_COLUMNS =
 /** Values per staged row (the time and SAMPLE_COLUMNS after it) and rows per batched insert while staging. */
 const STAGED_COLUMNS = 14;
 const STAGED_BATCH_ROWS = 32;
+/** The staged columns every row has a value (or a computed null) for: time to sun altitude. */
+const ALWAYS_STAGED = SAMPLE_COLUMNS.split(", ").slice(0, 8);
+
+/** Columns read from an optional log field of the same name: null in every row when the mapping does not read that field. */
+const OPTIONAL_COLUMNS: { field: "flux" | "scint_index" | "tau0_ms" | "theta0_arcsec" | "wind_ms" | "rh_pct"; value: (sample: LogSample) => number | null }[] = [
+  { field: "flux", value: (sample) => sample.flux },
+  { field: "scint_index", value: (sample) => sample.scintIndex },
+  { field: "tau0_ms", value: (sample) => sample.tau0Ms },
+  { field: "theta0_arcsec", value: (sample) => sample.theta0Arcsec },
+  { field: "wind_ms", value: (sample) => sample.windMs },
+  { field: "rh_pct", value: (sample) => sample.rhPct },
+];
 
 /** A sample's stored values after its time, in SAMPLE_COLUMNS order. */
 function sampleValues(sample: LogSample): (number | null)[] {
@@ -91,7 +103,7 @@ function sampleValues(sample: LogSample): (number | null)[] {
 /** Where the rows read go: straight into the database (inside the write transaction) or into the staging file. */
 interface RowSink {
   /** Stores a readable sample; false when its time is taken (an earlier row of this file or an earlier upload). */
-  sample(sample: LogSample): boolean;
+  sample(sample: LogSample, line: number): boolean;
   reject(line: number, reason: string, message: string, rawLine: string): void;
 }
 
@@ -139,7 +151,7 @@ async function readInto(job: IngestJob, sink: RowSink): Promise<ReadResult> {
           // A synchronous sleep while reading, like a slow disk would cause.
           Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, job.pauseAfterSamples.ms);
         }
-        if (sink.sample(sample)) {
+        if (sink.sample(sample, line)) {
           accepted += 1;
         } else {
           reject(line, "duplicate_time", `Another sample of this campaign already has the time ${new Date(sample.timeMs).toISOString()}.`, fields.join(delimiter));
@@ -179,16 +191,23 @@ async function stage(db: Database.Database, job: IngestJob): Promise<{ staging: 
     staging.exec(`CREATE TABLE staged_sample (time_ms INTEGER PRIMARY KEY, seeing_arcsec, r0_cm, zenith_deg, seeing_long_arcsec, seeing_trans_arcsec,
       anisotropic, sun_alt_deg, flux, scint_index, tau0_ms, theta0_arcsec, wind_ms, rh_pct)`);
     staging.exec("CREATE TABLE staged_reject (line INTEGER, reason TEXT, message TEXT, raw_line TEXT)");
-    const placeholders = `(${Array.from({ length: STAGED_COLUMNS }, () => "?").join(", ")})`;
-    const insertOne = staging.prepare(`INSERT OR IGNORE INTO staged_sample (${SAMPLE_COLUMNS}) VALUES ${placeholders}`);
+    const placeholders = (count: number) => `(${Array.from({ length: count }, () => "?").join(", ")})`;
+    const insertOne = staging.prepare(`INSERT OR IGNORE INTO staged_sample (${SAMPLE_COLUMNS}) VALUES ${placeholders(STAGED_COLUMNS)}`);
     // Binding values costs more than SQLite's own work per row: rows go in STAGED_BATCH_ROWS at a time, one
-    // statement. Only rows known to be new in the file are batched (see below), so a plain INSERT suffices.
-    const insertBatch = staging.prepare(`INSERT INTO staged_sample (${SAMPLE_COLUMNS}) VALUES ${Array.from({ length: STAGED_BATCH_ROWS }, () => placeholders).join(", ")}`);
-    const batch: (number | null)[] = Array.from({ length: STAGED_BATCH_ROWS * STAGED_COLUMNS }, () => null);
+    // statement, with only the columns this file can fill (a column of an optional field the mapping does not read
+    // is null in every row and left to its default). Only rows known to be new in the file are batched (see
+    // below), so a plain INSERT suffices.
+    const optionalRead = OPTIONAL_COLUMNS.filter((column) => job.mapping[column.field] !== undefined && job.mapping[column.field] !== null);
+    const optionalUnread = OPTIONAL_COLUMNS.filter((column) => !optionalRead.includes(column));
+    const batchedColumns = [...ALWAYS_STAGED, ...optionalRead.map((column) => column.field)];
+    const width = batchedColumns.length;
+    const insertBatch = staging.prepare(`INSERT INTO staged_sample (${batchedColumns.join(", ")}) VALUES ${Array.from({ length: STAGED_BATCH_ROWS }, () => placeholders(width)).join(", ")}`);
+    const insertBatchedOne = staging.prepare(`INSERT INTO staged_sample (${batchedColumns.join(", ")}) VALUES ${placeholders(width)}`);
+    const batch: (number | null)[] = Array.from({ length: STAGED_BATCH_ROWS * width }, () => null);
     let batched = 0;
     const flush = () => {
       if (batched === batch.length) insertBatch.run(batch);
-      else for (let start = 0; start < batched; start += STAGED_COLUMNS) insertOne.run(batch.slice(start, start + STAGED_COLUMNS));
+      else for (let start = 0; start < batched; start += width) insertBatchedOne.run(batch.slice(start, start + width));
       batched = 0;
     };
     const insertReject = staging.prepare("INSERT INTO staged_reject (line, reason, message, raw_line) VALUES (?, ?, ?, ?)");
@@ -202,7 +221,7 @@ async function stage(db: Database.Database, job: IngestJob): Promise<{ staging: 
     let latestTimeMs = Number.NEGATIVE_INFINITY;
     staging.exec("BEGIN");
     const result = await readInto(job, {
-      sample(sample) {
+      sample(sample, line) {
         if (range.first !== null && range.last !== null && sample.timeMs >= range.first && sample.timeMs <= range.last && taken.get(job.campaignId, sample.timeMs) !== undefined) {
           return false;
         }
@@ -216,13 +235,12 @@ async function stage(db: Database.Database, job: IngestJob): Promise<{ staging: 
           batch[batched + 5] = sample.seeingTransArcsec;
           batch[batched + 6] = sample.anisotropic ? 1 : 0;
           batch[batched + 7] = sample.sunAltDeg;
-          batch[batched + 8] = sample.flux;
-          batch[batched + 9] = sample.scintIndex;
-          batch[batched + 10] = sample.tau0Ms;
-          batch[batched + 11] = sample.theta0Arcsec;
-          batch[batched + 12] = sample.windMs;
-          batch[batched + 13] = sample.rhPct;
-          batched += STAGED_COLUMNS;
+          let next = batched + 8;
+          for (const column of optionalRead) batch[next++] = column.value(sample);
+          for (const column of optionalUnread) {
+            if (column.value(sample) !== null) throw new Error(`Line ${line}: a value for ${column.field}, which the mapping does not read; nothing was stored.`);
+          }
+          batched = next;
           if (batched === batch.length) flush();
           return true;
         }

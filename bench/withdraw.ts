@@ -6,7 +6,7 @@
 //   node_modules/.bin/tsx bench/withdraw.ts [rows]
 import { spawn } from "node:child_process";
 import { mkdtempSync, openAsBlob, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { loadavg, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
@@ -99,6 +99,8 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
     await waitDone(rereadId);
     const round = (value: number) => Math.round(value * 10) / 10;
     return {
+      // Other work on the machine lengthens every figure: the 1-minute load average when the actions ended.
+      loadAverage1m: round(loadavg()[0] ?? Number.NaN),
       withdrawSamples: stored.samples.accepted,
       withdrawRequestMs: round(withdrawn.requestMs),
       withdrawHealthMaxMs: round(withdrawn.healthMaxMs),

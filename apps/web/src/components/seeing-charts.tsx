@@ -50,7 +50,8 @@ function NightChart({ scope, filters, nights }: { scope: Scope; filters: Summary
     </label>
   );
   if (series.isError) return <SampleProblem title={`Seeing through the night of ${night}`} error={series.error} />;
-  return <NightSeriesChart night={night} samples={series.data?.samples ?? []} picker={picker} />;
+  // Keyed by night: a new night starts with the whole of it in view.
+  return <NightSeriesChart key={night} night={night} samples={series.data?.samples ?? []} picker={picker} loading={series.isPending} />;
 }
 
 function AxisChart({ scope, filters }: { scope: Scope; filters: SummaryQuery }) {

@@ -6,9 +6,18 @@ export function formatArcsec(seeingArcsec: number | null | undefined, decimals =
   return seeingArcsec === null || seeingArcsec === undefined || !Number.isFinite(seeingArcsec) ? "–" : `${seeingArcsec.toFixed(decimals)}${ARCSEC}`;
 }
 
+// One formatter per number of decimals, made once: `toLocaleString` with options builds a new one on every call,
+// which showed in the profile of a site page (thousands of numbers in its tables and charts).
+const numberFormats = new Map<number, Intl.NumberFormat>();
+
 export function formatNumber(value: number | null | undefined, decimals = 0): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "–";
-  return value.toLocaleString("en-GB", { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
+  let format = numberFormats.get(decimals);
+  if (!format) {
+    format = new Intl.NumberFormat("en-GB", { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
+    numberFormats.set(decimals, format);
+  }
+  return format.format(value);
 }
 
 export function formatPercent(fraction: number | null | undefined, decimals = 0): string {

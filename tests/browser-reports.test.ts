@@ -235,6 +235,9 @@ describe("committee reports in a browser", () => {
     const { page } = browser;
     await page.goto(`${server.url}/reports/${reportId}`);
     await page.locator(".comparison-table").waitFor();
+    // The charts' code loads on demand: print only once every chart has replaced its "Loading …" stand-in.
+    await page.getByText(/^Share of time at or below a seeing value/).first().waitFor();
+    await expect.poll(() => page.getByRole("status").filter({ hasText: /^Loading / }).count()).toBe(0);
     await page.waitForSelector(".recharts-surface");
     const pdf = await page.pdf({ format: "A4", printBackground: true });
     const parser = new PDFParse({ data: new Uint8Array(pdf) });

@@ -10,6 +10,7 @@ import { Notice } from "../components/page";
 import { ChangesPanel } from "../components/report/changes";
 import { Discussion, THREAD_FILTERS, threadMatches, type ThreadFilter } from "../components/report/comments";
 import { ComparisonView } from "../components/report/comparison-view";
+import { printWithCharts } from "../components/on-demand";
 import { ReportEditor } from "../components/report/editor";
 import { formatDateUtc } from "../lib/format";
 import { idParam } from "../route-loaders";
@@ -83,7 +84,7 @@ function PublishedVersion({ detail, view, threads, myId }: { detail: ReportDetai
       <TitleBlock view={view} lead={detail.lead.name} />
       <div className="flex flex-wrap items-center justify-between gap-3 print:hidden">
         <VersionPicker detail={detail} view={view} />
-        <button type="button" onClick={() => window.print()} className="rounded-md border border-line bg-panel px-3 py-1 text-sm font-semibold">
+        <button type="button" onClick={() => void printWithCharts()} className="rounded-md border border-line bg-panel px-3 py-1 text-sm font-semibold">
           Print or save as PDF
         </button>
       </div>

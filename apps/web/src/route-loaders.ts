@@ -16,32 +16,25 @@ export function idParam(value: string | undefined): number {
   return id;
 }
 
-export function siteLoader(queryClient: QueryClient) {
+/**
+ * The loader of a site's or a campaign's page. It starts the summary and the charts' samples beside the site or
+ * campaign itself but holds the page only for that: the figures and charts show their own loading states. (One
+ * that the user may not see answers 404 to all of them alike.)
+ */
+function summaryPageLoader(queryClient: QueryClient, kind: "site" | "campaign") {
   const guard = roleLoader(queryClient, ["admin", "lead", "engineer"]);
   return async (args: LoaderFunctionArgs) => {
     await guard(args);
-    const siteId = idParam(args.params.siteId);
+    const id = idParam(kind === "site" ? args.params.siteId : args.params.campaignId);
     const params = new URL(args.request.url).searchParams;
     const { filters } = filtersFromParams(params);
-    // Start the summary and the charts' samples beside the site itself, but hold the page only for the site: the
-    // figures and charts show their own loading states. (A site one may not see answers 404 to all of them alike.)
-    const summary = queryClient.fetchQuery(siteSummaryQuery(siteId, filters));
-    prefetchChartSamples(queryClient, { kind: "site", id: siteId }, filters, summary, params.get("night"));
-    await queryClient.ensureQueryData(siteQuery(siteId));
+    const summary = kind === "site" ? queryClient.fetchQuery(siteSummaryQuery(id, filters)) : queryClient.fetchQuery(campaignSummaryQuery(id, filters));
+    prefetchChartSamples(queryClient, { kind, id }, filters, summary, params.get("night"));
+    if (kind === "site") await queryClient.ensureQueryData(siteQuery(id));
+    else await queryClient.ensureQueryData(campaignQuery(id));
     return null;
   };
 }
 
-export function campaignLoader(queryClient: QueryClient) {
-  const guard = roleLoader(queryClient, ["admin", "lead", "engineer"]);
-  return async (args: LoaderFunctionArgs) => {
-    await guard(args);
-    const campaignId = idParam(args.params.campaignId);
-    const params = new URL(args.request.url).searchParams;
-    const { filters } = filtersFromParams(params);
-    const summary = queryClient.fetchQuery(campaignSummaryQuery(campaignId, filters));
-    prefetchChartSamples(queryClient, { kind: "campaign", id: campaignId }, filters, summary, params.get("night"));
-    await queryClient.ensureQueryData(campaignQuery(campaignId));
-    return null;
-  };
-}
+export const siteLoader = (queryClient: QueryClient) => summaryPageLoader(queryClient, "site");
+export const campaignLoader = (queryClient: QueryClient) => summaryPageLoader(queryClient, "campaign");

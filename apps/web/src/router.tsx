@@ -1,5 +1,6 @@
+import type { ComponentType } from "react";
 import type { QueryClient } from "@tanstack/react-query";
-import { createBrowserRouter, redirect, type RouteObject } from "react-router-dom";
+import { createBrowserRouter, redirect, type LoaderFunctionArgs, type RouteObject } from "react-router-dom";
 import { meQuery } from "./api/auth";
 import { NAV_ITEMS, homeFor, mayUse } from "./navigation";
 import { requireMe, roleLoader } from "./route-guards";
@@ -18,53 +19,35 @@ import { loadCompareCharts, loadSeeingCharts, loadSiteMap } from "./components/o
 const FIELD_ROLES = ["admin", "lead", "engineer"] as const;
 const REPORT_ROLES = ["admin", "lead", "committee"] as const;
 
+/**
+ * A page's code, split per screen (loaders stay in the main bundle), with the code of the large parts it shows (the
+ * map, the charts) fetched beside it rather than after it has rendered, yet in no page's first load.
+ */
+function pageCode<Module>(load: () => Promise<Module>, component: (module: Module) => ComponentType, ...alongside: (() => Promise<unknown>)[]) {
+  return async () => {
+    for (const start of alongside) void start();
+    return { Component: component(await load()) };
+  };
+}
+
 /** Signed-in pages other areas add (sites, campaigns, upload, people): see DEVELOPERS.md "Add a page". */
 export function appRoutes(queryClient: QueryClient): RouteObject[] {
   const fieldGuard = roleLoader(queryClient, FIELD_ROLES);
+  /** The map pages (sites, compare): the site list and the map settings. */
+  const sitesLoader = async (args: LoaderFunctionArgs) => {
+    await fieldGuard(args);
+    await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
+    return null;
+  };
   return [
-    {
-      path: "sites",
-      loader: async (args) => {
-        await fieldGuard(args);
-        await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
-        return null;
-      },
-      // Page code is split per screen; loaders stay in the main bundle. The map's and charts' code (the large
-      // libraries) is fetched beside the page's code, not after it has rendered, yet is no part of the first load.
-      lazy: async () => {
-        void loadSiteMap();
-        return { Component: (await import("./routes/sites")).SitesPage };
-      },
-    },
-    {
-      path: "sites/:siteId",
-      loader: siteLoader(queryClient),
-      lazy: async () => {
-        void loadSeeingCharts();
-        return { Component: (await import("./routes/sites.$siteId")).SitePage };
-      },
-    },
+    { path: "sites", loader: sitesLoader, lazy: pageCode(() => import("./routes/sites"), (page) => page.SitesPage, loadSiteMap) },
+    { path: "sites/:siteId", loader: siteLoader(queryClient), lazy: pageCode(() => import("./routes/sites.$siteId"), (page) => page.SitePage, loadSeeingCharts) },
     {
       path: "campaigns/:campaignId",
       loader: campaignLoader(queryClient),
-      lazy: async () => {
-        void loadSeeingCharts();
-        return { Component: (await import("./routes/campaigns.$campaignId")).CampaignPage };
-      },
+      lazy: pageCode(() => import("./routes/campaigns.$campaignId"), (page) => page.CampaignPage, loadSeeingCharts),
     },
-    {
-      path: "compare",
-      loader: async (args) => {
-        await fieldGuard(args);
-        await Promise.all([queryClient.ensureQueryData(sitesQuery), queryClient.ensureQueryData(configQuery)]);
-        return null;
-      },
-      lazy: async () => {
-        void loadSiteMap();
-        void loadCompareCharts();
-        return { Component: (await import("./routes/compare")).ComparePage };
-      },
-    },
+    { path: "compare", loader: sitesLoader, lazy: pageCode(() => import("./routes/compare"), (page) => page.ComparePage, loadSiteMap, loadCompareCharts) },
     {
       path: "upload",
       loader: async (args) => {
@@ -114,9 +97,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         if (detail.version) void queryClient.prefetchQuery(reportCommentsQuery(reportId));
         return null;
       },
+      // A report is read and printed with its charts: its page waits for their code too.
       lazy: async () => {
-        void loadCompareCharts();
-        return { Component: (await import("./routes/reports.$reportId")).ReportPage };
+        const [page] = await Promise.all([import("./routes/reports.$reportId"), loadCompareCharts()]);
+        return { Component: page.ReportPage };
       },
     },
     {

@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import type { UseFormRegisterReturn } from "react-hook-form";
+import { Link } from "react-router-dom";
 import { Logo } from "./logo";
 
 // The pieces of the signed-out pages (sign-in, choosing a password, asking for a reset), so they look and behave alike.
@@ -79,5 +80,14 @@ export function SignedOutSubmit({ busy, label, busyLabel }: { busy: boolean; lab
     <button type="submit" disabled={busy} className="w-full rounded-md bg-accent px-4 py-2 font-semibold text-white hover:bg-accent-strong disabled:opacity-60">
       {busy ? busyLabel : label}
     </button>
+  );
+}
+
+/** A link under a signed-out form: to sign in, to ask for a new password link. */
+export function SignedOutLink({ to, children }: { to: string; children: ReactNode }) {
+  return (
+    <Link to={to} className="font-semibold text-accent underline-offset-2 hover:underline">
+      {children}
+    </Link>
   );
 }

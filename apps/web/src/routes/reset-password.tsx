@@ -1,12 +1,11 @@
 import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
-import { Link } from "react-router-dom";
 import { resetRequestSchema, type ResetRequestInput } from "@calmcrest/contracts";
 import { requestPasswordReset } from "../api/auth";
 import { ApiError } from "../api/client";
 import { Problem } from "../components/page";
-import { SignedOutField, SignedOutFrame, SignedOutSubmit } from "../components/signed-out";
+import { SignedOutField, SignedOutFrame, SignedOutLink, SignedOutSubmit } from "../components/signed-out";
 
 /** /reset-password: ask for a link to choose a new password (the answer never says whether the address has an account). */
 export function ResetPasswordPage() {
@@ -36,9 +35,9 @@ export function ResetPasswordPage() {
         </form>
       )}
       <p className="mt-4 text-sm">
-        <Link to="/sign-in" className="font-semibold text-accent underline-offset-2 hover:underline">
+        <SignedOutLink to="/sign-in">
           Back to sign-in
-        </Link>
+        </SignedOutLink>
       </p>
     </SignedOutFrame>
   );

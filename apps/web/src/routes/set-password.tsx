@@ -2,12 +2,12 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useQuery } from "@tanstack/react-query";
-import { Link, useNavigate, useSearchParams } from "react-router-dom";
+import { useNavigate, useSearchParams } from "react-router-dom";
 import { PASSWORD_RULES_TEXT, passwordProblems, setPasswordSchema, type SetPasswordInput } from "@calmcrest/contracts";
 import { passwordLinkQuery, setPassword } from "../api/auth";
 import { ApiError } from "../api/client";
 import { Problem } from "../components/page";
-import { SignedOutField, SignedOutFrame, SignedOutSubmit } from "../components/signed-out";
+import { SignedOutField, SignedOutFrame, SignedOutLink, SignedOutSubmit } from "../components/signed-out";
 import { formatDateTimeUtc } from "../lib/format";
 
 /** /set-password?token=…: the page an invitation or reset e-mail links to. */
@@ -39,12 +39,12 @@ export function SetPasswordPage() {
       <SignedOutFrame title="This link cannot be used">
         <Problem text={message} />
         <p className="mt-4 flex flex-wrap gap-4 text-sm">
-          <Link to="/sign-in" className="font-semibold text-accent underline-offset-2 hover:underline">
+          <SignedOutLink to="/sign-in">
             Go to sign-in
-          </Link>
-          <Link to="/reset-password" className="font-semibold text-accent underline-offset-2 hover:underline">
+          </SignedOutLink>
+          <SignedOutLink to="/reset-password">
             Ask for a new password link
-          </Link>
+          </SignedOutLink>
         </p>
       </SignedOutFrame>
     );

@@ -2,13 +2,13 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useQueryClient } from "@tanstack/react-query";
-import { Link, useNavigate, useSearchParams } from "react-router-dom";
+import { useNavigate, useSearchParams } from "react-router-dom";
 import { signInSchema, type SignInInput } from "@calmcrest/contracts";
 import { meQuery, signIn } from "../api/auth";
 import { ApiError } from "../api/client";
 import { homeFor, mayUse } from "../navigation";
 import { Problem } from "../components/page";
-import { SignedOutField, SignedOutFrame, SignedOutSubmit } from "../components/signed-out";
+import { SignedOutField, SignedOutFrame, SignedOutLink, SignedOutSubmit } from "../components/signed-out";
 
 export function SignInPage() {
   const queryClient = useQueryClient();
@@ -47,9 +47,9 @@ export function SignInPage() {
           <SignedOutSubmit busy={formState.isSubmitting} label="Sign in" busyLabel="Signing in…" />
         </form>
         <p className="mt-4 text-sm">
-          <Link to="/reset-password" className="font-semibold text-accent underline-offset-2 hover:underline">
+          <SignedOutLink to="/reset-password">
             Forgotten your password?
-          </Link>
+          </SignedOutLink>
         </p>
     </SignedOutFrame>
   );

@@ -143,11 +143,7 @@ function CommentItem({ comment, reportId, shownVersion }: { comment: CommentView
           </button>
         </div>
       ) : null}
-      {problem ? (
-        <p role="alert" className="mt-2 text-sm text-bad">
-          {problem}
-        </p>
-      ) : null}
+      <Problem text={problem} className="mt-2" />
     </li>
   );
 }
@@ -206,11 +202,7 @@ export function Thread({ thread, reportId, shownVersion, canComment }: { thread:
           />
         </div>
       ) : null}
-      {problem ? (
-        <p role="alert" className="mt-2 text-sm text-bad">
-          {problem}
-        </p>
-      ) : null}
+      <Problem text={problem} className="mt-2" />
     </article>
   );
 }

@@ -239,8 +239,6 @@ describe("committee reports in a browser", () => {
     await page.getByText(/^Share of time at or below a seeing value/).first().waitFor();
     await expect.poll(() => page.getByRole("status").filter({ hasText: /^Loading / }).count()).toBe(0);
     await page.waitForSelector(".recharts-surface");
-    // The charts' code loads on demand, each chart in its own place: print once none is still loading.
-    await expect.poll(() => page.getByText(/^Loading the chart/).count()).toBe(0);
     const pdf = await page.pdf({ format: "A4", printBackground: true });
     const parser = new PDFParse({ data: new Uint8Array(pdf) });
     const { text, total } = await parser.getText();

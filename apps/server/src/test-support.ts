@@ -11,6 +11,7 @@ import type { AppContext } from "./context";
 import { parseEnv } from "./env.server";
 import type { MailTransport } from "./mail/transport.server";
 import { createContext } from "./server";
+import { SummaryService } from "./summaries/summary-service.server";
 
 export const DEMO_PASSWORD_FOR_TESTS = "test-password-1";
 /** The public address test servers are configured with (CALMCREST_PUBLIC_URL). */
@@ -69,6 +70,11 @@ export async function signedInAgent(app: Express, role: "admin" | "lead" | "engi
 
 // Looks into the database for tests, at what the API does not show (stored sample counts, raw rows). Routes and
 // their tests go through the API and the store; only these helpers read tables directly.
+
+/** A summary service of its own over the test server's database, with `workers` worker threads; close it after use. */
+export function separateSummaryService(context: AppContext, workers: number): SummaryService {
+  return new SummaryService({ dbFile: context.db.file, sqlite: context.db.sqlite, workers });
+}
 
 /** Rows of a table matching `where`, in insertion order. */
 export async function tableRows(context: AppContext, table: string, where: Record<string, unknown> = {}): Promise<Record<string, unknown>[]> {

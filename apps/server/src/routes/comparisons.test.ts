@@ -2,8 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { ComparisonResponse, SiteListItem } from "@calmcrest/contracts";
 import { seedDemoScenario } from "../seed/demo-scenario";
 import { compareForUser } from "../summaries/compare.server";
-import { SummaryService } from "../summaries/summary-service.server";
-import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
+import { createTestServer, SAME_ORIGIN, separateSummaryService, signedInAgent } from "../test-support";
 
 // The demo scenario at a tenth of its length: four invented ridges, the engineer a member at two of them.
 const { app, context } = await createTestServer();
@@ -114,7 +113,7 @@ describe("GET /api/comparisons", () => {
     const query = { sites: sites.map((site) => site.id), bandNm: 500, outerScaleM: 31, pairing: "nights" as const };
     const answers: string[] = [];
     for (const workers of [1, 2]) {
-      const summaries = new SummaryService({ dbFile: context.db.file, sqlite: context.db.sqlite, workers });
+      const summaries = separateSummaryService(context, workers);
       try {
         const { generatedAt: _generatedAt, ...answer } = await compareForUser({ ...context, summaries }, user, query);
         expect(answer.pairs.filter((pair) => pair.paired !== null)).toHaveLength(6);

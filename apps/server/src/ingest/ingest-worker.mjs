@@ -1,5 +1,4 @@
-// Worker-thread entry: the ingest code is TypeScript (like the rest of the server), so register tsx's loader first.
-import { register } from "tsx/esm/api";
+// Worker-thread entry of the ingest worker: its TypeScript code runs from a bundle (see ../worker-code.mjs).
+import { runWorkerCode } from "../worker-code.mjs";
 
-register();
-await import("./ingest-worker.ts");
+await runWorkerCode("ingest-worker", new URL("./ingest-worker.ts", import.meta.url));

@@ -1,5 +1,4 @@
-// Worker-thread entry: the summary code is TypeScript (like the rest of the server), so register tsx's loader first.
-import { register } from "tsx/esm/api";
+// Worker-thread entry of the summary worker: its TypeScript code runs from a bundle (see ../worker-code.mjs).
+import { runWorkerCode } from "../worker-code.mjs";
 
-register();
-await import("./summary-worker.ts");
+await runWorkerCode("summary-worker", new URL("./summary-worker.ts", import.meta.url));

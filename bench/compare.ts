@@ -13,6 +13,7 @@ import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
 import { median } from "./childProcess.ts";
 import { columnSnapshotDir, snapshotVersion } from "../apps/server/src/summaries/column-snapshot.server.ts";
 import { freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -55,7 +56,7 @@ export function processCpuMs(pid: number): number {
 
 function startServer(dataDir: string, port: number): ChildProcess {
   // One node process (tsx as a loader), so its /proc status is the server's own memory.
-  return spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+  return spawn(process.execPath, serverCommand().args, {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

@@ -8,6 +8,7 @@ import { tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -102,7 +103,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
   // One node process (tsx as a loader, not its CLI wrapper), so its /proc status is the server's own memory.
-  const server = spawn(process.execPath, [...(process.env.BENCH_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROF}`] : []), "--import", "tsx", "src/main.ts"], {
+  const server = spawn(process.execPath, [...(process.env.BENCH_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROF}`] : []), ...serverCommand().args], {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

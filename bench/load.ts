@@ -13,6 +13,7 @@ import { cpus, tmpdir, totalmem } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
 import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -100,7 +101,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
   const base = `http://127.0.0.1:${port}`;
   // One node process (tsx as a loader, not its CLI wrapper), so its /proc status is the server's own memory.
   // BENCH_PROF=<dir>: the server writes a CPU profile of each of its threads there (node --cpu-prof) when it stops.
-  const server = spawn(process.execPath, [...(process.env.BENCH_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROF}`] : []), "--import", "tsx", "src/main.ts"], {
+  const server = spawn(process.execPath, [...(process.env.BENCH_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROF}`] : []), ...serverCommand().args], {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

@@ -9,6 +9,7 @@ import { tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { freePort, peakRssMb, waitForHealth } from "./ingest.ts";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const PASSWORD = "long-lines-password-1";
@@ -28,7 +29,7 @@ const sizes = (process.argv[2] ?? "60,120").split(",").map(Number);
 const work = mkdtempSync(join(tmpdir(), "calmcrest-long-lines-"));
 const port = await freePort();
 const base = `http://127.0.0.1:${port}`;
-const server = spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+const server = spawn(process.execPath, serverCommand().args, {
   cwd: join(root, "apps/server"),
   env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: join(work, "data"), CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
   stdio: ["ignore", "ignore", "inherit"],

@@ -13,6 +13,7 @@ import { fileURLToPath } from "node:url";
 import { median } from "./childProcess.ts";
 import { processCpuMs, waitForSnapshots } from "./compare.ts";
 import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -22,7 +23,7 @@ const MONITOR = { apertureMm: 60, baselineMm: 200, wavelengthNm: 500, response: 
 
 function startServer(dataDir: string, port: number): ChildProcess {
   // One node process (tsx as a loader), so its /proc status is the server's own memory.
-  return spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+  return spawn(process.execPath, serverCommand().args, {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

@@ -21,6 +21,7 @@ import { chromium } from "playwright-core";
 import { median } from "./childProcess.ts";
 import { stopServer } from "./compare.ts";
 import { freePort, waitForHealth } from "./ingest.ts";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const webDir = join(root, "apps/web");
@@ -102,7 +103,7 @@ export function initialJavaScript(): Record<string, number> {
 
 function startServer(dataDir: string, port: number): ChildProcess {
   // The demo data (CALMCREST_SEED=full) as `npm start` seeds it on this machine; the built app served by the API's process.
-  return spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+  return spawn(process.execPath, serverCommand().args, {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "full", DEMO_PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

@@ -10,6 +10,7 @@ import { loadavg, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const serverDir = join(root, "apps/server");
@@ -53,7 +54,7 @@ export async function run({ rows }: { rows: number; runs?: number }): Promise<Re
   const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-withdraw-"));
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
-  const server = spawn(process.execPath, ["--import", "tsx", "src/main.ts"], {
+  const server = spawn(process.execPath, serverCommand().args, {
     cwd: serverDir,
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", CALMCREST_DATA_DIR: dataDir, CALMCREST_SEED: "users", DEMO_PASSWORD: PASSWORD, NODE_ENV: "development" },
     stdio: ["ignore", "ignore", "inherit"],

@@ -18,11 +18,11 @@ import type {
   SavedMapping,
 } from "@calmcrest/contracts";
 import { signOutEverywhere } from "./auth";
-import { addExclusion, addMember, removeExclusion, removeMember, saveMapping, updateCampaign } from "./campaigns";
-import { auditKeys, campaignKeys, meKeys, reportKeys, siteKeys, userKeys } from "./query-keys";
+import { addExclusion, addMember, removeExclusion, removeMember, retryUpload, saveMapping, updateCampaign } from "./campaigns";
+import { auditKeys, campaignKeys, meKeys, reportKeys, siteKeys, uploadKeys, userKeys } from "./query-keys";
 import { createReport, publishReport, setPreferences } from "./reports";
 import { createCampaign, createSite, updateSite } from "./sites";
-import { sendUpload } from "./uploads";
+import { restoreUpload, sendUpload, withdrawUpload } from "./uploads";
 import { changeEmail, deactivateUser, inviteUser, patchUser, reactivateUser, sendPasswordLink, signOutUserEverywhere } from "./users";
 
 // The field screens' changes as mutations. Each one's onSuccess returns the invalidation's promise, so
@@ -36,6 +36,26 @@ function campaignChanged(queryClient: QueryClient, campaignId: number) {
     queryClient.invalidateQueries({ queryKey: campaignKeys.list() }),
     queryClient.invalidateQueries({ queryKey: siteKeys.all }),
   ]);
+}
+
+/** An upload's samples changed (withdrawn, restored, re-read, read again): its campaign's figures and every upload list. */
+export function uploadChanged(queryClient: QueryClient, campaignId: number) {
+  return Promise.all([campaignChanged(queryClient, campaignId), queryClient.invalidateQueries({ queryKey: uploadKeys.all })]);
+}
+
+/** Withdraw an upload (with the reason for the audit log), restore it, or have a failed one read again. */
+export type UploadChange = { kind: "withdraw"; uploadId: number; reason: string } | { kind: "restore"; uploadId: number } | { kind: "retry"; uploadId: number };
+
+export function useChangeUpload(campaignId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (change: UploadChange): Promise<unknown> => {
+      if (change.kind === "withdraw") return withdrawUpload(change.uploadId, { reason: change.reason });
+      if (change.kind === "restore") return restoreUpload(change.uploadId, {});
+      return retryUpload(change.uploadId);
+    },
+    onSuccess: () => uploadChanged(queryClient, campaignId),
+  });
 }
 
 export function useCreateSite() {

@@ -4,7 +4,8 @@ import { createColumnHelper } from "@tanstack/react-table";
 import { Link, useParams } from "react-router-dom";
 import type { UploadListItem } from "@calmcrest/contracts";
 import { meQuery } from "../api/auth";
-import { campaignQuery, campaignSummaryQuery, retryUpload } from "../api/campaigns";
+import { campaignQuery, campaignSummaryQuery } from "../api/campaigns";
+import { useChangeUpload } from "../api/mutations";
 import { ApiError } from "../api/client";
 import { DataTable } from "../components/data-table";
 import { EditCampaignForm } from "../components/edit-forms";
@@ -36,7 +37,7 @@ export function UploadStatusBadge({ status, warned = false, withdrawn = false }:
 
 /** Shown on failed or interrupted uploads to those who may upload: the server reads the stored file again. */
 function RetryButton({ upload }: { upload: UploadListItem }) {
-  const queryClient = useQueryClient();
+  const changeUpload = useChangeUpload(upload.campaignId);
   const { data: campaign } = useSuspenseQuery(campaignQuery(upload.campaignId));
   const [problem, setProblem] = useState<string | null>(null);
   if (!campaign.can.upload) return null;
@@ -47,8 +48,7 @@ function RetryButton({ upload }: { upload: UploadListItem }) {
         onClick={async () => {
           setProblem(null);
           try {
-            await retryUpload(upload.id);
-            await queryClient.invalidateQueries({ queryKey: campaignKeys.detail(upload.campaignId) });
+            await changeUpload.mutateAsync({ kind: "retry", uploadId: upload.id });
           } catch (error) {
             setProblem(error instanceof ApiError ? error.message : "The retry could not be started.");
           }

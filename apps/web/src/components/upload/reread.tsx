@@ -3,8 +3,9 @@ import { useQuery, useQueryClient } from "@tanstack/react-query";
 import type { CampaignDetail, ColumnMappingInput, Me, UploadListItem } from "@calmcrest/contracts";
 import type { ColumnMapping } from "@calmcrest/seeing-stats";
 import { ApiError } from "../../api/client";
-import { campaignKeys, siteKeys, uploadKeys } from "../../api/query-keys";
-import { rawFileHead, rawFileUrl, rereadUpload, restoreUpload, uploadQuery, withdrawUpload } from "../../api/uploads";
+import { uploadChanged, useChangeUpload, type UploadChange } from "../../api/mutations";
+import { uploadKeys } from "../../api/query-keys";
+import { rawFileHead, rawFileUrl, rereadUpload, uploadQuery } from "../../api/uploads";
 import { formatDateTimeUtc, formatNumber } from "../../lib/format";
 import { HEAD_BYTES, readLogHead } from "../../lib/log-head";
 import { MappingEditor, mappingProblems } from "./mapping-editor";
@@ -19,15 +20,6 @@ export function mayChangeUpload(me: Me | null | undefined, campaign: Pick<Campai
 }
 
 const settled = (upload: UploadListItem) => upload.status !== "queued" && upload.status !== "ingesting";
-
-/** Invalidates everything an upload's samples feed: the campaign (list and figures), its site, the site list. */
-async function refreshAfterChange(queryClient: ReturnType<typeof useQueryClient>, campaignId: number): Promise<void> {
-  await Promise.all([
-    queryClient.invalidateQueries({ queryKey: campaignKeys.detail(campaignId) }),
-    queryClient.invalidateQueries({ queryKey: siteKeys.all }),
-    queryClient.invalidateQueries({ queryKey: uploadKeys.all }),
-  ]);
-}
 
 /** Opens the re-read panel of the campaign page for one upload. */
 export const RereadRequest = createContext<(upload: UploadListItem) => void>(() => undefined);
@@ -54,7 +46,7 @@ export function UploadHistoryNote({ upload }: { upload: UploadListItem }) {
 
 /** The upload table's actions: the stored raw file, and for those who may: withdraw, restore, re-read. */
 export function UploadActions({ upload, campaign, me }: { upload: UploadListItem; campaign: CampaignDetail; me: Me | null | undefined }) {
-  const queryClient = useQueryClient();
+  const changeUpload = useChangeUpload(upload.campaignId);
   const openReread = useContext(RereadRequest);
   const [withdrawing, setWithdrawing] = useState(false);
   const [reason, setReason] = useState("");
@@ -63,14 +55,13 @@ export function UploadActions({ upload, campaign, me }: { upload: UploadListItem
   const reasonId = useId();
   const may = mayChangeUpload(me, campaign, upload) && settled(upload);
 
-  const run = async (action: () => Promise<unknown>) => {
+  const run = async (change: UploadChange) => {
     setProblem(null);
     setBusy(true);
     try {
-      await action();
+      await changeUpload.mutateAsync(change);
       setWithdrawing(false);
       setReason("");
-      await refreshAfterChange(queryClient, upload.campaignId);
     } catch (error) {
       setProblem(error instanceof ApiError ? error.message : "That did not work. Try again.");
     } finally {
@@ -93,7 +84,7 @@ export function UploadActions({ upload, campaign, me }: { upload: UploadListItem
           className="w-56 space-y-1 rounded border border-line bg-paper p-2"
           onSubmit={(event) => {
             event.preventDefault();
-            void run(() => withdrawUpload(upload.id, { reason }));
+            void run({ kind: "withdraw", uploadId: upload.id, reason });
           }}
         >
           <label htmlFor={reasonId} className="block font-semibold">
@@ -111,7 +102,7 @@ export function UploadActions({ upload, campaign, me }: { upload: UploadListItem
         </form>
       ) : null}
       {may && upload.withdrawn ? (
-        <button type="button" disabled={busy} onClick={() => void run(() => restoreUpload(upload.id, {}))} className="rounded border border-line px-2 py-0.5 font-semibold hover:bg-accent-pale" aria-label={`Restore upload #${upload.id} (${upload.fileName})`}>
+        <button type="button" disabled={busy} onClick={() => void run({ kind: "restore", uploadId: upload.id })} className="rounded border border-line px-2 py-0.5 font-semibold hover:bg-accent-pale" aria-label={`Restore upload #${upload.id} (${upload.fileName})`}>
           Restore
         </button>
       ) : null}
@@ -139,7 +130,7 @@ export function RereadComparison({ before, afterId }: { before: UploadListItem; 
   useEffect(() => {
     if (!finished || reported.current) return;
     reported.current = true;
-    void refreshAfterChange(queryClient, before.campaignId);
+    void uploadChanged(queryClient, before.campaignId);
     heading.current?.focus();
   }, [finished, queryClient, before.campaignId]);
   const next = after.data;

@@ -5,14 +5,14 @@
 // outer scale each time, median of 3).
 // Run through bench/run.ts (`npm run bench -- --only compare`).
 import { spawn, type ChildProcess } from "node:child_process";
-import { existsSync, mkdirSync, mkdtempSync, openAsBlob, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { loadavg, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { writeSyntheticLog } from "../packages/seeing-stats/src/node/index.js";
 import { median } from "./childProcess.ts";
 import { columnSnapshotDir, snapshotVersion } from "../apps/server/src/summaries/column-snapshot.server.ts";
-import { freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { freePort, peakRssMb, signInAsLead, uploadAndWait, waitForHealth } from "./ingest.ts";
 import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
@@ -81,20 +81,7 @@ async function loadRidges(base: string, rows: number): Promise<{ siteIds: number
     const logPath = await ridgeLog(ridge, rows);
     const site = await json("/api/sites", { name: ridge.name, latitude: ridge.latitudeDeg, longitude: ridge.longitudeDeg, elevationM: ridge.elevationM });
     const campaign = await json(`/api/sites/${site.id}/campaigns`, { name: `${ridge.name} mast`, monitor: MONITOR });
-    const form = new FormData();
-    form.append("file", await openAsBlob(logPath), `${ridge.name}.csv`);
-    const posted = await fetch(`${base}/api/campaigns/${campaign.id}/uploads`, { method: "POST", headers, body: form });
-    if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
-    const { upload } = (await posted.json()) as { upload: { id: number } };
-    for (;;) {
-      const status = (await (await fetch(`${base}/api/uploads/${upload.id}`, { headers })).json()) as { status: string; samples: { accepted: number }; error: string | null };
-      if (status.status === "done") {
-        stored += status.samples.accepted;
-        break;
-      }
-      if (status.status !== "queued" && status.status !== "ingesting") throw new Error(`ingest ended ${status.status}: ${status.error ?? ""}`);
-      await new Promise((resolve) => setTimeout(resolve, 50));
-    }
+    stored += await uploadAndWait(base, headers, campaign.id, logPath, `${ridge.name}.csv`);
     siteIds.push(site.id);
     campaignIds.push(campaign.id);
   }

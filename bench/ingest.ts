@@ -97,6 +97,24 @@ export async function signInAsLead(base: string, password: string): Promise<{ he
   return { headers, postJson };
 }
 
+/**
+ * Sends a log to a campaign through the upload API and waits (polling every 50 ms) until its ingest is `done`;
+ * returns the samples it accepted. Any other end (failed, a refusal) throws with the server's words.
+ */
+export async function uploadAndWait(base: string, headers: Record<string, string>, campaignId: number, logPath: string, fileName: string): Promise<number> {
+  const form = new FormData();
+  form.append("file", await openAsBlob(logPath), fileName);
+  const posted = await fetch(`${base}/api/campaigns/${campaignId}/uploads`, { method: "POST", headers, body: form });
+  if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
+  const { upload } = (await posted.json()) as { upload: { id: number } };
+  for (;;) {
+    const status = (await (await fetch(`${base}/api/uploads/${upload.id}`, { headers })).json()) as { status: string; samples: { accepted: number }; error: string | null };
+    if (status.status === "done") return status.samples.accepted;
+    if (status.status !== "queued" && status.status !== "ingesting") throw new Error(`ingest ended ${status.status}: ${status.error ?? ""}`);
+    await new Promise((resolve) => setTimeout(resolve, 50));
+  }
+}
+
 export async function run({ rows }: { rows: number; runs?: number }): Promise<Record<string, number | string>> {
   const logPath = await benchLog(rows);
   const dataDir = mkdtempSync(join(tmpdir(), "calmcrest-bench-data-"));

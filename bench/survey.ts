@@ -6,13 +6,13 @@
 // resident memory after all of that. Also the disk the samples take. Run through bench/run.ts
 // (`npm run bench -- --only survey`), or alone: node_modules/.bin/tsx bench/survey.ts [rows].
 import { spawn, type ChildProcess } from "node:child_process";
-import { existsSync, mkdirSync, mkdtempSync, openAsBlob, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { loadavg, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { median } from "./childProcess.ts";
 import { processCpuMs, waitForSnapshots } from "./compare.ts";
-import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { benchLog, freePort, peakRssMb, signInAsLead, uploadAndWait, waitForHealth } from "./ingest.ts";
 import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
@@ -66,21 +66,8 @@ async function loadSites(base: string, rows: number): Promise<{ siteIds: number[
     // Invented ridges a few kilometres apart.
     const site = await json("/api/sites", { name: `Survey Ridge ${index + 1}`, latitude: -27.4 - index * 0.03, longitude: -70.1 - index * 0.02, elevationM: 2500 + index * 20 });
     const campaign = await json(`/api/sites/${site.id}/campaigns`, { name: `Survey Ridge ${index + 1} mast`, monitor: MONITOR });
-    const form = new FormData();
-    form.append("file", await openAsBlob(logPath), `survey-${index + 1}.csv`);
     const startedMs = performance.now();
-    const posted = await fetch(`${base}/api/campaigns/${campaign.id}/uploads`, { method: "POST", headers, body: form });
-    if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
-    const { upload } = (await posted.json()) as { upload: { id: number } };
-    for (;;) {
-      const status = (await (await fetch(`${base}/api/uploads/${upload.id}`, { headers })).json()) as { status: string; samples: { accepted: number }; error: string | null };
-      if (status.status === "done") {
-        stored += status.samples.accepted;
-        break;
-      }
-      if (status.status !== "queued" && status.status !== "ingesting") throw new Error(`ingest ended ${status.status}: ${status.error ?? ""}`);
-      await new Promise((resolve) => setTimeout(resolve, 50));
-    }
+    stored += await uploadAndWait(base, headers, campaign.id, logPath, `survey-${index + 1}.csv`);
     ingestS.push((performance.now() - startedMs) / 1000);
     siteIds.push(site.id);
     campaignIds.push(campaign.id);

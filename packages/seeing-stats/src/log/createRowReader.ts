@@ -150,6 +150,43 @@ export function validateMonitor(monitor: MonitorSettings): void {
   }
 }
 
+/** The reduction's constants for one monitor and measure, folded once per reader (both row readers use these). */
+export interface FoldedReduction {
+  /** (500 nm / λ)^(-1/5): seeing measured at λ to the reference wavelength. */
+  toReferenceSeeing: number;
+  /** 0.98 λ_ref in arcsec·cm: seeing = this / r0 (r0 at the reference wavelength, in cm). */
+  r0ScaleCmArcsec: number;
+  /** A per axis: ε(zenith, 500 nm) = A (σ² cos z)^(3/5); 0 when the measure is not a variance. */
+  longFactor: number;
+  transFactor: number;
+  /** Variances in px² times this are in arcsec² (1 for variances logged in arcsec²). */
+  varianceToArcsec2: number;
+}
+
+/**
+ * Constants folded once so a row costs a few multiplications and powers:
+ * ε(zenith, 500 nm) = A (σ² cos z)^(3/5), A = 0.98 λ (λ² D^(-1/3) K)^(-3/5) (500/λ)^(-1/5) in arcsec units.
+ */
+export function foldReduction(monitor: MonitorSettings, measure: MeasureSource): FoldedReduction {
+  const wavelengthM = monitor.wavelengthNm * 1e-9;
+  const toReferenceSeeing = (REFERENCE_WAVELENGTH_NM / monitor.wavelengthNm) ** (-1 / 5);
+  const r0ScaleCmArcsec = SEEING_CONSTANT * REFERENCE_WAVELENGTH_NM * 1e-9 * ARCSEC_PER_RADIAN * 100;
+  let longFactor = 0;
+  let transFactor = 0;
+  let varianceToArcsec2 = 1;
+  if (measure === 'variance_arcsec2' || measure === 'variance_px2') {
+    const apertureM = (monitor.apertureMm ?? 0) * 1e-3;
+    const baselineRatio = (monitor.baselineMm ?? 0) / (monitor.apertureMm ?? 1);
+    const coefficients = responseCoefficients(baselineRatio, monitor.response);
+    const axisFactor = (coefficient: number): number =>
+      SEEING_CONSTANT * wavelengthM * (wavelengthM * wavelengthM * apertureM ** (-1 / 3) * coefficient) ** (-3 / 5) * ARCSEC_PER_RADIAN ** (1 - 6 / 5) * toReferenceSeeing;
+    longFactor = axisFactor(coefficients.longitudinal);
+    transFactor = axisFactor(coefficients.transverse);
+    if (measure === 'variance_px2' && monitor.pixelScaleArcsec !== undefined) varianceToArcsec2 = monitor.pixelScaleArcsec ** 2;
+  }
+  return { toReferenceSeeing, r0ScaleCmArcsec, longFactor, transFactor, varianceToArcsec2 };
+}
+
 /** Picks the measure a reader uses, or explains (LogFormatError) why none can be used with these settings. */
 export function chooseMeasure(mapping: ColumnMapping, monitor: MonitorSettings): MeasureSource {
   const hasGeometry = monitor.apertureMm !== undefined && monitor.baselineMm !== undefined;
@@ -328,24 +365,7 @@ export function createRowReader(options: {
   const sunAltitude = site === undefined ? null : createSunAltitude(site);
   const anisotropyLimit = monitor.anisotropyRatioLimit ?? DEFAULT_ANISOTROPY_RATIO_LIMIT;
 
-  // Constants folded once so a row costs a few multiplications and powers:
-  // ε(zenith, 500 nm) = A (σ² cos z)^(3/5), A = 0.98 λ (λ² D^(-1/3) K)^(-3/5) (500/λ)^(-1/5) in arcsec units.
-  const wavelengthM = monitor.wavelengthNm * 1e-9;
-  const toReferenceSeeing = (REFERENCE_WAVELENGTH_NM / monitor.wavelengthNm) ** (-1 / 5);
-  const r0ScaleCmArcsec = SEEING_CONSTANT * REFERENCE_WAVELENGTH_NM * 1e-9 * ARCSEC_PER_RADIAN * 100;
-  let longFactor = 0;
-  let transFactor = 0;
-  let varianceToArcsec2 = 1;
-  if (measure === 'variance_arcsec2' || measure === 'variance_px2') {
-    const apertureM = (monitor.apertureMm ?? 0) * 1e-3;
-    const baselineRatio = (monitor.baselineMm ?? 0) / (monitor.apertureMm ?? 1);
-    const coefficients = responseCoefficients(baselineRatio, monitor.response);
-    const axisFactor = (coefficient: number): number =>
-      SEEING_CONSTANT * wavelengthM * (wavelengthM * wavelengthM * apertureM ** (-1 / 3) * coefficient) ** (-3 / 5) * ARCSEC_PER_RADIAN ** (1 - 6 / 5) * toReferenceSeeing;
-    longFactor = axisFactor(coefficients.longitudinal);
-    transFactor = axisFactor(coefficients.transverse);
-    if (measure === 'variance_px2' && monitor.pixelScaleArcsec !== undefined) varianceToArcsec2 = monitor.pixelScaleArcsec ** 2;
-  }
+  const { toReferenceSeeing, r0ScaleCmArcsec, longFactor, transFactor, varianceToArcsec2 } = foldReduction(monitor, measure);
   const measureName = measure === 'seeing' ? 'seeing_arcsec' : measure === 'r0' ? 'r0_cm' : measure === 'variance_px2' ? 'var_…_px2' : 'var_…_arcsec2';
 
   return (fields) => {

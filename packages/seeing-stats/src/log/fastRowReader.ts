@@ -1,17 +1,17 @@
-import { ARCSEC_PER_RADIAN, DEG_TO_RAD, REFERENCE_WAVELENGTH_NM, SEEING_CONSTANT } from '../physics/constants.js';
-import { responseCoefficients } from '../physics/responseCoefficients.js';
+import { DEG_TO_RAD, REFERENCE_WAVELENGTH_NM } from '../physics/constants.js';
 import {
   chooseMeasure,
   createRowReader,
   defaultPlausibility,
   DEFAULT_ANISOTROPY_RATIO_LIMIT,
+  foldReduction,
   interlacedFields,
   noiseFields,
   type LogSample,
   type PlausibilityWindow,
 } from './createRowReader.js';
 import type { LogField } from './logFields.js';
-import { daysFromCivil } from './parseUtcTime.js';
+import { DAYS_IN_MONTH, daysFromCivil, digitsAt } from './parseUtcTime.js';
 import { createSunAltitude } from './sunAltitude.js';
 
 /** The row reader's options (createRowReader); the fast reader takes the same ones. */
@@ -37,7 +37,6 @@ const UNDERSTOOD_OPTIONS = new Set(['headers', 'mapping', 'monitor', 'site', 'de
 const PLAIN_DELIMITERS = new Set([',', ';', '\t', '|']);
 const POWERS_OF_TEN = Array.from({ length: 16 }, (_, exponent) => 10 ** exponent);
 const MAX_DIGITS = 15;
-const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
 
 /** Column roles in the line. */
 const IGNORED = 0;
@@ -128,25 +127,10 @@ export function createFastRowReader(options: RowReaderOptions): FastRowReader | 
   /** 1 where the slot's column was empty (an optional value not logged). */
   const empty = new Uint8Array(slotCount).fill(1);
 
-  // The same constants as createRowReader, folded the same way.
+  // The same constants as createRowReader (foldReduction).
   const sunAltitude = site === undefined ? null : createSunAltitude(site);
   const anisotropyLimit = monitor.anisotropyRatioLimit ?? DEFAULT_ANISOTROPY_RATIO_LIMIT;
-  const wavelengthM = monitor.wavelengthNm * 1e-9;
-  const toReferenceSeeing = (REFERENCE_WAVELENGTH_NM / monitor.wavelengthNm) ** (-1 / 5);
-  const r0ScaleCmArcsec = SEEING_CONSTANT * REFERENCE_WAVELENGTH_NM * 1e-9 * ARCSEC_PER_RADIAN * 100;
-  let longFactor = 0;
-  let transFactor = 0;
-  let varianceToArcsec2 = 1;
-  if (variance) {
-    const apertureM = (monitor.apertureMm ?? 0) * 1e-3;
-    const baselineRatio = (monitor.baselineMm ?? 0) / (monitor.apertureMm ?? 1);
-    const coefficients = responseCoefficients(baselineRatio, monitor.response);
-    const axisFactor = (coefficient: number): number =>
-      SEEING_CONSTANT * wavelengthM * (wavelengthM * wavelengthM * apertureM ** (-1 / 3) * coefficient) ** (-3 / 5) * ARCSEC_PER_RADIAN ** (1 - 6 / 5) * toReferenceSeeing;
-    longFactor = axisFactor(coefficients.longitudinal);
-    transFactor = axisFactor(coefficients.transverse);
-    if (measure === 'variance_px2' && monitor.pixelScaleArcsec !== undefined) varianceToArcsec2 = monitor.pixelScaleArcsec ** 2;
-  }
+  const { toReferenceSeeing, r0ScaleCmArcsec, longFactor, transFactor, varianceToArcsec2 } = foldReduction(monitor, measure);
   const wavelengthNm = monitor.wavelengthNm;
 
   return (text, start, end, sample) => {
@@ -281,16 +265,6 @@ export function readIsoTime(text: string, start: number, end: number): number {
     lastTimeZoned = true;
   }
   return daysFromCivil(year, month, day) * 86_400_000 + (hour * 60 + minute) * 60_000 + milliseconds;
-}
-
-function digitsAt(text: string, start: number, count: number): number {
-  let value = 0;
-  for (let offset = 0; offset < count; offset += 1) {
-    const code = text.charCodeAt(start + offset) - 48;
-    if (code < 0 || code > 9) return -1;
-    value = value * 10 + code;
-  }
-  return value;
 }
 
 /**

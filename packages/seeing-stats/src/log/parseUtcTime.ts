@@ -1,6 +1,8 @@
-const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+/** Days in each month of a common year (February gains one in a leap year). */
+export const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
 
-function digitsAt(text: string, start: number, count: number): number {
+/** The value of `count` decimal digits at `start`, or -1 when any of them is not a digit. */
+export function digitsAt(text: string, start: number, count: number): number {
   let value = 0;
   for (let offset = 0; offset < count; offset += 1) {
     const code = text.charCodeAt(start + offset) - 48;

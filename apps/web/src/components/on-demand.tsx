@@ -56,11 +56,11 @@ export function OnDemandSiteMap(props: ComponentProps<typeof SiteMap>) {
 const nextFrame = () => new Promise<void>((resolve) => requestAnimationFrame(() => resolve()));
 
 /**
- * Opens the browser's print dialogue once the charts' code has arrived and every on-demand part has replaced its
- * stand-in, so a page printed at once does not carry "Loading …" boxes instead of charts (gives up waiting after 5 s).
+ * Opens the browser's print dialogue once every on-demand part has replaced its stand-in (the page's route has
+ * already fetched the charts' code), so a page printed at once does not carry "Loading …" boxes instead of charts
+ * (gives up waiting after 5 s).
  */
 export async function printWithCharts() {
-  await Promise.all([loadSeeingCharts(), loadCompareCharts()]);
   const startMs = performance.now();
   const stillLoading = () => Array.from(document.querySelectorAll('[role="status"]')).some((element) => element.textContent?.startsWith("Loading ") ?? false);
   while (stillLoading() && performance.now() - startMs < 5_000) await nextFrame();

@@ -1,7 +1,8 @@
 // One autocannon run for bench/load.ts, in a process of its own (plain JavaScript, so it starts in milliseconds and
 // takes no CPU from the server while it loads): waits until the given start time, runs, and prints its figures as
 // JSON. Latencies of every answered request are kept to give p95 (autocannon itself reports p97.5, not p95).
-//   node bench/hammer.mjs <url> <connections> <durationS> <startAtMs>     (cookie in CALMCREST_LOAD_COOKIE)
+//   node bench/hammer.mjs <url> <connections> <durationS> <startAtMs>
+// (the cookie in CALMCREST_LOAD_COOKIE, the Accept-Encoding in CALMCREST_LOAD_ACCEPT_ENCODING)
 import autocannon from "autocannon";
 
 const [url = "", connectionsText = "1", durationText = "1", startAtText = "0"] = process.argv.slice(2);
@@ -18,7 +19,7 @@ await new Promise((resolve) => setTimeout(resolve, Math.max(0, Number(startAtTex
 const latenciesMs = [];
 const result = await new Promise((resolve, reject) => {
   const instance = autocannon(
-    { url, connections: Number(connectionsText), duration: Number(durationText), headers: { cookie: process.env.CALMCREST_LOAD_COOKIE ?? "" }, timeout: 10 },
+    { url, connections: Number(connectionsText), duration: Number(durationText), headers: { cookie: process.env.CALMCREST_LOAD_COOKIE ?? "", "accept-encoding": process.env.CALMCREST_LOAD_ACCEPT_ENCODING ?? "identity" }, timeout: 10 },
     (error, finished) => (error ? reject(error) : resolve(finished)),
   );
   // autocannon emits (client, statusCode, bytes, responseTimeMs) for every answered request.

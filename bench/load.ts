@@ -7,6 +7,10 @@
 //
 //   npm run load                                   # the full run (about 3 minutes)
 //   npm run load -- --rows 5000 --duration 2 --connections 5 --out /tmp/load.json    # a smoke run
+//   npm run load -- --identity                     # readers that do not accept gzip (every answer sent uncompressed)
+//
+// The readers send the Accept-Encoding a browser sends (gzip, deflate, br, zstd), so cached answers go out in gzip
+// as they do to the web app; --identity measures the uncompressed case.
 import { spawn } from "node:child_process";
 import { existsSync, mkdtempSync, openAsBlob, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { cpus, tmpdir, totalmem } from "node:os";
@@ -31,12 +35,22 @@ interface Flags {
   connections: number;
   maxIngests: number;
   out: string;
+  /** Readers that accept no compression (Accept-Encoding: identity) instead of a browser's. */
+  identity: boolean;
 }
 
+/** What Chromium sends: the readers of the load test are browsers. */
+const BROWSER_ACCEPT_ENCODING = "gzip, deflate, br, zstd";
+
 function parseFlags(argv: readonly string[]): Flags {
-  const flags: Flags = { rows: 1_000_000, durationS: 30, connections: 50, maxIngests: 6, out: join(root, "bench", "results.json") };
+  const flags: Flags = { rows: 1_000_000, durationS: 30, connections: 50, maxIngests: 6, out: join(root, "bench", "results.json"), identity: false };
   for (let index = 0; index < argv.length; index += 2) {
     const flag = argv[index];
+    if (flag === "--identity") {
+      flags.identity = true;
+      index -= 1;
+      continue;
+    }
     const value = argv[index + 1];
     const number = Number(value);
     if (flag === "--rows" && number >= 100) flags.rows = Math.floor(number);
@@ -44,7 +58,7 @@ function parseFlags(argv: readonly string[]): Flags {
     else if (flag === "--connections" && number >= 1 && number <= 200) flags.connections = Math.floor(number);
     else if (flag === "--max-ingests" && number >= 1 && number <= 20) flags.maxIngests = Math.floor(number);
     else if (flag === "--out" && value !== undefined) flags.out = resolve(value);
-    else throw new Error(`load: unknown or out-of-range flag ${String(flag)} ${String(value)} (flags: --rows N≥100 --duration 1..120 s --connections 1..200 --max-ingests 1..20 --out FILE)`);
+    else throw new Error(`load: unknown or out-of-range flag ${String(flag)} ${String(value)} (flags: --rows N≥100 --duration 1..120 s --connections 1..200 --max-ingests 1..20 --out FILE --identity)`);
   }
   return flags;
 }
@@ -70,13 +84,13 @@ export interface LoadFigures {
  * Runs the summary and health measurements at the same moment, each in a process of its own (bench/hammer.mjs), so
  * they never share an event loop with each other or with this script: a health request's time is the server's.
  */
-async function hammerBoth(summaryUrl: string, healthUrl: string, cookie: string, connections: number, durationS: number): Promise<[LoadFigures, LoadFigures]> {
+async function hammerBoth(summaryUrl: string, healthUrl: string, cookie: string, acceptEncoding: string, connections: number, durationS: number): Promise<[LoadFigures, LoadFigures]> {
   const startAtMs = Date.now() + 1000;
   const run = (url: string, runConnections: number) =>
     new Promise<LoadFigures>((resolvePromise, reject) => {
       const child = spawn(process.execPath, [join(root, "bench/hammer.mjs"), url, String(runConnections), String(durationS), String(startAtMs)], {
         cwd: root,
-        env: { ...process.env, CALMCREST_LOAD_COOKIE: cookie },
+        env: { ...process.env, CALMCREST_LOAD_COOKIE: cookie, CALMCREST_LOAD_ACCEPT_ENCODING: acceptEncoding },
         stdio: ["ignore", "pipe", "inherit"],
       });
       const out: Buffer[] = [];
@@ -134,12 +148,15 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     const coldStartMs = performance.now();
     const first = await fetch(summaryUrl, { headers });
     const summaryBytes = (await first.arrayBuffer()).byteLength;
+    // The bytes on the wire for the readers' Accept-Encoding (fetch above inflated what it got).
+    const acceptEncoding = flags.identity ? "identity" : BROWSER_ACCEPT_ENCODING;
+    const sentBytes = Number((await fetch(summaryUrl, { method: "HEAD", headers: { ...headers, "Accept-Encoding": acceptEncoding } })).headers.get("content-length"));
     if (!first.ok) throw new Error(`summary: ${first.status}`);
     const summaryColdMs = Math.round(performance.now() - coldStartMs);
-    console.log(`load: ${stored.samples.accepted} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB)`);
+    console.log(`load: ${stored.samples.accepted} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB; ${Math.round(sentBytes / 1024)} KiB sent to readers accepting "${acceptEncoding}")`);
 
     console.log(`load: ${flags.connections} connections on the repeated summary and ${HEALTH_CONNECTIONS} on /api/health for ${flags.durationS} s…`);
-    const [summary, health] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", flags.connections, flags.durationS);
+    const [summary, health] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", acceptEncoding, flags.connections, flags.durationS);
     console.log(describe("repeated summary", summary));
     console.log(describe("/api/health", health));
     const rssAfterSummaryMb = rssMb(pid);
@@ -163,7 +180,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     await new Promise((resolveWait) => setTimeout(resolveWait, 300));
     console.log(`load: the same during ${flags.rows}-row ingests…`);
     const loadStartMs = performance.now();
-    const [summaryDuringIngest, healthDuringIngest] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", flags.connections, flags.durationS);
+    const [summaryDuringIngest, healthDuringIngest] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", acceptEncoding, flags.connections, flags.durationS);
     const loadMs = performance.now() - loadStartMs;
     ingesting = false;
     await ingestLoop;
@@ -188,6 +205,8 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
       durationS: flags.durationS,
       summaryColdMs,
       summaryKiB: Math.round(summaryBytes / 1024),
+      acceptEncoding,
+      summarySentKiB: Math.round(sentBytes / 1024),
       summary,
       health,
       summaryDuringIngest,

@@ -88,14 +88,14 @@ export function campaignRoutes(context: AppContext): ApiRouter {
     const query = parseOr400(summaryQuerySchema, req.query, "The summary query");
     const site = await store.campaigns.siteOf(campaign);
     const answer = await summaries.summary({ kind: "campaign", site, campaigns: [campaign], query, ingestRejections: () => store.uploads.ingestRejections([campaign.id]) });
-    sendAnswer(res, answer);
+    sendAnswer(req, res, answer);
   });
 
   routes.route("GET", "/:id/samples", { access: FIELD_ROLES, campaignAction: "read" }, async (req, res) => {
     const campaign = await store.campaigns.forUser(currentUser(res.locals), campaignId(req.params.id), "read");
     const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
     const site = await store.campaigns.siteOf(campaign);
-    sendAnswer(res, await summaries.series([campaign.id], site.longitude, query));
+    sendAnswer(req, res, await summaries.series([campaign.id], site.longitude, query));
   });
 
   return routes;

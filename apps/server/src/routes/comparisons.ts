@@ -14,7 +14,7 @@ export function comparisonRoutes(context: AppContext): ApiRouter {
   // Committee members read published reports only (403); each site or campaign is checked for the caller (404).
   routes.route("GET", "/", { access: FIELD_ROLES }, async (req, res) => {
     const query = parseOr400(comparisonQuerySchema, req.query, "The comparison query");
-    sendAnswer(res, await compareForUserAnswer(context, currentUser(res.locals), query));
+    sendAnswer(req, res, await compareForUserAnswer(context, currentUser(res.locals), query));
   });
 
   return routes;

@@ -57,13 +57,13 @@ export function siteRoutes(context: AppContext): ApiRouter {
     const query = parseOr400(summaryQuerySchema, req.query, "The summary query");
     const campaigns = await store.campaigns.listByIds(campaignIds);
     const answer = await summaries.summary({ kind: "site", site, campaigns, query, ingestRejections: () => store.uploads.ingestRejections(campaignIds) });
-    sendAnswer(res, answer);
+    sendAnswer(req, res, answer);
   });
 
   routes.route("GET", "/:id/samples", { access: FIELD_ROLES }, async (req, res) => {
     const { site, campaignIds } = await store.sites.forUser(currentUser(res.locals), routeId(req.params.id, "That site"));
     const query = parseOr400(samplesQuerySchema, req.query, "The samples query");
-    sendAnswer(res, await summaries.series(campaignIds, site.longitude, query));
+    sendAnswer(req, res, await summaries.series(campaignIds, site.longitude, query));
   });
 
   routes.route("POST", "/:id/campaigns", { access: ["admin", "lead"] }, async (req, res) => {

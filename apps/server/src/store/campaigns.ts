@@ -14,7 +14,7 @@ import { roleAllows, type CampaignAction } from "../access/access.server";
 import { HttpError, notFound } from "../http/errors";
 import type { StoreCore } from "./core";
 import { exclusionRows, exclusionView } from "./exclusions";
-import { isMember, membershipsStore } from "./memberships";
+import { membershipsStore } from "./memberships";
 import { siteRef, siteRowById } from "./sites";
 import { uploadListItem, uploadRows } from "./uploads";
 
@@ -160,7 +160,7 @@ export function campaignsStore(core: StoreCore) {
   const members = membershipsStore(core);
 
   async function require(campaignId: number): Promise<CampaignRow> {
-    const row = await campaignRowById(knex(), campaignId);
+    const row = core.reads.campaign(campaignId);
     if (!row) throw notFound("That campaign");
     return row;
   }
@@ -169,8 +169,8 @@ export function campaignsStore(core: StoreCore) {
     require,
 
     /** The campaigns with these ids, by id. */
-    listByIds(campaignIds: readonly number[]): Promise<CampaignRow[]> {
-      return knex()("campaign").whereIn("id", campaignIds).orderBy("id").select<CampaignRow[]>("*");
+    async listByIds(campaignIds: readonly number[]): Promise<CampaignRow[]> {
+      return core.reads.campaigns(campaignIds);
     },
 
     /** List items (with counts) of these campaigns, by id. */
@@ -182,7 +182,7 @@ export function campaignsStore(core: StoreCore) {
 
     /** The campaign's site row. */
     async siteOf(campaign: CampaignRow) {
-      const site = await siteRowById(knex(), campaign.site_id);
+      const site = core.reads.site(campaign.site_id);
       if (!site) throw notFound("That site");
       return site;
     },
@@ -192,9 +192,9 @@ export function campaignsStore(core: StoreCore) {
      * the user (same answer, so ids cannot be probed); 403 when visible but the role may not do the action.
      */
     async forUser(user: User, campaignId: number, action: CampaignAction): Promise<CampaignRow> {
-      const campaign = await campaignRowById(knex(), campaignId);
+      const campaign = core.reads.campaign(campaignId);
       if (!campaign) throw notFound("That campaign");
-      const visible = user.role === "admin" || user.role === "lead" || (user.role === "engineer" && (await isMember(knex(), user.id, campaignId)));
+      const visible = user.role === "admin" || user.role === "lead" || (user.role === "engineer" && core.reads.isMember(user.id, campaignId));
       if (!visible) throw notFound("That campaign");
       if (!roleAllows(user.role, action)) {
         throw new HttpError(403, "forbidden", `Your role (${user.role}) cannot do this in a campaign. Ask a survey lead if it needs doing.`);

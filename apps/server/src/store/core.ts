@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import { isAuditAction, type AuditEntry as ContractAuditEntry } from "@calmcrest/contracts";
 import type { AppDatabase } from "../db/database.server";
 import type { SampleCache } from "../summaries/sample-cache.server";
+import { RequestReads } from "./request-reads";
 import type { SampleMoveJob, SampleMoveOutcome } from "./sample-moves";
 import type { WriteGate } from "./write-gate";
 
@@ -54,6 +55,8 @@ export interface SampleMover {
 export class StoreCore {
   private readonly listeners: ChangeListener[] = [];
   private sampleMover: SampleMover | null = null;
+  /** Prepared reads for the site and campaign look-ups of every request (never inside a write). */
+  readonly reads: RequestReads;
 
   constructor(
     readonly db: AppDatabase,
@@ -61,7 +64,9 @@ export class StoreCore {
     readonly gate: WriteGate,
     /** The address links in e-mails point to (env.publicBaseUrl), without a trailing slash. */
     readonly publicBaseUrl: string = "http://localhost:4173",
-  ) {}
+  ) {
+    this.reads = new RequestReads(db.sqlite);
+  }
 
   /** The connection for reads (never inside a write: use the scope's trx there). */
   get knex(): Knex {

@@ -55,7 +55,7 @@ export function sitesStore(core: StoreCore) {
   return {
     /** The site, or a 404 naming it. */
     async require(siteId: number): Promise<SiteRow> {
-      const site = await siteRowById(knex(), siteId);
+      const site = core.reads.site(siteId);
       if (!site) throw notFound("That site");
       return site;
     },
@@ -81,11 +81,10 @@ export function sitesStore(core: StoreCore) {
 
     /** The site and the ids of its campaigns the user can see; 404 if the site is invisible to the user. */
     async forUser(user: User, siteId: number): Promise<{ site: SiteRow; campaignIds: number[]; campaignCountAtSite: number }> {
-      const site = await siteRowById(knex(), siteId);
+      const site = core.reads.site(siteId);
       if (!site) throw notFound("That site");
-      const visible = await visibleCampaignIds(knex(), user);
-      const campaigns = await knex()("campaign").where({ site_id: siteId }).orderBy("id").select<{ id: number }[]>("id");
-      const ids = campaigns.map((row) => row.id);
+      const ids = core.reads.campaignIdsOfSite(siteId);
+      const visible = user.role === "admin" || user.role === "lead" ? "all" : user.role === "engineer" ? core.reads.memberCampaignIds(user.id) : [];
       const campaignIds = visible === "all" ? ids : ids.filter((id) => visible.includes(id));
       // An engineer sees a site only through a campaign there they belong to.
       if (visible !== "all" && campaignIds.length === 0) throw notFound("That site");

@@ -1,15 +1,20 @@
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { gunzipSync } from "node:zlib";
+import { once } from "node:events";
+import { get, type IncomingHttpHeaders } from "node:http";
+import type { AddressInfo } from "node:net";
+import request from "supertest";
 import Database from "better-sqlite3";
 import { describe, expect, it } from "vitest";
 import type { SummaryResponse } from "@calmcrest/contracts";
 import { createSiteAndCampaign, DATA_SAMPLES, postUpload, waitForUpload } from "../routes/test-helpers";
-import { createTestServer, SAME_ORIGIN, signedInAgent } from "../test-support";
+import { createTestServer, DEMO_PASSWORD_FOR_TESTS, SAME_ORIGIN, signedInAgent } from "../test-support";
 import { BUMP_DATA_VERSION_SQL, readDataVersions } from "./data-version.server";
 import { snapshotPath } from "./column-snapshot.server";
 import { SampleCache } from "./sample-cache.server";
-import { SummaryService } from "./summary-service.server";
+import { acceptsGzip, SummaryService } from "./summary-service.server";
 
 const { app, context } = await createTestServer();
 const lead = await signedInAgent(app, "lead");
@@ -36,6 +41,57 @@ async function campaignWithSamples(from: number, to: number) {
   expect(upload.status).toBe("done");
   return { site, campaign, upload };
 }
+
+describe("answers in gzip", () => {
+  it("reads Accept-Encoding as RFC 9110 does: gzip, x-gzip or * with a q above 0", () => {
+    expect(acceptsGzip("gzip, deflate, br, zstd")).toBe(true);
+    expect(acceptsGzip("br;q=1.0, GZip;q=0.5")).toBe(true);
+    expect(acceptsGzip("*")).toBe(true);
+    expect(acceptsGzip("x-gzip")).toBe(true);
+    expect(acceptsGzip("gzip;q=0")).toBe(false);
+    expect(acceptsGzip("gzip; q=0.000")).toBe(false);
+    expect(acceptsGzip("deflate, br")).toBe(false);
+    expect(acceptsGzip("identity")).toBe(false);
+    expect(acceptsGzip("")).toBe(false);
+    expect(acceptsGzip(undefined)).toBe(false);
+  });
+
+  it("sends the same JSON compressed to a client that accepts gzip and as it is to one that does not, under one ETag", async () => {
+    const { campaign } = await campaignWithSamples(0, 300);
+    const url = `/api/campaigns/${campaign.id}/summary`;
+    // Over a real socket with node:http, which (unlike supertest) hands over the bytes as they were sent.
+    const signIn = await request(app).post("/api/auth/sign-in").set(SAME_ORIGIN).send({ email: "lead@calmcrest.test", password: DEMO_PASSWORD_FOR_TESTS });
+    const cookie = (signIn.headers["set-cookie"] as unknown as string[]).map((line) => line.split(";")[0]).join("; ");
+    const server = app.listen(0, "127.0.0.1");
+    await once(server, "listening");
+    const { port } = server.address() as AddressInfo;
+    const raw = (encoding: string) =>
+      new Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }>((resolve, reject) => {
+        get({ host: "127.0.0.1", port, path: url, headers: { cookie, "accept-encoding": encoding } }, (response) => {
+          const chunks: Buffer[] = [];
+          response.on("data", (chunk: Buffer) => chunks.push(chunk));
+          response.on("end", () => resolve({ status: response.statusCode ?? 0, headers: response.headers, body: Buffer.concat(chunks) }));
+        }).on("error", reject);
+      });
+    const plain = await raw("identity");
+    const zipped = await raw("gzip, deflate, br");
+    expect(plain.status).toBe(200);
+    expect(zipped.status).toBe(200);
+    expect(plain.headers["content-encoding"]).toBeUndefined();
+    expect(zipped.headers["content-encoding"]).toBe("gzip");
+    expect(plain.headers.vary).toMatch(/Accept-Encoding/i);
+    expect(zipped.headers.vary).toMatch(/Accept-Encoding/i);
+    server.close();
+    const plainBody = plain.body;
+    const zippedBody = zipped.body;
+    expect(zippedBody.byteLength).toBeLessThan(plainBody.byteLength / 2);
+    expect(gunzipSync(zippedBody).equals(plainBody)).toBe(true);
+    expect(JSON.parse(plainBody.toString("utf8"))).toMatchObject({ kind: "campaign" });
+    // One weak ETag for both encodings: either client holding it gets 304.
+    expect(zipped.headers.etag).toBe(plain.headers.etag);
+    expect((await lead.get(url).set("Accept-Encoding", "gzip").set("If-None-Match", String(plain.headers.etag))).status).toBe(304);
+  });
+});
 
 describe("the summary cache", () => {
   it("answers a repeated summary from the cache, and gives new numbers after every change of samples or exclusions", async () => {

@@ -73,6 +73,17 @@ export class SessionAdapter implements Adapter {
   }
 
   async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
+    if (this.pending.length === 0) {
+      // The usual case, on every request with a cookie: session and user in one statement.
+      const joined = this.sqlite
+        .prepare("SELECT session.expires_at AS session_expires_at, user.* FROM session JOIN user ON user.id = session.user_id WHERE session.id = ?")
+        .get(sessionId) as ({ session_expires_at: number; id: string } & RegisteredDatabaseUserAttributes) | undefined;
+      if (joined) {
+        const { session_expires_at: expiresAt, id, ...attributes } = joined;
+        return [toSession({ id: sessionId, user_id: id, expires_at: expiresAt }), { id, attributes }];
+      }
+      // No such session (or, never expected, one without its user): the step-by-step reads below say which.
+    }
     const row = this.sqlite.prepare("SELECT id, user_id, expires_at FROM session WHERE id = ?").get(sessionId) as SessionRow | undefined;
     const session = this.replay(sessionId, row ? toSession(row) : null);
     if (!session) return [null, null];

@@ -160,3 +160,18 @@ describe("session refresh and sign-in while another connection holds the write l
     expect(await context.db.knex("session").where({ id: sessionIdOf(leaving) }).first()).toBeUndefined();
   });
 });
+
+describe("the session read of every request", () => {
+  it("gives the same session and user in one statement as step by step, and nothing for an unknown id", async () => {
+    const token = await signIn("engineer");
+    const id = sessionIdOf(token);
+    const [session, user] = await context.sessionStore.getSessionAndUser(id);
+    const stored = await context.db.knex("session").where({ id }).first<{ id: string; user_id: string; expires_at: number }>();
+    const storedUser = await context.db.knex("user").where({ id: stored.user_id }).first<Record<string, unknown>>();
+    expect(session).toEqual({ id, userId: stored.user_id, expiresAt: new Date(stored.expires_at * 1000), attributes: {} });
+    const { id: userId, ...attributes } = storedUser;
+    expect(user).toEqual({ id: userId, attributes });
+    expect(user?.attributes).toMatchObject({ email: "engineer@calmcrest.test", role: "engineer", status: "active" });
+    expect(await context.sessionStore.getSessionAndUser(sessionIdOf("no-such-token"))).toEqual([null, null]);
+  });
+});

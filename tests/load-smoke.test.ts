@@ -29,6 +29,9 @@ describe('load smoke run', () => {
       expect(load[phase].p99Ms, phase).toBeGreaterThan(0);
     }
     expect(load.ingestsDuringLoad).toBe(1);
+    // The readers accept gzip, as browsers do, and get the summary compressed.
+    expect(load.acceptEncoding).toMatch(/\bgzip\b/);
+    expect(Number(load.summarySentKiB)).toBeLessThan(Number(load.summaryKiB));
     expect(Number(load.serverRssAfterAllCampaignsMb)).toBeGreaterThan(20);
   }, 150_000);
 });

@@ -1,4 +1,5 @@
-import { createServer, type Server } from "node:http";
+import { createServer, get as httpGet, type IncomingHttpHeaders, type Server } from "node:http";
+import { brotliDecompressSync, gunzipSync } from "node:zlib";
 import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_PASSWORD, openBrowser, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
@@ -82,6 +83,36 @@ describe("the built app under its content security policy", () => {
     await page.getByRole("heading", { level: 1 }).waitFor();
     await page.waitForLoadState("networkidle");
     expect(await violations()).toEqual([]);
+  });
+
+  it("sends the built scripts compressed (brotli, else gzip, else as they are), kept a year under their hashed names", async () => {
+    const html = await (await fetch(`${server.url}/`)).text();
+    const script = /<script[^>]+src="(\/assets\/[^"]+\.js)"/.exec(html)?.[1];
+    expect(script, "the page's entry script").toBeDefined();
+    const raw = (acceptEncoding: string) =>
+      new Promise<{ headers: IncomingHttpHeaders; body: Buffer }>((resolve, reject) => {
+        httpGet(`${server.url}${script ?? ""}`, { headers: { "accept-encoding": acceptEncoding } }, (response) => {
+          const chunks: Buffer[] = [];
+          response.on("data", (chunk: Buffer) => chunks.push(chunk));
+          response.on("end", () => resolve({ headers: response.headers, body: Buffer.concat(chunks) }));
+        }).on("error", reject);
+      });
+    const plain = await raw("identity");
+    const brotli = await raw("gzip, deflate, br, zstd");
+    const gzipped = await raw("gzip");
+    expect(plain.headers["content-encoding"]).toBeUndefined();
+    expect(brotli.headers["content-encoding"]).toBe("br");
+    expect(gzipped.headers["content-encoding"]).toBe("gzip");
+    for (const answer of [plain, brotli, gzipped]) {
+      expect(answer.headers["content-type"]).toMatch(/^text\/javascript|^application\/javascript/);
+      expect(answer.headers["cache-control"]).toBe("public, max-age=31536000, immutable");
+      expect(answer.headers.vary ?? "").toMatch(/Accept-Encoding/i);
+      // Static files carry the same security headers as every answer.
+      expect(answer.headers["x-content-type-options"]).toBe("nosniff");
+    }
+    expect(brotliDecompressSync(brotli.body).equals(plain.body)).toBe(true);
+    expect(gunzipSync(gzipped.body).equals(plain.body)).toBe(true);
+    expect(brotli.body.byteLength).toBeLessThan(plain.body.byteLength / 2);
   });
 
   it("saw no page errors or console errors (CSP violations are console errors in chromium)", () => {

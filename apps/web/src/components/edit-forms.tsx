@@ -18,8 +18,29 @@ import { Disclosure, Field, inputClass, numberInput, optionalNumber, optionalTex
 import { MonitorFields, type CampaignForm } from "./new-site-forms";
 import { MonitorSettings } from "./monitor-settings";
 
-const NOTHING_CHANGED = "Nothing was changed, so nothing was sent.";
-const SAVED = "Changes saved.";
+/**
+ * The state of an edit form that sends only what changed: `save(patch)` says "nothing changed" for an empty patch,
+ * else sends it and says it is saved, or shows the server's message (or `fallback` when there is none).
+ */
+function useSaveChanges<Patch extends object>(send: (patch: Patch) => Promise<unknown>, fallback: string) {
+  const [failure, setFailure] = useState<string | null>(null);
+  const [done, setDone] = useState<string | null>(null);
+  async function save(patch: Patch): Promise<void> {
+    setFailure(null);
+    setDone(null);
+    if (Object.keys(patch).length === 0) {
+      setDone("Nothing was changed, so nothing was sent.");
+      return;
+    }
+    try {
+      await send(patch);
+      setDone("Changes saved.");
+    } catch (error) {
+      setFailure(error instanceof ApiError ? error.message : fallback);
+    }
+  }
+  return { failure, done, save };
+}
 
 type SiteForm = z.input<typeof createSiteSchema>;
 
@@ -29,8 +50,8 @@ type SiteForm = z.input<typeof createSiteSchema>;
  */
 export function EditSiteForm({ site }: { site: SiteDetail }) {
   const update = useUpdateSite(site.id);
-  const [failure, setFailure] = useState<string | null>(null);
-  const [done, setDone] = useState<string | null>(null);
+  // Resolves once the site list, this page and its campaigns' pages have been fetched again.
+  const { failure, done, save } = useSaveChanges<PatchSiteInput>((patch) => update.mutateAsync(patch), "The site could not be changed. Try again.");
   const { register, handleSubmit, formState } = useForm<SiteForm, unknown, z.output<typeof createSiteSchema>>({
     resolver: zodResolver(createSiteSchema),
     defaultValues: { name: site.name, latitude: site.latitude, longitude: site.longitude, elevationM: site.elevationM, notes: site.notes },
@@ -39,25 +60,13 @@ export function EditSiteForm({ site }: { site: SiteDetail }) {
   const hasUploads = site.campaigns.some((campaign) => campaign.uploadCount > 0);
 
   const onSubmit = handleSubmit(async (input) => {
-    setFailure(null);
-    setDone(null);
     const patch: PatchSiteInput = {};
     if (input.name !== site.name) patch.name = input.name;
     if (input.latitude !== site.latitude) patch.latitude = input.latitude;
     if (input.longitude !== site.longitude) patch.longitude = input.longitude;
     if (input.elevationM !== site.elevationM) patch.elevationM = input.elevationM;
     if ((input.notes ?? "") !== site.notes) patch.notes = input.notes ?? "";
-    if (Object.keys(patch).length === 0) {
-      setDone(NOTHING_CHANGED);
-      return;
-    }
-    try {
-      // Resolves once the site list, this page and its campaigns' pages have been fetched again.
-      await update.mutateAsync(patch);
-      setDone(SAVED);
-    } catch (error) {
-      setFailure(error instanceof ApiError ? error.message : "The site could not be changed. Try again.");
-    }
+    await save(patch);
   });
 
   return (
@@ -114,8 +123,8 @@ const capitalised = (text: string) => `${text.charAt(0).toUpperCase()}${text.sli
  */
 export function EditCampaignForm({ campaign }: { campaign: CampaignDetail }) {
   const update = useUpdateCampaign(campaign.id);
-  const [failure, setFailure] = useState<string | null>(null);
-  const [done, setDone] = useState<string | null>(null);
+  // The campaign shows on its own page, on its site's page and in the campaign list; resolves once they are fetched again.
+  const { failure, done, save } = useSaveChanges<PatchCampaignInput>((patch) => update.mutateAsync(patch), "The campaign could not be changed. Try again.");
   const { register, handleSubmit, formState } = useForm<CampaignForm, unknown, z.output<typeof createCampaignSchema>>({
     resolver: zodResolver(createCampaignSchema),
     defaultValues: {
@@ -130,8 +139,6 @@ export function EditCampaignForm({ campaign }: { campaign: CampaignDetail }) {
   const errors: FieldErrors<CampaignForm> = formState.errors;
 
   const onSubmit = handleSubmit(async (input) => {
-    setFailure(null);
-    setDone(null);
     const patch: PatchCampaignInput = {};
     if (input.name !== campaign.name) patch.name = input.name;
     if (input.status !== campaign.status) patch.status = input.status;
@@ -141,17 +148,7 @@ export function EditCampaignForm({ campaign }: { campaign: CampaignDetail }) {
     if ((input.notes ?? "") !== campaign.notes) patch.notes = input.notes ?? "";
     const stored = monitorDefaults(campaign.monitor);
     if (MONITOR_KEYS.some((key) => input.monitor[key] !== stored[key])) patch.monitor = input.monitor;
-    if (Object.keys(patch).length === 0) {
-      setDone(NOTHING_CHANGED);
-      return;
-    }
-    try {
-      // The campaign shows on its own page, on its site's page and in the campaign list; resolves once they are fetched again.
-      await update.mutateAsync(patch);
-      setDone(SAVED);
-    } catch (error) {
-      setFailure(error instanceof ApiError ? error.message : "The campaign could not be changed. Try again.");
-    }
+    await save(patch);
   });
 
   return (

@@ -12,11 +12,11 @@
 // The readers send the Accept-Encoding a browser sends (gzip, deflate, br, zstd), so cached answers go out in gzip
 // as they do to the web app; --identity measures the uncompressed case.
 import { spawn } from "node:child_process";
-import { existsSync, mkdtempSync, openAsBlob, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { cpus, tmpdir, totalmem } from "node:os";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
-import { benchLog, freePort, peakRssMb, signInAsLead, waitForHealth } from "./ingest.ts";
+import { benchLog, freePort, peakRssMb, signInAsLead, uploadAndWait, waitForHealth } from "./ingest.ts";
 import { serverCommand } from "../scripts/server-bundle.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
@@ -124,26 +124,10 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
   try {
     await waitForHealth(base, server, 60_000);
     const { headers, postJson: post } = await signInAsLead(base, PASSWORD);
-    const upload = async (campaignId: number): Promise<number> => {
-      const form = new FormData();
-      form.append("file", await openAsBlob(logPath), "load.csv");
-      const posted = await fetch(`${base}/api/campaigns/${campaignId}/uploads`, { method: "POST", headers, body: form });
-      if (posted.status !== 202) throw new Error(`upload: ${posted.status} ${await posted.text()}`);
-      return ((await posted.json()) as { upload: { id: number } }).upload.id;
-    };
-    const finished = async (uploadId: number): Promise<{ status: string; samples: { accepted: number } }> => {
-      for (;;) {
-        const status = (await (await fetch(`${base}/api/uploads/${uploadId}`, { headers })).json()) as { status: string; samples: { accepted: number }; error: string | null };
-        if (status.status === "failed") throw new Error(`ingest failed: ${status.error ?? ""}`);
-        if (status.status !== "queued" && status.status !== "ingesting") return status;
-        await new Promise((resolveWait) => setTimeout(resolveWait, 50));
-      }
-    };
-
     // The site under load: one campaign with the whole log.
     const site = await post("/api/sites", { name: "Load Ridge", ...SITE });
     const campaign = await post(`/api/sites/${site.id}/campaigns`, { name: "Load campaign", monitor: MONITOR });
-    const stored = await finished(await upload(campaign.id));
+    const samplesStored = await uploadAndWait(base, headers, campaign.id, logPath, "load.csv");
     const summaryUrl = `${base}/api/sites/${site.id}/summary`;
     const coldStartMs = performance.now();
     const first = await fetch(summaryUrl, { headers });
@@ -153,7 +137,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
     const sentBytes = Number((await fetch(summaryUrl, { method: "HEAD", headers: { ...headers, "Accept-Encoding": acceptEncoding } })).headers.get("content-length"));
     if (!first.ok) throw new Error(`summary: ${first.status}`);
     const summaryColdMs = Math.round(performance.now() - coldStartMs);
-    console.log(`load: ${stored.samples.accepted} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB; ${Math.round(sentBytes / 1024)} KiB sent to readers accepting "${acceptEncoding}")`);
+    console.log(`load: ${samplesStored} samples stored; first summary ${summaryColdMs} ms (${Math.round(summaryBytes / 1024)} KiB; ${Math.round(sentBytes / 1024)} KiB sent to readers accepting "${acceptEncoding}")`);
 
     console.log(`load: ${flags.connections} connections on the repeated summary and ${HEALTH_CONNECTIONS} on /api/health for ${flags.durationS} s…`);
     const [summary, health] = await hammerBoth(summaryUrl, `${base}/api/health`, headers.Cookie ?? "", acceptEncoding, flags.connections, flags.durationS);
@@ -171,7 +155,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
       for (let count = 0; count < flags.maxIngests && ingesting; count += 1) {
         const target = await post(`/api/sites/${otherSite.id}/campaigns`, { name: `Ingest ${count + 1}`, monitor: MONITOR });
         const startedMs = performance.now();
-        await finished(await upload(target.id));
+        await uploadAndWait(base, headers, target.id, logPath, "load.csv");
         ingestBusyMs += performance.now() - startedMs;
         ingestsDone += 1;
       }
@@ -199,7 +183,7 @@ export async function runLoad(flags: Flags): Promise<Record<string, unknown>> {
       date: new Date().toISOString(),
       machine: { cpu: cpus()[0]?.model ?? "unknown", cores: cpus().length, memoryGb: Number((totalmem() / 2 ** 30).toFixed(1)), node: process.version },
       rows: flags.rows,
-      samplesStored: stored.samples.accepted,
+      samplesStored,
       connections: flags.connections,
       healthConnections: HEALTH_CONNECTIONS,
       durationS: flags.durationS,

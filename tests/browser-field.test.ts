@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Locator, Page } from "playwright-core";
-import { DEMO_PASSWORD, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer, type Role } from "./support/browser";
+import { apiAs, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer, type Role } from "./support/browser";
 
 // The field and analysis screens in a real chromium on the demo scenario: the engineer's upload wizard on a
 // non-native log, the survey lead's map → site → date window, and the committee kept out.
@@ -13,26 +13,6 @@ let browser: BrowserSession;
 const DESKTOP = { width: 1366, height: 900 };
 const TABLET = { width: 820, height: 1180 };
 const DEMO_SITES = ["Tern Ridge", "Saltpan Crest", "Quartz Shoulder", "Condor Spur"];
-
-/** A signed-in API client for test setup (the screens under test are driven through the browser only). */
-async function apiAs(role: Role) {
-  const response = await fetch(`${server.url}/api/auth/sign-in`, {
-    method: "POST",
-    headers: { "Content-Type": "application/json", Origin: server.url },
-    body: JSON.stringify({ email: `${role}@calmcrest.test`, password: DEMO_PASSWORD }),
-  });
-  expect(response.status).toBe(200);
-  const cookie = (response.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
-  return async <T>(path: string, body?: unknown): Promise<T> => {
-    const answer = await fetch(`${server.url}/api${path}`, {
-      method: body === undefined ? "GET" : "POST",
-      headers: { Cookie: cookie, Origin: server.url, ...(body === undefined ? {} : { "Content-Type": "application/json" }) },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-    if (!answer.ok) throw new Error(`${path}: ${answer.status} ${await answer.text()}`);
-    return (await answer.json()) as T;
-  };
-}
 
 /** Signs in from a clean cookie jar, so a failed earlier test cannot leave someone else signed in. */
 async function signInAs(role: Role) {
@@ -175,14 +155,14 @@ describe("field and analysis screens in a browser", () => {
   it("takes the field engineer through the wizard on a semicolon log with foreign headers, to the exact counts", async () => {
     // Setup through the API: a fresh campaign (so no demo sample shares a timestamp) with the engineer as member.
     // The site sits where data-samples/README.md says the sample logs were generated, so the night filter fits.
-    const lead = await apiAs("lead");
-    const site = await lead<{ id: number }>("/sites", { name: "Lichen Saddle", latitude: -27.42, longitude: -70.15, elevationM: 2650 });
-    const campaign = await lead<{ id: number }>(`/sites/${site.id}/campaigns`, { name: "Wizard trial", monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 } });
-    const admin = await apiAs("admin");
+    const lead = await apiAs(server.url, "lead");
+    const site = await lead<{ id: number }>("/sites", { body: { name: "Lichen Saddle", latitude: -27.42, longitude: -70.15, elevationM: 2650 } });
+    const campaign = await lead<{ id: number }>(`/sites/${site.id}/campaigns`, { body: { name: "Wizard trial", monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 } } });
+    const admin = await apiAs(server.url, "admin");
     const users = await admin<{ id: string; email: string }[]>("/users");
     const engineer = users.find((user) => user.email === "engineer@calmcrest.test");
     expect(engineer).toBeDefined();
-    await admin(`/campaigns/${campaign.id}/members`, { userId: engineer?.id });
+    await admin(`/campaigns/${campaign.id}/members`, { body: { userId: engineer?.id } });
 
     const { page } = browser;
     await signInAs("engineer");

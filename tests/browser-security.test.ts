@@ -2,7 +2,7 @@ import { createServer, get as httpGet, type IncomingHttpHeaders, type Server } f
 import { brotliDecompressSync, gunzipSync } from "node:zlib";
 import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PASSWORD, openBrowser, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
+import { apiAs, openBrowser, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
 
 // The built app under its content security policy in a real chromium: every screen loads with no CSP violation,
 // including map tiles from a configured tile host on another origin (a local stand-in tile server).
@@ -57,19 +57,8 @@ describe("the built app under its content security policy", () => {
 
   it("loads sign-in, the map with tiles from the configured host, and a site page with no CSP violation", async () => {
     const { page } = browser;
-    const signInAnswer = await fetch(`${server.url}/api/auth/sign-in`, {
-      method: "POST",
-      headers: { "Content-Type": "application/json", Origin: server.url },
-      body: JSON.stringify({ email: "lead@calmcrest.test", password: DEMO_PASSWORD }),
-    });
-    const cookie = (signInAnswer.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
-    const created = await fetch(`${server.url}/api/sites`, {
-      method: "POST",
-      headers: { "Content-Type": "application/json", Origin: server.url, Cookie: cookie },
-      body: JSON.stringify({ name: "Policy Knoll", latitude: -24.6, longitude: -70.4, elevationM: 2900 }),
-    });
-    expect(created.status).toBe(201);
-    const site = (await created.json()) as { id: number };
+    const lead = await apiAs(server.url, "lead");
+    const site = await lead<{ id: number }>("/sites", { body: { name: "Policy Knoll", latitude: -24.6, longitude: -70.4, elevationM: 2900 } });
 
     await signIn(page, server.url, "lead");
     await page.goto(`${server.url}/sites`);

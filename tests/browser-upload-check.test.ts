@@ -2,7 +2,7 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PASSWORD, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
+import { apiAs, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
 
 // The upload wizard's whole-file check in a real chromium: late bad rows found before the upload, the
 // confirmation a file with no usable row needs, the comment block's monitor settings, removing a file of a batch,
@@ -16,14 +16,8 @@ const PX2_LOG = join(repoRoot, "data-samples/native-px2.tsv");
 
 beforeAll(async () => {
   server = await startServer({ seed: "users" });
-  const signInResponse = await fetch(`${server.url}/api/auth/sign-in`, {
-    method: "POST",
-    headers: { "Content-Type": "application/json", Origin: server.url },
-    body: JSON.stringify({ email: "lead@calmcrest.test", password: DEMO_PASSWORD }),
-  });
-  const cookie = (signInResponse.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
-  const post = async (path: string, body: unknown) =>
-    (await (await fetch(`${server.url}/api${path}`, { method: "POST", headers: { Cookie: cookie, Origin: server.url, "Content-Type": "application/json" }, body: JSON.stringify(body) })).json()) as { id: number };
+  const lead = await apiAs(server.url, "lead");
+  const post = (path: string, body: unknown) => lead<{ id: number }>(path, { body });
   const site = await post("/sites", { name: "Check Knoll", latitude: -27.42, longitude: -70.15, elevationM: 2650 });
   campaignId = (await post(`/sites/${site.id}/campaigns`, { name: "Check monitor", monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 } })).id;
   browser = await openBrowser({ width: 1366, height: 900 });

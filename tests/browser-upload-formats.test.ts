@@ -1,7 +1,7 @@
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
-import { DEMO_PASSWORD, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
+import { apiAs, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
 
 // The layouts monitors write, uploaded through the wizard to the counts documented in data-samples/README.md:
 // date and time in two columns, columns aligned with runs of blanks, a delimiter the detection gets wrong, and a
@@ -12,14 +12,8 @@ let newCampaign: (name: string) => Promise<number>;
 
 beforeAll(async () => {
   server = await startServer({ seed: "users" });
-  const signInResponse = await fetch(`${server.url}/api/auth/sign-in`, {
-    method: "POST",
-    headers: { "Content-Type": "application/json", Origin: server.url },
-    body: JSON.stringify({ email: "lead@calmcrest.test", password: DEMO_PASSWORD }),
-  });
-  const cookie = (signInResponse.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
-  const post = async (path: string, body: unknown) =>
-    (await (await fetch(`${server.url}/api${path}`, { method: "POST", headers: { Cookie: cookie, Origin: server.url, "Content-Type": "application/json" }, body: JSON.stringify(body) })).json()) as { id: number };
+  const lead = await apiAs(server.url, "lead");
+  const post = (path: string, body: unknown) => lead<{ id: number }>(path, { body });
   const site = await post("/sites", { name: "Layout Mesa", latitude: -27.42, longitude: -70.15, elevationM: 2650 });
   // One campaign per file: the sample files share their times, which one campaign would count as duplicates.
   newCampaign = async (name: string) => (await post(`/sites/${site.id}/campaigns`, { name, monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 } })).id;

@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PASSWORD, openBrowser, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
+import { apiAs, openBrowser, type ApiClient, repoRoot, screenshot, signIn, startServer, type BrowserSession, type RunningServer } from "./support/browser";
 
 // The few answer fields this test reads (the tests package does not depend on the contracts).
 interface SiteDetail {
@@ -17,21 +17,12 @@ interface UploadStatus {
 // Withdraw, restore and re-read of an upload on the campaign page, in a real chromium, as the survey lead.
 let server: RunningServer;
 let browser: BrowserSession;
-let cookie = "";
 
 const FWHM_LOG = join(repoRoot, "data-samples/wizard-fwhm-airmass.csv");
 // The wind column taken for the seeing: a mistake the re-read corrects.
 const WRONG = { time_utc: "Timestamp (UTC)", seeing_arcsec: "Wind [m/s]", airmass: "Airmass" };
 
-async function api<T>(path: string, init: { body?: unknown; form?: FormData } = {}): Promise<T> {
-  const response = await fetch(`${server.url}/api${path}`, {
-    method: init.body === undefined && init.form === undefined ? "GET" : "POST",
-    headers: { Cookie: cookie, Origin: server.url, ...(init.body === undefined ? {} : { "Content-Type": "application/json" }) },
-    body: init.form ?? (init.body === undefined ? undefined : JSON.stringify(init.body)),
-  });
-  if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
-  return (await response.json()) as T;
-}
+let api: ApiClient;
 
 async function waitDone(uploadId: number): Promise<UploadStatus> {
   for (;;) {
@@ -46,12 +37,7 @@ let uploadId = 0;
 
 beforeAll(async () => {
   server = await startServer({ seed: "users" });
-  const signInResponse = await fetch(`${server.url}/api/auth/sign-in`, {
-    method: "POST",
-    headers: { "Content-Type": "application/json", Origin: server.url },
-    body: JSON.stringify({ email: "lead@calmcrest.test", password: DEMO_PASSWORD }),
-  });
-  cookie = (signInResponse.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
+  api = await apiAs(server.url, "lead");
   const site = await api<SiteDetail>("/sites", { body: { name: "Undo Knoll", latitude: -27.42, longitude: -70.15, elevationM: 2650 } });
   campaign = await api<CampaignDetail>(`/sites/${site.id}/campaigns`, { body: { name: "Knoll monitor", monitor: { apertureMm: 60, baselineMm: 200, wavelengthNm: 500 } } });
   const form = new FormData();

@@ -99,6 +99,30 @@ export async function openBrowser(viewport = { width: 1366, height: 900 }): Prom
   };
 }
 
+/** A signed-in API client for test setup: GET without `send`, else POST of its JSON `body` or multipart `form`; throws on a non-2xx answer. */
+export type ApiClient = <T>(path: string, send?: { body?: unknown; form?: FormData }) => Promise<T>;
+
+/** Signs `role` in through the API (screens under test are driven through the browser; setup goes this way). */
+export async function apiAs(baseUrl: string, role: Role, password = DEMO_PASSWORD): Promise<ApiClient & { cookie: string }> {
+  const response = await fetch(`${baseUrl}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { "Content-Type": "application/json", Origin: baseUrl },
+    body: JSON.stringify({ email: `${role}@calmcrest.test`, password }),
+  });
+  if (response.status !== 200) throw new Error(`sign-in as ${role}: ${response.status} ${await response.text()}`);
+  const cookie = (response.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
+  const client = async <T>(path: string, send?: { body?: unknown; form?: FormData }): Promise<T> => {
+    const answer = await fetch(`${baseUrl}/api${path}`, {
+      method: send === undefined ? "GET" : "POST",
+      headers: { Cookie: cookie, Origin: baseUrl, ...(send?.body === undefined ? {} : { "Content-Type": "application/json" }) },
+      body: send?.form ?? (send?.body === undefined ? undefined : JSON.stringify(send.body)),
+    });
+    if (!answer.ok) throw new Error(`${path}: ${answer.status} ${await answer.text()}`);
+    return (await answer.json()) as T;
+  };
+  return Object.assign(client, { cookie });
+}
+
 export async function signIn(page: Page, baseUrl: string, role: Role, password = DEMO_PASSWORD) {
   await page.goto(`${baseUrl}/sign-in`);
   await page.getByLabel("E-mail").fill(`${role}@calmcrest.test`);

@@ -51,7 +51,6 @@ export { monitorOf, monitorColumns, campaignMonitor, campaignListItem, type Camp
 export { siteLocationOf, siteListItem, siteRef, type SiteRow } from "./sites";
 export { uploadListItem, uploadCounts, effectiveCampaign, monitorForFile, readOptionsOf, type UploadRow, type MonitorOverride, type IngestRejections, type RecordResult } from "./uploads";
 export { exclusionView, type ExclusionRow } from "./exclusions";
-export { visibleCampaignIds } from "./memberships";
 export type { UserRow } from "./users";
 export type { AuditRow } from "./audit";
 export { queueMail, type QueuedMail } from "./outbox";

@@ -6,14 +6,6 @@ import type { StoreCore } from "./core";
 
 // Campaign membership: who belongs to which campaign (engineers see only those), and its writes.
 
-/** Ids of the campaigns the user can see, or "all" (admins and leads). */
-export async function visibleCampaignIds(knex: Knex, user: User): Promise<number[] | "all"> {
-  if (user.role === "admin" || user.role === "lead") return "all";
-  if (user.role !== "engineer") return [];
-  const rows = await knex("campaign_member").where({ user_id: user.id }).select<{ campaign_id: number }[]>("campaign_id");
-  return rows.map((row) => row.campaign_id);
-}
-
 export async function isMember(knex: Knex, userId: string, campaignId: number): Promise<boolean> {
   const row = await knex("campaign_member").where({ user_id: userId, campaign_id: campaignId }).first();
   return row !== undefined;

@@ -1,4 +1,5 @@
 import type Database from "better-sqlite3";
+import type { User } from "lucia";
 import type { CampaignRow } from "./campaigns";
 import type { SiteRow } from "./sites";
 
@@ -34,9 +35,11 @@ export class RequestReads {
     return this.statement(`SELECT * FROM campaign WHERE id IN (${campaignIds.map(() => "?").join(",")}) ORDER BY id`).all(...campaignIds) as CampaignRow[];
   }
 
-  /** Ids of the campaigns the user is a member of. */
-  memberCampaignIds(userId: string): number[] {
-    return this.statement("SELECT campaign_id FROM campaign_member WHERE user_id = ?").pluck().all(userId) as number[];
+  /** Ids of the campaigns the user can see, or "all" (admins and leads); engineers see the campaigns they belong to, the committee none. */
+  visibleCampaignIds(user: User): number[] | "all" {
+    if (user.role === "admin" || user.role === "lead") return "all";
+    if (user.role !== "engineer") return [];
+    return this.statement("SELECT campaign_id FROM campaign_member WHERE user_id = ?").pluck().all(user.id) as number[];
   }
 
   isMember(userId: string, campaignId: number): boolean {

@@ -4,7 +4,6 @@ import type { SiteLocation } from "@calmcrest/seeing-stats";
 import type { CreateSiteInput, PatchSiteInput, SiteListItem, SiteSummaryBrief } from "@calmcrest/contracts";
 import { HttpError, notFound } from "../http/errors";
 import type { StoreCore } from "./core";
-import { visibleCampaignIds } from "./memberships";
 
 // Sites: rows, queries, the mapping to the engine's SiteLocation and to the contracts, and every site write.
 
@@ -62,7 +61,7 @@ export function sitesStore(core: StoreCore) {
 
     /** Every site, by name, with the ids of its campaigns the user can see (engineers: only sites where they belong to a campaign). */
     async listVisible(user: User): Promise<{ site: SiteRow; campaignIds: number[]; campaignCountAtSite: number }[]> {
-      const visible = await visibleCampaignIds(knex(), user);
+      const visible = core.reads.visibleCampaignIds(user);
       const sites = await knex()("site").orderBy("name").select<SiteRow[]>("*");
       const campaigns = await knex()("campaign").select<{ id: number; site_id: number }[]>("id", "site_id").orderBy("id");
       const bySite = new Map<number, number[]>();
@@ -84,7 +83,7 @@ export function sitesStore(core: StoreCore) {
       const site = core.reads.site(siteId);
       if (!site) throw notFound("That site");
       const ids = core.reads.campaignIdsOfSite(siteId);
-      const visible = user.role === "admin" || user.role === "lead" ? "all" : user.role === "engineer" ? core.reads.memberCampaignIds(user.id) : [];
+      const visible = core.reads.visibleCampaignIds(user);
       const campaignIds = visible === "all" ? ids : ids.filter((id) => visible.includes(id));
       // An engineer sees a site only through a campaign there they belong to.
       if (visible !== "all" && campaignIds.length === 0) throw notFound("That site");

@@ -1,5 +1,4 @@
 import type { Knex } from "knex";
-import type { User } from "lucia";
 import type { CampaignMember } from "@calmcrest/contracts";
 import { HttpError, notFound } from "../http/errors";
 import type { StoreCore } from "./core";
